@@ -1,0 +1,148 @@
+"""``boundscape convert``: one-off conversions between physical conditions and engine inputs.
+
+Wired into the main command by ``cli_convert.register(subparsers)``; the handler is stored as
+``func`` in the parsed namespace and returns the exit status.
+"""
+
+from __future__ import annotations
+
+import argparse
+import json
+import sys
+
+from .errors import InputError
+from .presets import Nuclear, Plasma, Semiconductor
+from .units import BOHR_M, UNITS, convert
+
+__all__ = ["register", "run"]
+
+
+def register(subparsers) -> argparse.ArgumentParser:
+    """Add the ``convert`` subcommand (with its own sub-subcommands) to an argparse subparsers object.
+
+    Parameters
+    ----------
+    subparsers : argparse._SubParsersAction
+        What ``ArgumentParser.add_subparsers()`` returned.
+
+    Returns
+    -------
+    argparse.ArgumentParser
+        The ``convert`` parser.
+    """
+    parser = subparsers.add_parser(
+        "convert", help="convert units, or physical conditions (plasma, semiconductor, nuclear) to engine inputs",
+        description="Convert a value between units, or physical conditions to the engine's "
+                    "(strength, screening length, mass) in atomic or preset units.")
+    kinds = parser.add_subparsers(dest="convert_kind", metavar="KIND", required=True)
+
+    def add(name, help_text):
+        p = kinds.add_parser(name, help=help_text, description=help_text)
+        p.add_argument("--format", choices=("table", "json"), default="table", help="output format (default table)")
+        p.set_defaults(func=run)
+        return p
+
+    p = add("unit", "convert VALUE from one unit to another of the same quantity")
+    p.add_argument("value", type=float)
+    p.add_argument("from_unit", metavar="FROM", help=f"one of: {', '.join(UNITS)}")
+    p.add_argument("to_unit", metavar="TO")
+
+    p = add("plasma", "Debye length of a plasma, or the electron density giving a screening length")
+    which = p.add_mutually_exclusive_group(required=True)
+    which.add_argument("--density", type=float, help="electron density n_e")
+    which.add_argument("--screening-length", type=float, help="Debye length, in bohr")
+    p.add_argument("--density-unit", default="cm-3", choices=("cm-3", "m-3"), help="unit of --density (default cm-3)")
+    p.add_argument("--temperature", type=float, required=True, help="electron temperature T_e")
+    p.add_argument("--temperature-unit", default="eV", choices=("eV", "K"), help="unit of --temperature (default eV)")
+    p.add_argument("--species", default="electrons", choices=("electrons", "electrons_and_ions"))
+    p.add_argument("--ion-charge", type=float, default=1.0, help="charge Z of the ion (and of the screening ions)")
+    p.add_argument("--ion-temperature-ratio", type=float, default=1.0, help="T_i/T_e when ions screen (default 1)")
+
+    p = add("semiconductor", "effective Bohr radius and Rydberg, and the screening length of a carrier density")
+    p.add_argument("--effective-mass", type=float, required=True, help="μ*, electron masses")
+    p.add_argument("--permittivity", type=float, required=True, help="relative permittivity ε_r")
+    which = p.add_mutually_exclusive_group()
+    which.add_argument("--density", type=float, help="carrier density, cm-3")
+    which.add_argument("--screening-length", type=float, help="screening length in effective Bohr radii a*")
+    p.add_argument("--screening", default="thomas_fermi", choices=("thomas_fermi", "debye"))
+    p.add_argument("--temperature", type=float, default=300.0, help="carrier temperature, K (debye screening)")
+    p.add_argument("--donor-charge", type=float, default=1.0)
+
+    p = add("nuclear", "a Yukawa well -g² exp(-r/λ)/r in MeV and fm as engine inputs")
+    p.add_argument("--reduced-mass", type=float, required=True, help="μ, MeV/c²")
+    p.add_argument("--coupling", type=float, required=True, help="g², MeV fm")
+    p.add_argument("--range", type=float, required=True, help="λ, fm")
+    return parser
+
+
+def _rows(args) -> list[tuple[str, float, str]]:
+    if args.convert_kind == "unit":
+        return [(f"{args.value:g} {args.from_unit}", convert(args.value, args.from_unit, args.to_unit), args.to_unit)]
+    if args.convert_kind == "plasma":
+        temperature_eV = args.temperature if args.temperature_unit == "eV" else convert(
+            args.temperature, "K", "eV_temperature")
+        plasma = Plasma(species=args.species, screening_ion_charge=args.ion_charge,
+                        ion_temperature_ratio=args.ion_temperature_ratio)
+        if args.density is not None:
+            density = convert(args.density, args.density_unit, "m-3")
+            lam_m = float(plasma.debye_length(density, temperature_eV))
+        else:
+            lam_m = float(args.screening_length) * BOHR_M
+            density = float(plasma.density_for(lam_m, temperature_eV))
+        engine = plasma.to_engine(args.ion_charge, density, temperature_eV)
+        return [("electron density", convert(density, "m-3", "cm-3"), "cm-3"),
+                ("electron temperature", temperature_eV, "eV"),
+                ("Debye length", lam_m, "m"), ("Debye length", lam_m / 1e-9, "nm"),
+                ("engine strength Z", engine.strength, "1"), ("engine screening_length", engine.screening_length, "bohr"),
+                ("engine mass", engine.mass, "electron masses")]
+    if args.convert_kind == "semiconductor":
+        semi = Semiconductor(effective_mass=args.effective_mass, permittivity=args.permittivity,
+                             screening=args.screening, temperature_K=args.temperature)
+        eff = semi.effective
+        rows = [("effective Bohr radius a*", eff.length_m / 1e-9, "nm"),
+                ("effective Rydberg Ry*", eff.energy_eV / 2 * 1e3, "meV"),
+                ("effective hartree 2Ry*", eff.energy_eV * 1e3, "meV")]
+        if args.density is None and args.screening_length is None:
+            return rows
+        if args.density is not None:
+            density = convert(args.density, "cm-3", "m-3")
+            lam_m = float(semi.screening_length(density))
+        else:
+            lam_m = float(args.screening_length) * eff.length_m
+            density = float(semi.density_for(lam_m))
+        as_effective = semi.to_engine(density, args.donor_charge, units="effective")
+        as_atomic = semi.to_engine(density, args.donor_charge, units="atomic")
+        return rows + [
+            ("carrier density", convert(density, "m-3", "cm-3"), "cm-3"),
+            (f"screening length ({args.screening})", lam_m / 1e-9, "nm"),
+            ("effective units: strength", as_effective.strength, "1"),
+            ("effective units: screening_length", as_effective.screening_length, "a*"),
+            ("effective units: mass", as_effective.mass, "μ*"),
+            ("atomic units: strength", as_atomic.strength, "1"),
+            ("atomic units: screening_length", as_atomic.screening_length, "bohr"),
+            ("atomic units: mass", as_atomic.mass, "electron masses")]
+    nuclear = Nuclear(reduced_mass_MeV=args.reduced_mass)
+    engine = nuclear.to_engine(args.coupling, args.range)
+    x = float(nuclear.dimensionless(args.coupling, args.range))
+    return [("μ g² λ/(ħc)² (one-scale variable Z·μ·λ)", x, "1"), ("2μ g² λ/ħ²", 2 * x, "1"),
+            ("engine strength", engine.strength, "1"), ("engine screening_length", engine.screening_length, "fm"),
+            ("engine mass", engine.mass, "μ"),
+            ("energy unit (ħc)²/(μc² fm²)", engine.units.energy_J / convert(1.0, "MeV", "J"), "MeV")]
+
+
+def run(args) -> int:
+    """Print the conversion asked for in ``args``; raises :class:`InputError` on bad input."""
+    for name in ("density", "screening_length", "temperature", "effective_mass", "permittivity",
+                 "reduced_mass", "coupling", "range"):
+        value = getattr(args, name, None)
+        if value is not None and not value > 0:
+            raise InputError(f"--{name.replace('_', '-')} must be positive, got {value:g}")
+    rows = _rows(args)
+    if args.format == "json":
+        json.dump([{"quantity": q, "value": v, "unit": u} for q, v, u in rows], sys.stdout, indent=1)
+        sys.stdout.write("\n")
+    else:
+        width = max(len(q) for q, _, _ in rows)
+        for q, v, u in rows:
+            print(f"{q:<{width}}  {v:<.10g}  {u}")
+    return 0

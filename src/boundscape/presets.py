@@ -1,0 +1,285 @@
+"""Physical presets: plasma, semiconductor and nuclear conditions as engine parameters, and back.
+
+Each preset says in which :class:`~boundscape.units.UnitSystem` a cube's numbers are read and how
+its screening length follows from physical conditions (densities, temperatures).  The engine
+itself only ever sees (strength, screening length, mass) in that system's units.
+
+Choices stated once here:
+
+* plasma -- atomic units; the strength is the ion charge Z; λ is the Debye length.
+* semiconductor -- ``units: effective`` reads the cube in effective atomic units (strength = donor
+  charge, mass 1, lengths in a*, energies in 2 Ry*); ``units: atomic`` reads it in true atomic
+  units (strength = donor charge/ε_r, mass = μ*).  Both describe one problem (one-scale law).
+* nuclear -- lengths in b fm, the engine's mass in multiples of μ/m (m = the cube's mass), so
+  that the dimensionless product Z·m·λ equals μ g² λ/(ħc)², the one-scale variable.
+"""
+
+from __future__ import annotations
+
+import math
+from dataclasses import dataclass
+
+import numpy as np
+from scipy import constants as sc
+
+from .errors import InputError
+from .units import (ATOMIC, BOHR_M, ELECTRON_MASS_KG, FM_M, HBAR_C_MEV_FM, MEV_J, UnitSystem,
+                    effective_atomic_units, nuclear_units)
+
+__all__ = ["Plasma", "Semiconductor", "Nuclear", "from_config", "add_physical_coordinates", "PRESETS"]
+
+
+@dataclass(frozen=True)
+class EngineParameters:
+    """Engine inputs (strength, screening length, mass) in the units of ``units``."""
+
+    strength: float
+    screening_length: float
+    mass: float
+    units: UnitSystem
+
+
+def _positive(name, value):
+    arr = np.asarray(value, dtype=float)
+    if not np.all(np.isfinite(arr)) or np.any(arr <= 0):
+        raise InputError(f"{name} must be positive and finite, got {value!r}")
+    return arr if arr.ndim else float(arr)
+
+
+@dataclass(frozen=True)
+class Plasma:
+    """Electrons screening an ion of charge Z: Debye–Hückel (Yukawa) potential.
+
+    Parameters
+    ----------
+    species : {"electrons", "electrons_and_ions"}
+        Who screens.  With ions, quasi-neutral ions of charge ``screening_ion_charge`` at
+        temperature ``ion_temperature_ratio`` × T_e add Z_i² n_i/T_i = Z_i n_e/T_i to 1/λ_D².
+    temperature_eV : float
+        Reference electron temperature for the density coordinate added to a cube.
+    reduced_mass : float
+        Electron–ion reduced mass in electron masses (1 for an infinitely heavy ion).
+
+    References
+    ----------
+    NRL Plasma Formulary (2019), p. 28: λ_D = 7.43×10² (T/eV)^{1/2} (n/cm⁻³)^{−1/2} cm;
+    Chen, *Introduction to Plasma Physics*, §1.4.
+    """
+
+    species: str = "electrons"
+    screening_ion_charge: float = 1.0
+    ion_temperature_ratio: float = 1.0
+    temperature_eV: float = 10.0
+    reduced_mass: float = 1.0
+
+    def __post_init__(self):
+        if self.species not in ("electrons", "electrons_and_ions"):
+            raise InputError(f"plasma species must be 'electrons' or 'electrons_and_ions', got {self.species!r}")
+        for name in ("screening_ion_charge", "ion_temperature_ratio", "temperature_eV", "reduced_mass"):
+            _positive(f"plasma {name}", getattr(self, name))
+
+    units = ATOMIC
+    length_unit = "nm"
+
+    def _inverse_kT(self, temperature_eV):
+        # 1/(k T_e) [+ Z_i/(k T_i)], in 1/J: the per-electron weight of each screening species.
+        kT = np.asarray(temperature_eV, dtype=float) * sc.electron_volt
+        weight = 1.0 / kT
+        if self.species == "electrons_and_ions":
+            weight = weight + self.screening_ion_charge / (self.ion_temperature_ratio * kT)
+        return weight
+
+    def debye_length(self, electron_density, temperature_eV):
+        """λ_D in metres for n_e in m⁻³ and T_e in eV: λ_D⁻² = (e² n_e/ε₀)·Σ weights."""
+        n = _positive("electron density", electron_density)
+        _positive("electron temperature", temperature_eV)
+        return 1.0 / np.sqrt(sc.e ** 2 * n / sc.epsilon_0 * self._inverse_kT(temperature_eV))
+
+    def density_for(self, debye_length_m, temperature_eV):
+        """The electron density (m⁻³) at which λ_D equals ``debye_length_m`` at T_e (eV)."""
+        lam = _positive("Debye length", debye_length_m)
+        return sc.epsilon_0 / (sc.e ** 2 * lam ** 2 * self._inverse_kT(temperature_eV))
+
+    def to_engine(self, ion_charge, electron_density, temperature_eV) -> EngineParameters:
+        """Engine inputs for ion charge Z in a plasma of n_e (m⁻³), T_e (eV)."""
+        lam = self.debye_length(electron_density, temperature_eV) / BOHR_M
+        return EngineParameters(float(_positive("ion charge", ion_charge)), lam, self.reduced_mass, ATOMIC)
+
+
+@dataclass(frozen=True)
+class Semiconductor:
+    """A hydrogenic donor screened by free carriers of density n.
+
+    Parameters
+    ----------
+    effective_mass, permittivity : float
+        μ* (electron masses) and ε_r.
+    screening : {"thomas_fermi", "debye"}
+        Degenerate carriers: Thomas–Fermi, q_TF² = 3e²n/(2εE_F), E_F = ħ²(3π²n)^{2/3}/(2μ*mₑ)
+        (Ashcroft & Mermin, *Solid State Physics*, ch. 17).  Non-degenerate carriers: Debye,
+        λ² = ε k_B T/(n e²) (Yu & Cardona, §6.3).
+    temperature_K : float
+        Carrier temperature for Debye screening.
+    units : {"effective", "atomic"}
+        How a cube's numbers are read (see the module docstring).
+    """
+
+    effective_mass: float = 0.067
+    permittivity: float = 12.9
+    screening: str = "thomas_fermi"
+    temperature_K: float = 300.0
+    units_choice: str = "effective"
+
+    def __post_init__(self):
+        if self.screening not in ("thomas_fermi", "debye"):
+            raise InputError(f"semiconductor screening must be 'thomas_fermi' or 'debye', got {self.screening!r}")
+        if self.units_choice not in ("effective", "atomic"):
+            raise InputError(f"semiconductor units must be 'effective' or 'atomic', got {self.units_choice!r}")
+        for name in ("effective_mass", "permittivity", "temperature_K"):
+            _positive(f"semiconductor {name}", getattr(self, name))
+
+    length_unit = "nm"
+
+    @property
+    def effective(self) -> UnitSystem:
+        return effective_atomic_units(self.effective_mass, self.permittivity)
+
+    @property
+    def units(self) -> UnitSystem:
+        return self.effective if self.units_choice == "effective" else ATOMIC
+
+    @property
+    def _epsilon(self):
+        return self.permittivity * sc.epsilon_0
+
+    def screening_length(self, carrier_density):
+        """Screening length (m) for a carrier density (m⁻³)."""
+        n = _positive("carrier density", carrier_density)
+        if self.screening == "debye":
+            return np.sqrt(self._epsilon * sc.k * self.temperature_K / (n * sc.e ** 2))
+        fermi_energy = sc.hbar ** 2 * (3 * math.pi ** 2 * n) ** (2 / 3) / (2 * self.effective_mass * ELECTRON_MASS_KG)
+        return 1.0 / np.sqrt(3 * sc.e ** 2 * n / (2 * self._epsilon * fermi_energy))
+
+    def density_for(self, screening_length_m):
+        """The carrier density (m⁻³) whose screening length is ``screening_length_m``."""
+        lam = _positive("screening length", screening_length_m)
+        if self.screening == "debye":
+            return self._epsilon * sc.k * self.temperature_K / (sc.e ** 2 * lam ** 2)
+        # q² = 3 e² μ* mₑ n^{1/3} / (ε ħ² (3π²)^{2/3}), solved for n.
+        cube_root = (3 * math.pi ** 2) ** (2 / 3) * self._epsilon * sc.hbar ** 2 / (
+            3 * sc.e ** 2 * self.effective_mass * ELECTRON_MASS_KG * lam ** 2)
+        return cube_root ** 3
+
+    def to_engine(self, carrier_density, donor_charge=1.0, units=None) -> EngineParameters:
+        """Engine inputs for a donor of charge ``donor_charge`` at a carrier density (m⁻³)."""
+        units = units or self.units_choice
+        lam_m = self.screening_length(carrier_density)
+        if units == "effective":
+            return EngineParameters(float(donor_charge), lam_m / self.effective.length_m, 1.0, self.effective)
+        return EngineParameters(float(donor_charge) / self.permittivity, lam_m / BOHR_M, self.effective_mass, ATOMIC)
+
+    def donor_charge(self, strength):
+        """The donor charge a cube's strength axis stands for."""
+        return np.asarray(strength, dtype=float) * (1.0 if self.units_choice == "effective" else self.permittivity)
+
+
+@dataclass(frozen=True)
+class Nuclear:
+    """V = −g² e^{−r/λ}/r with g² in MeV·fm, λ in fm, reduced mass μ in MeV/c².
+
+    The engine's Z, λ, m read in :func:`~boundscape.units.nuclear_units` give
+    g² = Z·(ħc)²·m/(μc²·b) and λ = λ_engine·b fm; the one-scale variable Z·m·λ is μ g² λ/(ħc)².
+    """
+
+    reduced_mass_MeV: float = 469.4591  # about half a nucleon mass, for a deuteron-like pair
+    length_fm: float = 1.0
+
+    def __post_init__(self):
+        _positive("nuclear reduced_mass_MeV", self.reduced_mass_MeV)
+        _positive("nuclear length_fm", self.length_fm)
+
+    length_unit = "fm"
+
+    def system(self, cube_mass: float = 1.0) -> UnitSystem:
+        return nuclear_units(self.reduced_mass_MeV / cube_mass, self.length_fm)
+
+    @property
+    def units(self) -> UnitSystem:
+        return self.system(1.0)
+
+    def dimensionless(self, coupling_MeV_fm, range_fm):
+        """μ g² λ/(ħc)²: the one-scale variable; 2× it is 2μg²λ/ħ²."""
+        return self.reduced_mass_MeV * np.asarray(coupling_MeV_fm) * np.asarray(range_fm) / HBAR_C_MEV_FM ** 2
+
+    def to_engine(self, coupling_MeV_fm, range_fm) -> EngineParameters:
+        """Engine inputs (mass 1) for a coupling g² (MeV·fm) and range λ (fm)."""
+        g2 = _positive("coupling g²", coupling_MeV_fm)
+        lam = _positive("range λ", range_fm)
+        units = self.units
+        return EngineParameters(g2 * MEV_J * FM_M / units.coupling_J_m, lam * FM_M / units.length_m, 1.0, units)
+
+    def coupling_MeV_fm(self, strength, cube_mass: float = 1.0):
+        return np.asarray(strength, dtype=float) * self.system(cube_mass).coupling_J_m / (MEV_J * FM_M)
+
+
+PRESETS = {"plasma": Plasma, "semiconductor": Semiconductor, "nuclear": Nuclear}
+
+
+def from_config(section: dict | None):
+    """A preset object from the config's ``preset`` mapping (``None`` if absent)."""
+    if not section:
+        return None
+    section = dict(section)
+    kind = section.pop("kind", None)
+    if kind not in PRESETS:
+        raise InputError(f"preset.kind must be one of {', '.join(PRESETS)}, got {kind!r}")
+    section.pop("map", None)  # plotting ranges, read by the figures
+    if kind == "semiconductor" and "units" in section:
+        section["units_choice"] = section.pop("units")
+    try:
+        return PRESETS[kind](**section)
+    except TypeError as exc:
+        raise InputError(f"preset {kind}: {exc}") from None
+
+
+def add_physical_coordinates(ds, preset, cube_mass=None):
+    """Return ``ds`` with the preset's physical coordinates next to the atomic ones.
+
+    Adds ``screening_length_<unit>`` along ``screening_length`` and, per preset, the
+    ``electron_density`` (plasma, at the reference temperature), ``carrier_density`` and
+    ``donor_charge`` (semiconductor) or ``coupling`` g² (nuclear); each with CF units.
+    """
+    if preset is None:
+        return ds
+    mass = float(ds.attrs.get("mass", 1.0) if cube_mass is None else cube_mass)
+    lam = ds["screening_length"].values
+    coords = {}
+    kind = type(preset).__name__.lower()
+    if isinstance(preset, Nuclear):
+        units = preset.system(mass)
+        coords["coupling"] = ("strength", preset.coupling_MeV_fm(ds["strength"].values, mass),
+                              {"long_name": "coupling g² of V = -g² exp(-r/λ)/r", "units": "MeV fm"})
+    else:
+        units = preset.units
+        if isinstance(preset, Semiconductor) and units is ATOMIC and not math.isclose(mass, preset.effective_mass):
+            raise InputError(f"preset semiconductor (units: atomic) needs potential.mass = effective_mass "
+                             f"{preset.effective_mass:g}, the cube has mass {mass:g}")
+    lam_m = lam * units.length_m
+    unit = preset.length_unit
+    scale = {"nm": sc.nano, "fm": FM_M}[unit]
+    coords[f"screening_length_{unit}"] = ("screening_length", lam_m / scale, {
+        "long_name": f"screening length in {unit} ({kind} preset)", "units": unit})
+    if isinstance(preset, Plasma):
+        coords["electron_density"] = ("screening_length", preset.density_for(lam_m, preset.temperature_eV), {
+            "long_name": f"electron density giving this Debye length at T_e = {preset.temperature_eV:g} eV",
+            "units": "m-3"})
+    if isinstance(preset, Semiconductor):
+        coords["carrier_density"] = ("screening_length", preset.density_for(lam_m), {
+            "long_name": f"carrier density giving this screening length ({preset.screening})", "units": "m-3"})
+        coords["donor_charge"] = ("strength", preset.donor_charge(ds["strength"].values), {
+            "long_name": "donor charge number", "units": "1"})
+    out = ds.assign_coords({k: (d, np.asarray(v, dtype=float), a) for k, (d, v, a) in coords.items()})
+    out.attrs["preset"] = kind
+    out.attrs["preset_energy_unit_J"] = units.energy_J
+    out.attrs["preset_length_unit_m"] = units.length_m
+    return out

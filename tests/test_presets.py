@@ -1,0 +1,200 @@
+"""Presets: physical conditions to engine inputs, against handbook formulas and the engine."""
+
+import argparse
+import json
+import math
+
+import numpy as np
+import pytest
+import xarray as xr
+from scipy import constants as sc
+from scipy.constants import physical_constants as pc
+
+import boundscape as bs
+from boundscape import cli_convert
+from boundscape.errors import InputError
+from boundscape.presets import Nuclear, Plasma, Semiconductor, add_physical_coordinates, from_config
+
+BOHR = pc["Bohr radius"][0]
+HBAR_C = pc["reduced Planck constant times c in MeV fm"][0]
+# Rogers, Graboske & Harwood, Phys. Rev. A 1, 1577 (1970): the Yukawa ground state is lost at
+# λ = 1/(1.19061 Z μ) (value from memory).
+RGH_CRITICAL = 1.19061
+
+
+def _engine_ready():
+    try:
+        bs.count_bound(bs.potential("yukawa", 1.0, 10.0), 0)
+    except NotImplementedError:
+        return False
+    return True
+
+
+needs_engine = pytest.mark.skipif(not _engine_ready(), reason="radial engine not landed yet")
+
+
+@pytest.mark.parametrize("T_eV, n_cm3", [(1.0, 1.0), (10.0, 1e18), (1e3, 1e22), (0.1, 1e12)])
+def test_debye_length_matches_nrl_formulary(T_eV, n_cm3):
+    # NRL Plasma Formulary: λ_D = 7.43e2 (T_e/eV)^{1/2} (n_e/cm^-3)^{-1/2} cm, to its 3 digits.
+    lam_cm = Plasma().debye_length(n_cm3 * 1e6, T_eV) * 100
+    coefficient = lam_cm / math.sqrt(T_eV / n_cm3)
+    assert f"{coefficient:.3g}" == "743"
+
+
+def test_ions_add_to_the_inverse_square_debye_length():
+    # 1/λ_D² = Σ_s n_s q_s²/(ε₀ k T_s) (Chen, Introduction to Plasma Physics, §1.4; from memory):
+    # quasi-neutral ions of charge 2 (n_i = n_e/2) at T_i = T_e/2 add 2·2 = 4 times the electrons' term.
+    n, T = 1e24, 5.0
+    electrons = Plasma().debye_length(n, T)
+    both = Plasma(species="electrons_and_ions", screening_ion_charge=2.0, ion_temperature_ratio=0.5).debye_length(n, T)
+    assert both == pytest.approx(electrons / math.sqrt(5.0), rel=1e-12)
+    same = Plasma(species="electrons_and_ions").debye_length(n, T)
+    assert same == pytest.approx(electrons / math.sqrt(2.0), rel=1e-12)
+
+
+@pytest.mark.parametrize("species", ["electrons", "electrons_and_ions"])
+def test_plasma_density_inverts_debye_length(species):
+    plasma = Plasma(species=species, screening_ion_charge=3.0)
+    n = np.logspace(18, 28, 7)
+    lam = plasma.debye_length(n, 20.0)
+    np.testing.assert_allclose(plasma.density_for(lam, 20.0), n, rtol=1e-12)
+    engine = plasma.to_engine(2.0, 1e26, 20.0)
+    assert engine.screening_length == pytest.approx(plasma.debye_length(1e26, 20.0) / BOHR, rel=1e-14)
+    assert (engine.strength, engine.mass) == (2.0, 1.0)
+
+
+def test_thomas_fermi_wavenumber():
+    # q_TF² = (4/π) k_F/a* with k_F = (3π² n)^{1/3} (Ashcroft & Mermin, Solid State Physics, eq. 17.55
+    # with a₀ -> a* in a medium; value from memory), an independent route to the same formula.
+    semi = Semiconductor(effective_mass=0.067, permittivity=12.9)
+    n = np.array([1e22, 1e23, 1e24, 1e25])
+    a_star = 12.9 / 0.067 * BOHR
+    k_F = (3 * math.pi ** 2 * n) ** (1 / 3)
+    q = np.sqrt(4 * k_F / (math.pi * a_star))
+    np.testing.assert_allclose(semi.screening_length(n), 1 / q, rtol=1e-12)
+    np.testing.assert_allclose(semi.density_for(1 / q), n, rtol=1e-11)
+
+
+def test_semiconductor_debye_length_is_the_plasma_one_times_sqrt_permittivity():
+    # λ = sqrt(ε_r ε₀ k T/(n e²)): the NRL Formulary's 7.43e2 (T/eV)^{1/2} n^{-1/2} cm times √ε_r.
+    semi = Semiconductor(effective_mass=0.2, permittivity=11.7, screening="debye", temperature_K=300.0)
+    n_cm3 = 1e17
+    T_eV = sc.k * 300.0 / sc.e
+    coefficient = semi.screening_length(n_cm3 * 1e6) * 100 / math.sqrt(11.7 * T_eV / n_cm3)
+    assert f"{coefficient:.3g}" == "743"
+    np.testing.assert_allclose(semi.density_for(semi.screening_length(1e23)), 1e23, rtol=1e-12)
+
+
+def test_semiconductor_mappings_share_the_one_scale_variable():
+    # Effective units (Z=1, μ=1, λ in a*) and true atomic units (Z=1/ε_r, μ=μ*, λ in bohr) give the
+    # same Z·μ·λ and the same energy unit Z²μ hartree = (μ*/ε_r²) hartree (one-scale law).
+    semi = Semiconductor(effective_mass=0.067, permittivity=12.9)
+    eff = semi.to_engine(3e23, units="effective")
+    atomic = semi.to_engine(3e23, units="atomic")
+    assert eff.strength * eff.mass * eff.screening_length == pytest.approx(
+        atomic.strength * atomic.mass * atomic.screening_length, rel=1e-12)
+    assert eff.units.energy_J == pytest.approx(atomic.strength ** 2 * atomic.mass * pc["Hartree energy"][0], rel=1e-9)
+
+
+@needs_engine
+def test_semiconductor_mappings_agree_on_the_engine():
+    semi = Semiconductor(effective_mass=0.067, permittivity=12.9)
+    eff = semi.to_engine(1e22, units="effective")
+    atomic = semi.to_engine(1e22, units="atomic")
+    e_eff = bs.bound_levels(bs.potential("yukawa", eff.strength, eff.screening_length, eff.mass), 0).energy
+    e_atomic = bs.bound_levels(bs.potential("yukawa", atomic.strength, atomic.screening_length, atomic.mass), 0).energy
+    assert len(e_eff) == len(e_atomic) > 0
+    np.testing.assert_allclose(e_eff * eff.units.energy_J, e_atomic * pc["Hartree energy"][0], rtol=1e-8)
+
+
+def test_nuclear_one_scale_variable_equals_true_atomic_units():
+    # μ g² λ/(ħc)² against Z μ λ in true atomic units: Z = g²/(α ħc), μ/mₑ, λ/a₀ (CODATA via scipy).
+    nuc = Nuclear(reduced_mass_MeV=469.4591)
+    g2, lam = 45.0, 1.4
+    Z = g2 / (sc.alpha * HBAR_C)
+    mu = 469.4591 / pc["electron mass energy equivalent in MeV"][0]
+    lam_bohr = lam * 1e-15 / BOHR
+    assert nuc.dimensionless(g2, lam) == pytest.approx(Z * mu * lam_bohr, rel=1e-9)
+    engine = nuc.to_engine(g2, lam)
+    assert engine.strength * engine.mass * engine.screening_length == pytest.approx(Z * mu * lam_bohr, rel=1e-9)
+    np.testing.assert_allclose(nuc.coupling_MeV_fm(engine.strength), g2, rtol=1e-12)
+
+
+@needs_engine
+def test_nuclear_first_bound_state_threshold():
+    # A first bound state appears at 2μg²λ/ħ² = 2/1.19061 ≈ 1.6798 (Rogers, Graboske & Harwood 1970).
+    nuc = Nuclear(reduced_mass_MeV=469.4591)
+    g2 = 40.0
+    engine = nuc.to_engine(g2, 1.0)
+    lam_c = bs.critical_screening_length("yukawa", engine.strength, 0, 0, mass=engine.mass)
+    range_fm = lam_c * engine.units.length_m / 1e-15
+    assert 2 * nuc.dimensionless(g2, range_fm) == pytest.approx(2 / RGH_CRITICAL, rel=5e-6)
+    assert f"{2 * nuc.dimensionless(g2, range_fm):.5g}" == "1.6798"
+
+
+def _toy_cube(mass=1.0):
+    # Coordinates only: the physical coordinates depend on nothing else.
+    return xr.Dataset(coords={"strength": [1.0, 2.0], "screening_length": np.geomspace(1, 100, 5)},
+                      attrs={"mass": mass})
+
+
+def test_physical_coordinates_plasma():
+    plasma = Plasma(temperature_eV=10.0)
+    ds = add_physical_coordinates(_toy_cube(), plasma)
+    lam = ds["screening_length"].values
+    np.testing.assert_allclose(ds["screening_length_nm"], lam * BOHR * 1e9, rtol=1e-14)
+    np.testing.assert_allclose(plasma.debye_length(ds["electron_density"].values, 10.0), lam * BOHR, rtol=1e-12)
+    assert ds["electron_density"].attrs["units"] == "m-3"
+
+
+def test_physical_coordinates_semiconductor_and_nuclear():
+    semi = Semiconductor(effective_mass=0.067, permittivity=12.9, units_choice="atomic")
+    ds = add_physical_coordinates(_toy_cube(mass=0.067), semi)
+    np.testing.assert_allclose(ds["donor_charge"], [12.9, 25.8])
+    with pytest.raises(InputError, match="potential.mass"):
+        add_physical_coordinates(_toy_cube(mass=1.0), semi)
+    nuc = Nuclear(reduced_mass_MeV=469.4591)
+    ds = add_physical_coordinates(_toy_cube(), nuc)
+    np.testing.assert_allclose(ds["coupling"], np.array([1.0, 2.0]) * HBAR_C ** 2 / 469.4591, rtol=1e-9)
+    np.testing.assert_allclose(ds["screening_length_fm"], ds["screening_length"].values, rtol=1e-14)
+
+
+def test_config_sections():
+    assert isinstance(from_config({"kind": "nuclear", "reduced_mass_MeV": 100.0}), Nuclear)
+    assert from_config({"kind": "semiconductor", "units": "atomic"}).units_choice == "atomic"
+    assert from_config(None) is None
+    with pytest.raises(InputError, match="preset.kind"):
+        from_config({"kind": "stellar"})
+    with pytest.raises(InputError, match="preset plasma"):
+        from_config({"kind": "plasma", "colour": 3})
+    with pytest.raises(InputError, match="species"):
+        Plasma(species="ions")
+
+
+def _convert(*argv):
+    parser = argparse.ArgumentParser(prog="boundscape")
+    cli_convert.register(parser.add_subparsers(dest="command"))
+    args = parser.parse_args(["convert", *argv])
+    return args.func(args)
+
+
+def test_convert_command_json(capsys):
+    assert _convert("plasma", "--density", "1", "--temperature", "1", "--format", "json") == 0
+    rows = {(r["quantity"], r["unit"]): r["value"] for r in json.loads(capsys.readouterr().out)}
+    # NRL Plasma Formulary: 7.43e2 cm at T_e = 1 eV, n_e = 1 cm^-3.
+    assert f"{rows[('Debye length', 'm')] * 100:.3g}" == "743"
+    assert _convert("nuclear", "--reduced-mass", "469.4591", "--coupling", "45", "--range", "1.4",
+                    "--format", "json") == 0
+    rows = {r["quantity"]: r["value"] for r in json.loads(capsys.readouterr().out)}
+    assert rows["2μ g² λ/ħ²"] == pytest.approx(2 * 469.4591 * 45 * 1.4 / HBAR_C ** 2, rel=1e-12)
+
+
+def test_convert_command_table(capsys):
+    assert _convert("unit", "1", "hartree", "eV") == 0
+    out = capsys.readouterr().out
+    assert out.split()[-2] == f"{pc['Hartree energy in eV'][0]:.10g}"
+    assert _convert("semiconductor", "--effective-mass", "0.067", "--permittivity", "12.9", "--density", "1e17") == 0
+    out = capsys.readouterr().out
+    assert "effective Bohr radius a*" in out and "atomic units: strength" in out
+    with pytest.raises(InputError, match="--density must be positive"):
+        _convert("plasma", "--density", "-1", "--temperature", "1")
