@@ -1,0 +1,141 @@
+"""The sweep gives the same cube on a real SLURM cluster as on this machine.
+
+Runs a small sweep twice, each in its own copy of the workflow: once with the
+local profile, once with the SLURM profile (Snakemake's SLURM executor plugin
+submitting every job with sbatch to the single-node cluster that
+tests/cluster/start_slurm.sh starts), then compares the two cubes.
+
+Skips, with the reason, only when no SLURM cluster answers here.
+"""
+
+from __future__ import annotations
+
+import os
+import shutil
+import subprocess
+import sys
+from pathlib import Path
+
+import pytest
+import xarray as xr
+import yaml
+
+pytestmark = pytest.mark.cluster
+
+REPO = Path(__file__).resolve().parents[1]
+SWEEP = "cluster_check"
+# Enough cells for several tiles, so SLURM runs more than one job at a time,
+# yet each job is quick; the sweep's structure is the demo's.
+SMALL_GRID = {
+    "strength": [1.0, 2.0],
+    "screening_length": {"start": 0.5, "stop": 50.0, "num": 6, "spacing": "log"},
+    "l": [0, 1],
+    "n_r_max": 3,
+}
+SMALL_TILES = {"cells": 6}
+# What a workflow run needs; results/ and .snakemake/ are left behind.
+WORKFLOW_PATHS = ("Snakefile", "workflow", "config")
+RUN_TIMEOUT_S = 900
+
+
+def slurm_unavailable_reason() -> str | None:
+    """Why no SLURM cluster can take jobs here, or None when one can."""
+    hint = "start one as root with: bash tests/cluster/start_slurm.sh"
+    if shutil.which("sinfo") is None or shutil.which("sbatch") is None:
+        return f"sinfo/sbatch not found (Debian package slurm-wlm); {hint}"
+    try:
+        probe = subprocess.run(
+            ["sinfo", "--noheader", "--Node", "--format=%N %T"],
+            capture_output=True, text=True, timeout=30, stdin=subprocess.DEVNULL,
+        )
+    except subprocess.TimeoutExpired:
+        return f"sinfo did not answer within 30 s; {hint}"
+    if probe.returncode != 0:
+        first = (probe.stderr.strip().splitlines() or ["no message"])[0]
+        return f"SLURM controller not responding ({first}); {hint}"
+    nodes = [line.split() for line in probe.stdout.splitlines() if line.strip()]
+    usable = [n for n in nodes if len(n) == 2 and n[1] in ("idle", "mixed", "allocated")]
+    if not usable:
+        return f"no SLURM node can take jobs (sinfo: {probe.stdout.strip() or 'no nodes'}); {hint}"
+    return None
+
+
+def small_config() -> dict:
+    """The demo config with a small grid, so every key the schema needs is there."""
+    config = yaml.safe_load((REPO / "config" / "config.yaml").read_text())
+    config["sweep"] = SWEEP
+    config["grid"] = dict(SMALL_GRID)
+    config["tiles"] = dict(SMALL_TILES)
+    return config
+
+
+def workflow_copy(dest: Path) -> Path:
+    """Copy what the workflow needs into dest, so runs never touch the repo's results/."""
+    dest.mkdir()
+    for name in WORKFLOW_PATHS:
+        src = REPO / name
+        if src.is_dir():
+            shutil.copytree(src, dest / name, ignore=shutil.ignore_patterns(".snakemake", "__pycache__"))
+        else:
+            shutil.copy2(src, dest / name)
+    (dest / "cluster_check.yaml").write_text(yaml.safe_dump(small_config(), sort_keys=False))
+    return dest
+
+
+def run_sweep(workdir: Path, profile: str) -> str:
+    """Run the small sweep in workdir with one of the project's profiles; return its log."""
+    env = {k: v for k, v in os.environ.items() if not k.startswith("SLURM_")}
+    cmd = [
+        sys.executable, "-m", "snakemake",
+        f"results/{SWEEP}/levels.nc",  # first: --configfile takes every word after it
+        "--snakefile", str(workdir / "Snakefile"),
+        "--directory", str(workdir),
+        "--profile", str(workdir / "workflow" / "profiles" / profile),
+        "--configfile", str(workdir / "cluster_check.yaml"),
+    ]
+    try:
+        proc = subprocess.run(
+            cmd, cwd=workdir, env=env, capture_output=True, text=True,
+            timeout=RUN_TIMEOUT_S, stdin=subprocess.DEVNULL,
+        )
+    except subprocess.TimeoutExpired as exc:
+        pytest.fail(f"{profile} run did not finish in {RUN_TIMEOUT_S} s:\n{_tail(exc.stderr)}")
+    log = proc.stdout + proc.stderr
+    assert proc.returncode == 0, f"{profile} run failed (exit {proc.returncode}):\n{_tail(log)}"
+    return log
+
+
+def _tail(text: str | bytes | None, lines: int = 60) -> str:
+    if isinstance(text, bytes):
+        text = text.decode(errors="replace")
+    return "\n".join((text or "").splitlines()[-lines:])
+
+
+@pytest.fixture(scope="module")
+def cluster():
+    reason = slurm_unavailable_reason()
+    if reason:
+        pytest.skip(reason)
+
+
+def test_slurm_profile_gives_the_local_cube(cluster, tmp_path):
+    local_dir = workflow_copy(tmp_path / "local")
+    slurm_dir = workflow_copy(tmp_path / "slurm")
+
+    local_log = run_sweep(local_dir, "local")
+    slurm_log = run_sweep(slurm_dir, "slurm")
+
+    # The SLURM run really went through sbatch, not quietly through local jobs.
+    assert "submitted with SLURM jobid" in slurm_log, _tail(slurm_log)
+    assert "submitted with SLURM jobid" not in local_log
+
+    cube = f"results/{SWEEP}/levels.nc"
+    with xr.open_dataset(local_dir / cube) as local, xr.open_dataset(slurm_dir / cube) as slurm:
+        assert len(local.data_vars) > 0
+        # Values, dimensions and coordinates; NaN (state not bound) equals NaN.
+        xr.testing.assert_equal(local, slurm)
+        # Units and flag meanings are part of the data; run times and history are not.
+        for name, var in local.variables.items():
+            assert var.attrs == slurm[name].attrs, name
+        if "config_sha256" in local.attrs:
+            assert local.attrs["config_sha256"] == slurm.attrs["config_sha256"]
