@@ -1,0 +1,235 @@
+"""The sweep cube: an xarray Dataset with CF-1.10 metadata and provenance, and its NetCDF files.
+
+Energies stay in hartree and lengths in bohr; the units say so as UDUNITS-2 scaled units
+built from :mod:`scipy.constants` (e.g. ``"5.29177210544e-11 m"``), so no number is converted.
+Every file is written to a temporary name in the same directory and renamed into place, so a
+killed job never leaves a partial file under a final name.
+"""
+
+from __future__ import annotations
+
+import math
+import os
+from datetime import datetime, timezone
+from pathlib import Path
+
+import numpy as np
+
+from .tiles import CRITICAL_FLAGS, STATUS_FLAGS
+from .units import BOHR_M, BOHR_UDUNITS, HARTREE_EV, HARTREE_J, HARTREE_UDUNITS, udunits_scaled
+
+__all__ = ["build_cube", "write_cube", "open_cube", "atomic_path", "chunk_shape",
+           "CELL_DIMS", "LEVEL_DIMS", "CRITICAL_DIMS"]
+
+CELL_DIMS = ("strength", "screening_length", "l")
+LEVEL_DIMS = CELL_DIMS + ("n_r",)
+CRITICAL_DIMS = ("strength", "l", "n_r")
+# Chunks of about 1 MiB: small enough to read one slice lazily, big enough for zlib to pay
+# (common practice, no source).
+CHUNK_BYTES = 1 << 20
+MAX_LISTED = 2000  # flagged cells listed in an attribute; the tile logs hold the rest
+
+
+def _strength_units(family: str) -> tuple[str, str]:
+    from scipy.constants import hbar
+
+    if family == "square_well":
+        return HARTREE_UDUNITS, "well depth"
+    if family == "harmonic":
+        return udunits_scaled(HARTREE_J / hbar, "s-1"), "oscillator angular frequency"
+    if family == "tabulated":
+        return "1", "scale factor on the tabulated potential"
+    return "1", "charge number Z of the screened Coulomb potential"
+
+
+def chunk_shape(shape, itemsize, target=CHUNK_BYTES):
+    """Whole trailing axes, halving the leading ones until a chunk holds about ``target`` bytes."""
+    chunks = list(shape)
+    for axis in range(len(chunks)):
+        while math.prod(chunks) * itemsize > target and chunks[axis] > 1:
+            chunks[axis] = -(-chunks[axis] // 2)
+    return tuple(max(1, c) for c in chunks)
+
+
+def _listing(lines):
+    if len(lines) > MAX_LISTED:
+        lines = lines[:MAX_LISTED] + [f"... and {len(lines) - MAX_LISTED} more (see the tile logs)"]
+    return "\n".join(lines)
+
+
+def build_cube(axes, levels, criticals, *, provenance):
+    """Assemble the cube Dataset.
+
+    Parameters
+    ----------
+    axes : dict
+        ``strength``, ``screening_length`` (bohr), ``l`` and ``n_r_max``.
+    levels : dict
+        ``energy``, ``energy_error``, ``mean_radius`` (strength, screening_length, l, n_r);
+        ``num_bound``, ``status`` (strength, screening_length, l); ``reasons``, a list of one-line
+        texts naming each flagged cell.
+    criticals : dict
+        ``critical_screening_length`` and ``critical_flag`` (strength, l, n_r), ``reasons``.
+    provenance : dict
+        ``sweep``, ``family``, ``mass``, ``config_yaml``, ``config_sha256``, ``version``,
+        ``git_commit`` (or None), ``history`` (one line).
+
+    Returns
+    -------
+    xarray.Dataset
+    """
+    import xarray as xr
+
+    family = provenance["family"]
+    n_r = np.arange(axes["n_r_max"], dtype=np.int32)
+    l_values = np.asarray(axes["l"], dtype=np.int32)
+    strength_units, strength_name = _strength_units(family)
+    coords = {
+        "strength": ("strength", np.asarray(axes["strength"], np.float64),
+                     {"long_name": strength_name, "units": strength_units}),
+        "screening_length": ("screening_length", np.asarray(axes["screening_length"], np.float64),
+                             {"long_name": "radius of the well" if family == "square_well"
+                              else "screening length", "units": BOHR_UDUNITS}),
+        "l": ("l", l_values, {"long_name": "orbital angular momentum quantum number", "units": "1"}),
+        "n_r": ("n_r", n_r, {"long_name": "radial quantum number (nodes of u(r) in 0 < r < inf)",
+                             "units": "1"}),
+        "n": (("l", "n_r"), (l_values[:, None] + n_r[None, :] + 1).astype(np.int32),
+              {"long_name": "principal quantum number n = n_r + l + 1", "units": "1"}),
+    }
+    energy_attrs = {"units": HARTREE_UDUNITS, "hartree_in_eV": HARTREE_EV, "hartree_in_J": HARTREE_J}
+    status = levels["status"].astype(np.int8)
+    flagged = int(np.count_nonzero(status))
+    data_vars = {
+        "energy": (LEVEL_DIMS, levels["energy"], {
+            "long_name": "bound-state energy", **energy_attrs,
+            "comment": "NaN where the state (n_r, l) is not bound, or where status is not ok"}),
+        "energy_error": (LEVEL_DIMS, levels["energy_error"], {
+            "long_name": "absolute error estimate of the bound-state energy", **energy_attrs}),
+        "mean_radius": (LEVEL_DIMS, levels["mean_radius"], {
+            "long_name": "mean radius <r> of the bound state", "units": BOHR_UDUNITS,
+            "bohr_in_m": BOHR_M}),
+        "num_bound": (CELL_DIMS, levels["num_bound"].astype(np.int32), {
+            "long_name": "number of bound states of this l", "units": "1",
+            "comment": "exact count from the nodes of the zero-energy solution; levels with "
+                       f"n_r >= {axes['n_r_max']} are counted but not stored"}),
+        "status": (CELL_DIMS, status, {
+            "long_name": "solver status of the cell",
+            "flag_values": np.arange(len(STATUS_FLAGS), dtype=np.int8),
+            "flag_meanings": " ".join(STATUS_FLAGS),
+            "flagged_cell_count": np.int32(flagged),
+            "flagged_cells": _listing(levels["reasons"]) or "none"}),
+        "critical_screening_length": (CRITICAL_DIMS, criticals["critical_screening_length"], {
+            "long_name": "screening length below which the state (n_r, l) is not bound",
+            "units": BOHR_UDUNITS, "ancillary_variables": "critical_screening_length_flag",
+            "comment": "from the zero-energy solution by root finding; +inf where never bound; "
+                       "stored for every state, also outside the grid's screening_length range"}),
+        "critical_screening_length_flag": (CRITICAL_DIMS, criticals["critical_flag"].astype(np.int8), {
+            "long_name": "position of the critical screening length against the grid",
+            "flag_values": np.arange(len(CRITICAL_FLAGS), dtype=np.int8),
+            "flag_meanings": " ".join(CRITICAL_FLAGS),
+            "comment": "below_grid: bound over the whole grid; above_grid: not bound anywhere on it",
+            "flagged_states": _listing(criticals["reasons"]) or "none"}),
+    }
+    now = datetime.now(timezone.utc).replace(microsecond=0).isoformat()
+    attrs = {
+        "Conventions": "CF-1.10",
+        "title": f"Bound states of the {family} potential over strength x screening length x l "
+                 f"(sweep {provenance['sweep']})",
+        "institution": "boundscape",
+        "source": f"boundscape {provenance['version']} radial engine (bound_levels, "
+                  "critical_screening_length)",
+        "history": f"{now} {provenance['history']}",
+        "references": "units: CODATA values from scipy.constants",
+        "comment": "atomic units: energies in hartree, lengths in bohr, mass in electron masses",
+        "boundscape_version": provenance["version"],
+        "sweep": provenance["sweep"],
+        "family": family,
+        "mass": float(provenance["mass"]),
+        "mass_units": "electron masses",
+        "n_r_max": np.int32(axes["n_r_max"]),
+        "hartree_energy_in_J": HARTREE_J,
+        "hartree_energy_in_eV": HARTREE_EV,
+        "bohr_radius_in_m": BOHR_M,
+        "config_yaml": provenance["config_yaml"],
+        "config_sha256": provenance["config_sha256"],
+        "git_commit": provenance.get("git_commit") or "unknown",
+        "date_created": now,
+    }
+    return xr.Dataset(data_vars, coords, attrs)
+
+
+def atomic_path(path) -> Path:
+    """The temporary name a file is written under before it is renamed to ``path``."""
+    path = Path(path)
+    return path.with_name(f".{path.name}.{os.getpid()}.partial")
+
+
+def replace_atomically(write, path):
+    """Call ``write(temp_path)``, then rename the result to ``path`` (same directory, so atomic)."""
+    path = Path(path)
+    path.parent.mkdir(parents=True, exist_ok=True)
+    temp = atomic_path(path)
+    try:
+        write(temp)
+        os.replace(temp, path)
+    finally:
+        temp.unlink(missing_ok=True)
+
+
+def write_cube(ds, path):
+    """Write the cube compressed and chunked, atomically."""
+    encoding = {}
+    for name, var in ds.variables.items():
+        enc = {"_FillValue": None}
+        if name in ds.data_vars:
+            enc.update(zlib=True, complevel=4, shuffle=True,
+                       chunksizes=chunk_shape(var.shape, var.dtype.itemsize))
+            if var.dtype.kind == "f":
+                enc["_FillValue"] = np.nan
+        encoding[name] = enc
+    replace_atomically(lambda temp: ds.to_netcdf(temp, engine="netcdf4", format="NETCDF4",
+                                                 encoding=encoding), path)
+
+
+def open_cube(path):
+    """Open a cube lazily: arrays are read from disk only when indexed."""
+    import xarray as xr
+
+    path = Path(path)
+    if not path.is_file():
+        from .errors import InputError
+
+        raise InputError(f"cube {str(path)!r} does not exist")
+    return xr.open_dataset(path, engine="netcdf4")
+
+
+def write_part(path, arrays: dict, dims: dict, attrs: dict):
+    """Write a tile or a block of critical lengths (internal files, read back by :func:`read_part`).
+
+    netCDF4 directly rather than xarray: a tile job then skips importing pandas, which is a
+    good part of a short job's start-up time.
+    """
+    import netCDF4
+
+    def write(temp):
+        with netCDF4.Dataset(temp, "w", format="NETCDF4") as nc:
+            for name, array in arrays.items():
+                for dim, size in zip(dims[name], array.shape):
+                    if dim not in nc.dimensions:
+                        nc.createDimension(dim, size)
+                var = nc.createVariable(name, array.dtype, dims[name], zlib=True, complevel=1)
+                var[...] = array
+            nc.setncatts(attrs)
+
+    replace_atomically(write, path)
+
+
+def read_part(path) -> tuple[dict, dict]:
+    """Arrays and attributes of a file written by :func:`write_part`."""
+    import netCDF4
+
+    with netCDF4.Dataset(path) as nc:
+        nc.set_auto_mask(False)
+        arrays = {name: var[...] for name, var in nc.variables.items()}
+        attrs = {name: nc.getncattr(name) for name in nc.ncattrs()}
+    return arrays, attrs

@@ -1,0 +1,146 @@
+"""Solve one tile of a sweep with the engine: every cell, and the critical lengths of a block.
+
+A cell the engine cannot solve to its tolerance is isolated: its levels are NaN, its status
+says why, and the rest of the tile goes on. Only :class:`ConvergenceError` and
+:class:`InputError` are isolated this way; anything else is a bug and stops the job.
+"""
+
+from __future__ import annotations
+
+import math
+import time
+
+import numpy as np
+
+from . import potentials, radial, threshold
+from .errors import ConvergenceError, InputError
+
+__all__ = ["STATUS_FLAGS", "CRITICAL_FLAGS", "solve_tile", "solve_criticals"]
+
+# CF flag_values are the positions in these tuples; flag_meanings are the names.
+STATUS_FLAGS = ("ok", "not_converged", "input_rejected")
+CRITICAL_FLAGS = ("within_grid", "below_grid", "above_grid", "never_bound", "not_converged",
+                  "not_applicable")
+OK, NOT_CONVERGED, INPUT_REJECTED = range(3)
+
+
+def _potential(spec, strength, screening_length):
+    if spec["family"] == "tabulated":
+        return potentials.potential("tabulated", strength, screening_length, spec["mass"],
+                                    table=spec["table"], screened=spec["screened"],
+                                    coulomb_tail=spec.get("coulomb_tail"))
+    return potentials.potential(spec["family"], strength, screening_length, spec["mass"])
+
+
+def _one_line(exc) -> str:
+    text = str(exc).strip().splitlines()
+    return f"{type(exc).__name__}: {text[0] if text else 'no message'}"
+
+
+def solve_tile(spec: dict) -> dict:
+    """Bound levels of every cell of a tile.
+
+    Parameters
+    ----------
+    spec : dict
+        A tile description from :meth:`boundscape.sweep.Plan.tile_spec`.
+
+    Returns
+    -------
+    dict
+        Arrays ``energy``, ``energy_error``, ``mean_radius`` (strength, screening_length, l, n_r),
+        ``num_bound`` and ``status`` (strength, screening_length, l), ``reasons`` (list of
+        ``(i, j, k, text)`` for flagged cells, tile-local indices) and ``engine_seconds``.
+    """
+    strengths, lams, ls = spec["strength"], spec["screening_length"], spec["l"]
+    n_r_max = int(spec["n_r_max"])
+    cell_shape = (len(strengths), len(lams), len(ls))
+    out = {name: np.full(cell_shape + (n_r_max,), np.nan)
+           for name in ("energy", "energy_error", "mean_radius")}
+    out["num_bound"] = np.zeros(cell_shape, np.int32)
+    out["status"] = np.zeros(cell_shape, np.int8)
+    reasons = []
+    engine_seconds = 0.0
+    for i, strength in enumerate(strengths):
+        for j, lam in enumerate(lams):
+            start = time.perf_counter()
+            try:
+                pot = _potential(spec, strength, lam)
+            except InputError as exc:
+                out["status"][i, j, :] = INPUT_REJECTED
+                reasons += [(i, j, k, _one_line(exc)) for k in range(len(ls))]
+                continue
+            for k, l in enumerate(ls):
+                try:
+                    res = radial.bound_levels(pot, int(l), n_r_max=n_r_max)
+                except ConvergenceError as exc:
+                    out["status"][i, j, k] = NOT_CONVERGED
+                    reasons.append((i, j, k, _one_line(exc)))
+                    continue
+                except InputError as exc:
+                    out["status"][i, j, k] = INPUT_REJECTED
+                    reasons.append((i, j, k, _one_line(exc)))
+                    continue
+                _store_levels(out, (i, j, k), res, n_r_max, reasons)
+            engine_seconds += time.perf_counter() - start
+    out["reasons"] = reasons
+    out["engine_seconds"] = engine_seconds
+    return out
+
+
+def _store_levels(out, cell, res, n_r_max, reasons):
+    n_r = np.asarray(res.n_r, dtype=int)
+    keep = n_r < n_r_max
+    status = np.asarray(getattr(res, "status", np.zeros(n_r.size, int)))
+    # A level short of the engine's tolerance is not stored: NaN with the cell flagged.
+    good = keep & (status == 0)
+    for name in ("energy", "energy_error", "mean_radius"):
+        out[name][cell + (n_r[good],)] = np.asarray(getattr(res, name))[good]
+    out["num_bound"][cell] = int(res.num_bound)
+    bad = keep & (status != 0)
+    if bad.any():
+        out["status"][cell] = NOT_CONVERGED
+        why = [r for r, b in zip(getattr(res, "reason", [""] * n_r.size), bad) if b and r]
+        levels = ", ".join(f"n_r={v}" for v in n_r[bad])
+        reasons.append(cell + (f"not converged at {levels}: {'; '.join(why) or 'no reason given'}",))
+
+
+def solve_criticals(spec: dict) -> dict:
+    """Critical screening length of every state (strength, l, n_r < n_r_max) of a block.
+
+    Returns
+    -------
+    dict
+        ``critical_screening_length`` (strength, l, n_r), bohr, +inf where the state is never
+        bound; ``critical_flag`` (same shape, only ``never_bound``, ``not_converged`` and
+        ``not_applicable`` are set here: the grid flags are set in collect, which knows the
+        grid); ``reasons`` and ``engine_seconds``.
+    """
+    strengths, ls, n_r_max = spec["strength"], spec["l"], int(spec["n_r_max"])
+    shape = (len(strengths), len(ls), n_r_max)
+    critical = np.full(shape, np.nan)
+    flag = np.zeros(shape, np.int8)
+    reasons = []
+    start = time.perf_counter()
+    family = spec["family"]
+    has_length = (family == "tabulated" and spec.get("screened")) or (
+        family != "tabulated" and potentials.FAMILIES[family].uses_screening_length)
+    if not has_length:
+        flag[...] = CRITICAL_FLAGS.index("not_applicable")
+    else:
+        extra = {"table": spec["table"], "screened": True} if family == "tabulated" else {}
+        for i, strength in enumerate(strengths):
+            for k, l in enumerate(ls):
+                for n_r in range(n_r_max):
+                    try:
+                        value = threshold.critical_screening_length(
+                            family, strength, int(l), n_r, mass=spec["mass"], **extra)
+                    except ConvergenceError as exc:
+                        flag[i, k, n_r] = CRITICAL_FLAGS.index("not_converged")
+                        reasons.append((i, k, n_r, _one_line(exc)))
+                        continue
+                    critical[i, k, n_r] = value
+                    if math.isinf(value):
+                        flag[i, k, n_r] = CRITICAL_FLAGS.index("never_bound")
+    return {"critical_screening_length": critical, "critical_flag": flag, "reasons": reasons,
+            "engine_seconds": time.perf_counter() - start}
