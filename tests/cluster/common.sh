@@ -15,7 +15,16 @@ LOG_DIR=/var/log/slurm
 say() { printf '[slurm-cluster] %s\n' "$*"; }
 die() { printf '[slurm-cluster] ERROR: %s\n' "$*" >&2; exit 1; }
 
-pid_alive() { [[ -s $1 ]] && kill -0 "$(cat "$1")" 2>/dev/null; }
+# pid_alive PIDFILE NAME: the pid in PIDFILE runs and is NAME. A pid file left
+# by a killed daemon may name a pid the system has since given to another program.
+pid_alive() {
+    local pid
+    [[ -s $1 ]] || return 1
+    pid="$(cat "$1")"
+    [[ $pid =~ ^[0-9]+$ ]] && [[ "$(cat "/proc/$pid/comm" 2>/dev/null)" == "$2" ]] || return 1
+    # a zombie (state Z) has exited already
+    [[ "$(awk '{print $3}' "/proc/$pid/stat" 2>/dev/null)" != Z ]]
+}
 
 munge_ok() { munge -n 2>/dev/null | unmunge >/dev/null 2>&1; }
 
@@ -46,7 +55,7 @@ wait_until() {
 # stop_by_pidfile NAME PIDFILE: stop the daemon recorded in PIDFILE, only that pid.
 stop_by_pidfile() {
     local name=$1 pidfile=$2 pid t
-    if ! pid_alive "$pidfile"; then
+    if ! pid_alive "$pidfile" "$name"; then
         say "$name not running"
         return 0
     fi

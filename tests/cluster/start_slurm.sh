@@ -110,7 +110,7 @@ if [[ $restart -eq 1 ]]; then
 fi
 
 # --- daemons -------------------------------------------------------------
-if pid_alive "$CTLD_PID" && scontrol ping 2>/dev/null | grep -q UP; then
+if pid_alive "$CTLD_PID" slurmctld && scontrol ping 2>/dev/null | grep -q UP; then
     say "slurmctld already running (pid $(cat "$CTLD_PID"))"
 else
     say "starting slurmctld"
@@ -118,7 +118,7 @@ else
     wait_until "$wait_s" ctld_ok || die "slurmctld did not answer within ${wait_s}s (see $LOG_DIR/slurmctld.log)"
 fi
 
-if pid_alive "$SLURMD_PID"; then
+if pid_alive "$SLURMD_PID" slurmd; then
     say "slurmd already running (pid $(cat "$SLURMD_PID"))"
 else
     say "starting slurmd"
