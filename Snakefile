@@ -1,8 +1,12 @@
 # boundscape sweep workflow: config -> tiles (one job each) -> one CF NetCDF cube.
 # Thin on purpose: the rules live in workflow/rules/, the logic in src/boundscape.
+import sys
 from pathlib import Path
 
+from snakemake.exceptions import WorkflowError
 from snakemake.utils import min_version, validate
+
+from boundscape.sweep import schema_error
 
 min_version("8.10")
 
@@ -11,7 +15,11 @@ configfile: "config/config.yaml"
 
 
 # Before any job: unknown keys, wrong types and impossible values, each naming the key.
-validate(config, "config/schema.yaml")
+try:
+    validate(config, "config/schema.yaml")
+except WorkflowError:
+    # Snakemake's own message quotes the whole schema; one line naming the key says it all.
+    sys.exit(f"boundscape: {schema_error(config)}")
 
 
 include: "workflow/rules/plan.smk"

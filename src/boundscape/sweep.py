@@ -18,7 +18,7 @@ import yaml
 
 from .errors import InputError
 
-__all__ = ["Plan", "Tile", "SCHEMA_PATH", "load_config", "validate_config", "plan", "config_text"]
+__all__ = ["Plan", "Tile", "SCHEMA_PATH", "load_config", "schema_error", "validate_config", "plan", "config_text"]
 
 # The schema lives with the workflow (config/schema.yaml) so that Snakemake validates the
 # same file; found relative to the source tree, which is where an editable install points.
@@ -81,18 +81,24 @@ def _where(error) -> str:
     return f"config key {path}" if path else "config"
 
 
-def validate_config(config: dict) -> dict:
-    """Check a configuration against config/schema.yaml, then the physics-level rules.
-
-    Returns a copy with defaults filled in. Raises :class:`InputError` with one line naming the key.
-    """
+def schema_error(config) -> str | None:
+    """The first schema violation of ``config`` as one line naming the key, or None."""
     import jsonschema
 
     schema = yaml.safe_load(SCHEMA_PATH.read_text())
     validator = jsonschema.Draft202012Validator(schema)
     error = jsonschema.exceptions.best_match(validator.iter_errors(config))
-    if error is not None:
-        raise InputError(f"{_where(error)}: {error.message}")
+    return None if error is None else f"{_where(error)}: {error.message}"
+
+
+def validate_config(config: dict) -> dict:
+    """Check a configuration against config/schema.yaml, then the physics-level rules.
+
+    Returns a copy with defaults filled in. Raises :class:`InputError` with one line naming the key.
+    """
+    message = schema_error(config)
+    if message is not None:
+        raise InputError(message)
     config = json.loads(json.dumps(config))
     pot = config["potential"]
     pot.setdefault("mass", 1.0)
