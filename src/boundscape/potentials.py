@@ -82,7 +82,8 @@ def _hulthen(r, Z, lam):
 
 
 def _square_well(r, Z, lam):
-    return np.where(r < lam, -Z, 0.0)
+    # r = λ belongs to the inside: the box closes there with the exterior solution.
+    return np.where(r <= lam, -Z, 0.0)
 
 
 def _harmonic(r, Z, lam):
@@ -281,6 +282,17 @@ class Potential:
         return tuple(self.info.breakpoints(self.strength, self.screening_length))
 
     @property
+    def energy_scale(self) -> float:
+        """A typical binding energy (hartree), for tolerances: Z²μ, the depth, or ω."""
+        if self.family == "harmonic":
+            return self.strength
+        if self.family == "square_well":
+            return self.strength
+        if self.family == "tabulated":
+            return max(abs(self.strength) * self.mass, 1e-300)
+        return self.strength**2 * self.mass
+
+    @property
     def length_scale(self) -> float:
         """A radius that characterises the bound states (bohr): sets where the grid starts."""
         if self.family == "harmonic":
@@ -288,7 +300,7 @@ class Potential:
         if self.family == "square_well":
             return min(self.screening_length, 1.0 / math.sqrt(2 * self.mass * self.strength))
         if self.family == "tabulated":
-            return float(min(1.0, self.table.r[-1])) / max(self.mass * abs(self.strength), 1e-300) ** 0.0
+            return 1.0 / (self.mass * self.strength)
         return 1.0 / (self.mass * self.strength)
 
 

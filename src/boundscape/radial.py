@@ -1,17 +1,274 @@
-"""Interim placeholder: the radial engine is being written (lands within the hour)."""
-from dataclasses import dataclass
+"""Bound levels of one central potential and one angular momentum l.
+
+Method (see ``grid`` for the discretisation):
+
+1. Survey.  The exact count N_b comes from the zero-energy problem (``threshold``); its
+   eigenvalues are also lower estimates of the energies (its outer condition is the E = 0 one).
+   Coulomb-tail and confining potentials bind infinitely many levels: the lowest ``n_r_max``
+   (default 20) are surveyed in a box sized from the hydrogenic or oscillator estimate.
+2. Per level.  Each level gets its own box: out to R = r_t + C/κ (r_t its outer turning point,
+   κ = √(2μ|E|)) or to the end of the potential's range if that comes first, where the exact
+   exterior log-derivative closes the box.  So a level near threshold, which spreads like 1/κ,
+   is never squeezed, and no level pays for a box it does not need.  The outer condition depends
+   on E; it is solved by Newton's method on E = eig_k(T(E)), whose derivative is the
+   first-order sensitivity of the eigenvalue to the boundary row.
+3. Extrapolation.  Energies and ⟨r⟩ on five refinements of the level's grid are Richardson-
+   extrapolated; the change against the extrapolation without the coarsest grid is the error
+   estimate, and a level whose estimate exceeds the tolerance is flagged, not dropped.
+"""
+
+from __future__ import annotations
+
+import math
+from dataclasses import dataclass, field
+
 import numpy as np
+
+from . import exterior, grid as fd
+from .errors import ConvergenceError
+from .potentials import Potential
+from .threshold import _count, check_l, effective_potential, origin_radius, zero_energy_problem
+
+__all__ = ["BoundLevels", "bound_levels", "SPECTROSCOPIC", "DEFAULT_LEVELS"]
+
+SPECTROSCOPIC = "spdfghiklmnoqrtuvwxyz"
+DEFAULT_LEVELS = 20  # levels returned for potentials that bind infinitely many
+# Box margin beyond the turning point, in decay lengths 1/κ: the density there is e^{-2C}.
+DECAY_LENGTHS = 24.0
+FACTORS = (2, 3, 4, 5, 6)
+RTOL = 1e-10
+
+OK, NOT_CONVERGED = 0, 1
 
 
 @dataclass
 class BoundLevels:
+    """Bound levels of one l, ascending in energy (atomic units)."""
+
     l: int
     energy: np.ndarray
     n_r: np.ndarray
     energy_error: np.ndarray
     mean_radius: np.ndarray
-    num_bound: int
+    status: np.ndarray
+    reason: list
+    num_bound: int  # exact count; -1 where infinitely many (Coulomb tail, confining)
+    r: np.ndarray | None = field(default=None, repr=False)
+    u: np.ndarray | None = field(default=None, repr=False)
+
+    @property
+    def n(self) -> np.ndarray:
+        return self.n_r + self.l + 1
+
+    @property
+    def labels(self) -> list[str]:
+        letter = SPECTROSCOPIC[self.l] if self.l < len(SPECTROSCOPIC) else f"[l={self.l}]"
+        return [f"{n}{letter}" for n in self.n]
 
 
-def bound_levels(potential, l, n_r_max=None, wavefunctions=False):
-    raise NotImplementedError("engine not yet landed")
+def bound_levels(pot: Potential, l: int, n_r_max: int | None = None, wavefunctions: bool = False,
+                 rtol: float = RTOL) -> BoundLevels:
+    """Every bound level of angular momentum ``l`` (or the lowest ``n_r_max``).
+
+    Parameters
+    ----------
+    pot : Potential
+        From :func:`boundscape.potential`.
+    l : int
+        Angular momentum quantum number, ≥ 0.
+    n_r_max : int, optional
+        Keep levels n_r = 0 .. n_r_max-1.  Default: all (20 for Coulomb-tail and confining potentials).
+    wavefunctions : bool
+        Also return the grid ``r`` and the normalised u(r) of each level (finest grid; the part
+        beyond the box, if any, is analytic and not sampled).
+    rtol : float
+        Relative tolerance on each energy; levels whose error estimate exceeds it get status 1.
+
+    Returns
+    -------
+    BoundLevels
+    """
+    l = check_l(l)
+    if n_r_max is not None:
+        n_r_max = check_l(n_r_max)
+    if pot.tail == "short":
+        problem = zero_energy_problem(pot, l)
+        count = _count(problem)
+        keep = count if n_r_max is None else min(count, n_r_max)
+        if keep:
+            d, o = problem.operator(1)
+            guesses = fd.eigenvalues_by_index(d, o, 0, keep - 1, pot.energy_scale)[0]
+        else:
+            guesses = np.array([])
+    else:
+        count = -1
+        keep = DEFAULT_LEVELS if n_r_max is None else n_r_max
+        guesses = _survey_infinite(pot, l, keep)
+
+    levels = [_refine(pot, l, k, float(guesses[k]), rtol, wavefunctions) for k in range(keep)]
+    out = BoundLevels(
+        l=l,
+        energy=np.array([lv.energy for lv in levels]),
+        n_r=np.arange(keep),
+        energy_error=np.array([lv.error for lv in levels]),
+        mean_radius=np.array([lv.mean_radius for lv in levels]),
+        status=np.array([lv.status for lv in levels], dtype=np.int8),
+        reason=[lv.reason for lv in levels],
+        num_bound=count,
+    )
+    finite = out.energy[np.isfinite(out.energy)]
+    if np.any(np.diff(finite) <= 0):
+        raise ConvergenceError(f"levels of l={l} came out unordered for {pot}: {out.energy}")
+    if wavefunctions:
+        out.r = [lv.r for lv in levels]
+        out.u = [lv.u for lv in levels]
+    return out
+
+
+@dataclass
+class _Level:
+    energy: float
+    error: float
+    mean_radius: float
+    status: int
+    reason: str
+    r: np.ndarray | None = None
+    u: np.ndarray | None = None
+
+
+def _survey_infinite(pot: Potential, l: int, keep: int) -> np.ndarray:
+    """Lower levels of a Coulomb-tail or confining potential, from one box sized for the highest."""
+    n = keep + l
+    if pot.tail == "coulomb":
+        zmu = pot.coulomb_charge * pot.mass
+        e_top = -zmu * pot.coulomb_charge / (2.0 * n * n)
+        R = (2.0 * n * n + DECAY_LENGTHS * n) / zmu
+    else:
+        omega = pot.strength
+        e_top = omega * (2 * keep + l + 1.5)
+        R = math.sqrt(2 * e_top / (pot.mass * omega**2)) + 8.0 / math.sqrt(pot.mass * omega)
+    v_eff = effective_potential(pot, l)
+    g = fd.design_grid(v_eff, pot.mass, e_top, origin_radius(pot, l), R)
+    op = fd.build_operator(g, v_eff, pot.mass)
+    s = g.end_log_derivative_to_s(_exterior_log_derivative(pot, l, e_top, R))
+    return fd.eigenvalues_by_index(op.diagonal(s), op.off, 0, keep - 1, pot.energy_scale)[0]
+
+
+def _exterior_log_derivative(pot, l, energy, R):
+    return exterior.log_derivative(pot.tail, l, energy, R, pot.mass, pot.coulomb_charge, pot.strength)
+
+
+def _outer_turning_point(pot, l, energy, r_lo, r_hi):
+    r = np.geomspace(r_lo, r_hi, 2000)
+    allowed = effective_potential(pot, l)(r) < energy
+    if not np.any(allowed):
+        return r_lo
+    return float(r[np.nonzero(allowed)[0][-1]])
+
+
+def _box(pot, l, energy):
+    """Outer radius for a level of this energy: turning point plus DECAY_LENGTHS/κ, capped at the range."""
+    kappa = math.sqrt(2.0 * pot.mass * abs(energy)) if energy < 0 else math.sqrt(2 * pot.mass * pot.energy_scale)
+    reach = pot.support if math.isfinite(pot.support) else 1e12 / pot.mass
+    if pot.tail == "confining":
+        omega = pot.strength
+        r_t = math.sqrt(max(2 * energy, 0.0) / (pot.mass * omega**2)) + 1.0 / math.sqrt(pot.mass * omega)
+        return r_t + 8.0 / math.sqrt(pot.mass * omega)
+    r_t = _outer_turning_point(pot, l, energy, origin_radius(pot, l), min(reach, 1e3 / kappa + 10 * pot.length_scale))
+    return min(reach, r_t + DECAY_LENGTHS / kappa)
+
+
+def _refine(pot: Potential, l: int, k: int, guess: float, rtol: float, want_u: bool) -> _Level:
+    energy = guess
+    for _attempt in range(4):
+        R = _box(pot, l, energy)
+        v_eff = effective_potential(pot, l)
+        base = fd.design_grid(v_eff, pot.mass, energy, origin_radius(pot, l), R)
+        values, radii, last = [], [], None
+        e_grid = energy
+        for f in FACTORS:
+            g = base.refined(f)
+            op = fd.build_operator(g, v_eff, pot.mass)
+            try:
+                e_grid, y = _solve_level(pot, l, k, op, e_grid)
+            except ConvergenceError as exc:
+                return _Level(math.nan, math.inf, math.nan, NOT_CONVERGED, f"{exc} on a grid of {g.m} points")
+            values.append(e_grid)
+            radii.append(_mean_radius(pot, l, op, y, e_grid))
+            last = (op, y)
+        e_best, e_err = fd.richardson(values, FACTORS)
+        r_best, _ = fd.richardson(radii, FACTORS)
+        # If the level came out shallower than the box assumed, the box is too small: redo.
+        if R >= pot.support or _box(pot, l, e_best) <= 1.05 * R:
+            break
+        energy = e_best
+    scale = max(abs(e_best), 1e-300)
+    status, reason = OK, ""
+    if not (e_err <= rtol * scale) or not math.isfinite(e_best):
+        status = NOT_CONVERGED
+        reason = f"error estimate {e_err:.2e} hartree exceeds rtol {rtol:g}·|E|"
+    lv = _Level(e_best, e_err, r_best, status, reason)
+    if want_u:
+        op, y = last
+        lv.r, lv.u = op.r, _u_of(op, y)
+    return lv
+
+
+def _solve_level(pot, l, k, op: fd.Operator, energy: float):
+    """Solve E = eig_k(T(s(E))), the exterior condition s depending on E.
+
+    Newton's method, safeguarded by a bracket: φ(E) = eig_k − E decreases with E, and for a
+    bound level φ < 0 at E = 0.  Deep levels, whose boundary row does not matter, take one step."""
+    R = op.grid.r_max
+    scale = pot.energy_scale
+    open_tail = pot.tail != "confining"
+    lo, hi = -math.inf, (0.0 if open_tail else math.inf)
+    delta = 0.02 * abs(energy) + 1e-6 * scale
+    for _ in range(80):
+        dlog = _exterior_log_derivative(pot, l, energy, R)
+        diag = op.diagonal(op.grid.end_log_derivative_to_s(dlog))
+        w, iblock, isplit = fd.eigenvalue_near(diag, op.off, k, energy, delta)
+        y = fd.eigenvectors(diag, op.off, w, iblock, isplit)[:, 0]
+        eig = float(w[0])
+        # d eig/dE through the boundary row: (∂eig/∂s)(∂s/∂dlog = g(R))(∂dlog/∂E)
+        slope = op.end_sensitivity(y[-1]) * op.g[-1] * exterior.log_derivative_slope(
+            pot.tail, l, energy, R, pot.mass, pot.coulomb_charge, pot.strength)
+        if abs(slope) < 1e-13:
+            return eig, y
+        phi = eig - energy
+        if phi > 0:
+            lo = max(lo, energy)
+        else:
+            hi = min(hi, energy)
+        new = energy + phi / (1.0 - slope)
+        if not (lo < new < hi):
+            if math.isinf(lo):
+                new = 2.0 * hi if hi < 0 else hi - scale
+            elif hi < 0:
+                new = -math.sqrt(lo * hi)  # levels span decades near threshold: bisect in log
+            else:
+                new = 0.25 * lo
+        if abs(new - energy) <= 1e-15 * abs(new):
+            return new, y
+        delta = max(4 * abs(new - energy), 1e-14 * abs(new))
+        energy = new
+    raise ConvergenceError(f"level n_r={k}, l={l}: boundary iteration did not converge (last E={energy:.6g})")
+
+
+def _mean_radius(pot, l, op: fd.Operator, y, energy):
+    """⟨r⟩ = ∫ r u² / ∫ u², the part beyond R from the exterior solution."""
+    h = op.grid.h
+    w_end = y[-1] / math.sqrt(op.weight[-1])
+    u_end2 = op.g[-1] * w_end * w_end
+    t0, t1 = exterior.tail_moments(pot.tail, l, energy, op.grid.r_max, pot.mass)
+    norm = h * float(y @ y) + u_end2 * t0
+    first = h * float((y * y) @ op.r) + u_end2 * t1
+    return first / norm
+
+
+def _u_of(op: fd.Operator, y):
+    w = y / np.sqrt(op.weight)
+    u = np.sqrt(op.g) * w
+    norm = op.grid.h * float(y @ y)
+    u = u / math.sqrt(norm)
+    return u if u[np.argmax(np.abs(u[: max(2, u.size // 50)]))] >= 0 else -u
