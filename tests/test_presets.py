@@ -24,7 +24,8 @@ RGH_CRITICAL = 1.19061
 
 def _engine_ready():
     try:
-        bs.count_bound(bs.potential("yukawa", 1.0, 10.0), 0)
+        bs.bound_levels(bs.potential("yukawa", 1.0, 10.0), 0)
+        bs.critical_screening_length("yukawa", 1.0, 0, 0)
     except NotImplementedError:
         return False
     return True

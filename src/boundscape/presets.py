@@ -26,7 +26,7 @@ from .errors import InputError
 from .units import (ATOMIC, BOHR_M, ELECTRON_MASS_KG, FM_M, HBAR_C_MEV_FM, MEV_J, UnitSystem,
                     effective_atomic_units, nuclear_units)
 
-__all__ = ["Plasma", "Semiconductor", "Nuclear", "from_config", "add_physical_coordinates", "PRESETS"]
+__all__ = ["Plasma", "Semiconductor", "Nuclear", "from_config", "add_physical_coordinates", "cube_units", "PRESETS"]
 
 
 @dataclass(frozen=True)
@@ -242,6 +242,19 @@ def from_config(section: dict | None):
         raise InputError(f"preset {kind}: {exc}") from None
 
 
+def cube_units(preset, cube_mass: float = 1.0) -> UnitSystem:
+    """The unit system in which a cube of engine mass ``cube_mass`` is read under ``preset``."""
+    if preset is None:
+        return ATOMIC
+    if isinstance(preset, Nuclear):
+        return preset.system(cube_mass)
+    if isinstance(preset, Semiconductor) and preset.units_choice == "atomic" and not math.isclose(
+            cube_mass, preset.effective_mass):
+        raise InputError(f"preset semiconductor (units: atomic) needs potential.mass = effective_mass "
+                         f"{preset.effective_mass:g}, the cube has mass {cube_mass:g}")
+    return preset.units
+
+
 def add_physical_coordinates(ds, preset, cube_mass=None):
     """Return ``ds`` with the preset's physical coordinates next to the atomic ones.
 
@@ -255,15 +268,10 @@ def add_physical_coordinates(ds, preset, cube_mass=None):
     lam = ds["screening_length"].values
     coords = {}
     kind = type(preset).__name__.lower()
+    units = cube_units(preset, mass)
     if isinstance(preset, Nuclear):
-        units = preset.system(mass)
         coords["coupling"] = ("strength", preset.coupling_MeV_fm(ds["strength"].values, mass),
                               {"long_name": "coupling g² of V = -g² exp(-r/λ)/r", "units": "MeV fm"})
-    else:
-        units = preset.units
-        if isinstance(preset, Semiconductor) and units is ATOMIC and not math.isclose(mass, preset.effective_mass):
-            raise InputError(f"preset semiconductor (units: atomic) needs potential.mass = effective_mass "
-                             f"{preset.effective_mass:g}, the cube has mass {mass:g}")
     lam_m = lam * units.length_m
     unit = preset.length_unit
     scale = {"nm": sc.nano, "fm": FM_M}[unit]
