@@ -58,7 +58,7 @@ def family_info(name: str) -> Family:
     try:
         return FAMILIES[name]
     except KeyError:
-        known = ", ".join(sorted(FAMILIES))
+        known = ", ".join(sorted([*FAMILIES, "tabulated"]))
         raise InputError(f"unknown potential family {name!r}; known families: {known}") from None
 
 
