@@ -168,6 +168,8 @@ def replace_atomically(write, path):
     """Call ``write(temp_path)``, then rename the result to ``path`` (same directory, so atomic)."""
     path = Path(path)
     path.parent.mkdir(parents=True, exist_ok=True)
+    for stale in path.parent.glob(f".{path.name}.*.partial"):  # left by a killed job
+        stale.unlink(missing_ok=True)
     temp = atomic_path(path)
     try:
         write(temp)
