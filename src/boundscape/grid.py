@@ -107,6 +107,9 @@ class Operator:
     off: np.ndarray
     weight: np.ndarray  # B's diagonal (half at the boundary row)
     mass: float
+    potential_term: np.ndarray  # q, with the boundary row's half weight
+    a_diag: np.ndarray  # A's diagonal without the Robin term (A, B unsymmetrised: well scaled)
+    a_off: float  # A's (constant) off-diagonal
 
     def diagonal(self, s: float) -> np.ndarray:
         """T's diagonal with the Robin condition w' = s·w at the outer end."""
@@ -114,6 +117,41 @@ class Operator:
         h = self.grid.h
         d[-1] += -s / (2.0 * self.mass * h) / self.weight[-1]
         return d
+
+    def rayleigh(self, s: float, y: np.ndarray) -> float:
+        """Eigenvalue from its eigenvector as a Rayleigh quotient, with the kinetic energy written
+        as a sum of squared differences.  Bisection on T resolves an eigenvalue only to
+        ~eps·max|T_ii| ~ eps/(μh²r²), which for a level near threshold is not small against |E|;
+        this form has no cancellation between large terms, and its error is quadratic in that
+        of the eigenvector (variational)."""
+        w = y / np.sqrt(self.weight)
+        h = self.grid.h
+        dw = np.diff(w, prepend=0.0)  # w_0 = 0: Dirichlet at r_min
+        kinetic = float(dw @ dw) / (2.0 * self.mass * h * h)
+        potential = float((self.potential_term * w) @ w)
+        boundary = -s / (2.0 * self.mass * h) * w[-1] ** 2
+        return (kinetic + potential + boundary) / float(y @ y)
+
+    def eigenvector(self, s: float, shift: float, iterations: int = 2) -> np.ndarray:
+        """Eigenvector for the eigenvalue nearest ``shift``, by inverse iteration on the
+        unsymmetrised pencil (A − σB) x = B x_old with LAPACK dgtsv.
+
+        LAPACK's dstein on T fails here: it perturbs close shifts by ~eps·‖T‖, and the log map
+        makes ‖T‖ ~ 1/(h² r_min²) ~ 1e30, while A and B have no such range."""
+        a = self.a_diag.copy()
+        a[-1] += -s / (2.0 * self.mass * self.grid.h)
+        d = a - shift * self.weight
+        off = np.full(d.size - 1, self.a_off)
+        x = np.ones((d.size, 1))
+        for _ in range(iterations):
+            _, _, _, x, info = lapack.dgtsv(off, d, off, self.weight[:, None] * x)
+            if info != 0:  # exactly singular: the shift is an eigenvalue to machine precision
+                d = d * (1 + 1e-15)
+                x = np.ones((d.size, 1))
+                continue
+            x /= np.max(np.abs(x))
+        y = x[:, 0] * np.sqrt(self.weight)
+        return y / np.linalg.norm(y)
 
     def end_sensitivity(self, y_end: float) -> float:
         """∂(eigenvalue)/∂s for an eigenvector with last component y_end (first-order perturbation)."""
@@ -135,7 +173,9 @@ def build_operator(grid: MappedGrid, v_eff, mass: float) -> Operator:
     sw = np.sqrt(weight)
     diag = a_diag / weight
     off = (-0.5 * kin) / (sw[:-1] * sw[1:])
-    return Operator(grid, r, g, diag, off, weight, mass)
+    qw = q.copy()
+    qw[-1] *= 0.5
+    return Operator(grid, r, g, diag, off, weight, mass, qw, a_diag, -0.5 * kin)
 
 
 def _abstol(scale: float) -> float:

@@ -36,7 +36,7 @@ DEFAULT_LEVELS = 20  # levels returned for potentials that bind infinitely many
 # Box margin beyond the turning point, in decay lengths 1/κ: the density there is e^{-2C}.
 DECAY_LENGTHS = 24.0
 FACTORS = (2, 3, 4, 5, 6)
-RTOL = 1e-10
+RTOL = 1e-9  # the accuracy the sweep promises on every level (relative)
 
 OK, NOT_CONVERGED = 0, 1
 
@@ -96,8 +96,8 @@ def bound_levels(pot: Potential, l: int, n_r_max: int | None = None, wavefunctio
         count = _count(problem)
         keep = count if n_r_max is None else min(count, n_r_max)
         if keep:
-            d, o = problem.operator(1)
-            guesses = fd.eigenvalues_by_index(d, o, 0, keep - 1, pot.energy_scale)[0]
+            op, s0 = problem.operator(1)
+            guesses = fd.eigenvalues_by_index(op.diagonal(s0), op.off, 0, keep - 1, pot.energy_scale)[0]
         else:
             guesses = np.array([])
     else:
@@ -179,63 +179,66 @@ def _box(pot, l, energy):
 
 
 def _refine(pot: Potential, l: int, k: int, guess: float, rtol: float, want_u: bool) -> _Level:
+    """One level: its own box and grid, refined until the error estimate meets ``rtol``."""
     energy = guess
-    for _attempt in range(4):
+    v_eff = effective_potential(pot, l)
+    theta = fd.THETA
+    for _attempt in range(6):
         R = _box(pot, l, energy)
-        v_eff = effective_potential(pot, l)
-        base = fd.design_grid(v_eff, pot.mass, energy, origin_radius(pot, l), R)
-        values, radii, last = [], [], None
-        e_grid = energy
-        for f in FACTORS:
-            g = base.refined(f)
-            op = fd.build_operator(g, v_eff, pot.mass)
-            try:
-                e_grid, y = _solve_level(pot, l, k, op, e_grid)
-            except ConvergenceError as exc:
-                return _Level(math.nan, math.inf, math.nan, NOT_CONVERGED, f"{exc} on a grid of {g.m} points")
-            values.append(e_grid)
-            radii.append(_mean_radius(pot, l, op, y, e_grid))
-            last = (op, y)
-        e_best, e_err = fd.richardson(values, FACTORS)
-        r_best, _ = fd.richardson(radii, FACTORS)
-        # If the level came out shallower than the box assumed, the box is too small: redo.
-        if R >= pot.support or _box(pot, l, e_best) <= 1.05 * R:
+        base = fd.design_grid(v_eff, pot.mass, energy, origin_radius(pot, l), R, theta=theta)
+        ops = [fd.build_operator(base.refined(f), v_eff, pot.mass) for f in FACTORS]
+        try:
+            new, e_err, s, ys = _self_consistent(pot, l, k, ops, energy)
+        except ConvergenceError as exc:
+            return _Level(math.nan, math.inf, math.nan, NOT_CONVERGED, f"{exc} (grid of {base.m} points)")
+        box_ok = R >= pot.support or _box(pot, l, new) <= 1.05 * R
+        energy = new
+        if not box_ok:
+            continue  # the level came out shallower than the box assumed: a wider box
+        if e_err <= rtol * abs(energy) or theta < 0.05:
             break
-        energy = e_best
-    scale = max(abs(e_best), 1e-300)
+        theta *= 0.6  # not resolved to tolerance (shallow levels are the usual case): finer grid
+    radii = [_mean_radius(pot, l, op, y, energy) for op, y in zip(ops, ys)]
+    r_best, _ = fd.richardson(radii, FACTORS)
     status, reason = OK, ""
-    if not (e_err <= rtol * scale) or not math.isfinite(e_best):
+    if not (e_err <= rtol * abs(energy)) or not math.isfinite(energy):
         status = NOT_CONVERGED
         reason = f"error estimate {e_err:.2e} hartree exceeds rtol {rtol:g}·|E|"
-    lv = _Level(e_best, e_err, r_best, status, reason)
+    lv = _Level(energy, e_err, r_best, status, reason)
     if want_u:
-        op, y = last
-        lv.r, lv.u = op.r, _u_of(op, y)
+        lv.r, lv.u = ops[-1].r, _u_of(ops[-1], ys[-1])
     return lv
 
 
-def _solve_level(pot, l, k, op: fd.Operator, energy: float):
-    """Solve E = eig_k(T(s(E))), the exterior condition s depending on E.
+def _self_consistent(pot, l, k, ops, energy):
+    """Solve E = Ê_k(s(E)): Ê_k(s) is the eigenvalue extrapolated over the grids at a fixed outer
+    condition s, and s depends on E through the exterior solution.
 
-    Newton's method, safeguarded by a bracket: φ(E) = eig_k − E decreases with E, and for a
-    bound level φ < 0 at E = 0.  Deep levels, whose boundary row does not matter, take one step."""
-    R = op.grid.r_max
+    The extrapolation is done at fixed s because only there is the error an even series in h
+    (near threshold s(E) is not analytic in E: it has a |E|^{3/2} term for l = 1).  Newton's
+    method, its derivative from the first-order sensitivity of the eigenvalue to the boundary row,
+    safeguarded by a bracket: φ(E) = Ê(s(E)) − E decreases with E, and φ(0) < 0 for a bound level.
+    Deep levels, whose boundary row does not matter, take one step."""
+    R = ops[0].grid.r_max
     scale = pot.energy_scale
     open_tail = pot.tail != "confining"
     lo, hi = -math.inf, (0.0 if open_tail else math.inf)
-    delta = 0.02 * abs(energy) + 1e-6 * scale
-    for _ in range(80):
-        dlog = _exterior_log_derivative(pot, l, energy, R)
-        diag = op.diagonal(op.grid.end_log_derivative_to_s(dlog))
-        w, iblock, isplit = fd.eigenvalue_near(diag, op.off, k, energy, delta)
-        y = fd.eigenvectors(diag, op.off, w, iblock, isplit)[:, 0]
-        eig = float(w[0])
-        # d eig/dE through the boundary row: (∂eig/∂s)(∂s/∂dlog = g(R))(∂dlog/∂E)
-        slope = op.end_sensitivity(y[-1]) * op.g[-1] * exterior.log_derivative_slope(
+    guesses = [energy] * len(ops)
+    for _ in range(60):
+        s = ops[0].grid.end_log_derivative_to_s(_exterior_log_derivative(pot, l, energy, R))
+        values, ys = [], []
+        for i, op in enumerate(ops):
+            e_i, y = _eigenpair(op, k, s, guesses[i], scale)
+            values.append(e_i)
+            ys.append(y)
+        guesses = values
+        extrap, err = fd.richardson(values, FACTORS)
+        op = ops[-1]
+        slope = op.end_sensitivity(ys[-1][-1]) * op.g[-1] * exterior.log_derivative_slope(
             pot.tail, l, energy, R, pot.mass, pot.coulomb_charge, pot.strength)
         if abs(slope) < 1e-13:
-            return eig, y
-        phi = eig - energy
+            return extrap, err, s, ys
+        phi = extrap - energy
         if phi > 0:
             lo = max(lo, energy)
         else:
@@ -248,11 +251,19 @@ def _solve_level(pot, l, k, op: fd.Operator, energy: float):
                 new = -math.sqrt(lo * hi)  # levels span decades near threshold: bisect in log
             else:
                 new = 0.25 * lo
-        if abs(new - energy) <= 1e-15 * abs(new):
-            return new, y
-        delta = max(4 * abs(new - energy), 1e-14 * abs(new))
+        if abs(new - energy) <= 1e-14 * abs(new):
+            return new, err, s, ys
         energy = new
-    raise ConvergenceError(f"level n_r={k}, l={l}: boundary iteration did not converge (last E={energy:.6g})")
+    raise ConvergenceError(f"level n_r={k}, l={l}: outer boundary iteration did not converge (last E={energy:.6g})")
+
+
+def _eigenpair(op: fd.Operator, k: int, s: float, guess: float, scale: float):
+    """Eigenvalue k (as a Rayleigh quotient) and eigenvector of T with outer condition s."""
+    diag = op.diagonal(s)
+    delta = 0.05 * abs(guess) + 1e-9 * scale
+    w, _, _ = fd.eigenvalue_near(diag, op.off, k, guess, delta)
+    y = op.eigenvector(s, float(w[0]))
+    return op.rayleigh(s, y), y
 
 
 def _mean_radius(pot, l, op: fd.Operator, y, energy):
