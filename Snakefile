@@ -27,6 +27,8 @@ include: "workflow/rules/solve.smk"
 include: "workflow/rules/collect.smk"
 # ---- figures and report (figures engineer): add the include: lines here, and append
 # ---- the figure/report targets to ALL_TARGETS in those files (e.g. ALL_TARGETS += [...]).
+include: "workflow/rules/figures.smk"
+include: "workflow/rules/report.smk"
 # ---- end of figures and report
 
 

@@ -111,7 +111,8 @@ def threshold_map(ds, l, preset=None):
     lam = ds["screening_length"].values
     count = ds["num_bound"].sel(l=l).values.astype(float)
     status = ds["status"].sel(l=l).values
-    count = np.where(status == 0, count, np.nan)
+    # The count comes from the zero-energy solution, so it stands in flagged cells too (marked ×).
+    count = np.where(count >= 0, count, np.nan)
     # Shades stop at n_r_max ("n_r_max or more"): above that no loss curve is stored to explain them.
     top = int(ds.sizes["n_r"])
     cmap, norm = _count_norm(top)
@@ -140,17 +141,33 @@ def threshold_map(ds, l, preset=None):
             name = state_name(int(n_of[k]), int(l))
             curves[name] = (z[finite], lc[finite])
             ax.plot(z[finite], lc[finite], "-", color="white", lw=1.4, path_effects=_HALO, gid=f"loss:{name}")
-            # Label at the last point inside the axes, so labels sit on their own curves.
-            inside = np.flatnonzero((lc[finite] >= lam.min()) & (lc[finite] <= lam.max()))
-            if inside.size:
-                i = inside[-1]
-                ax.annotate(name, (z[finite][i], lc[finite][i]), xytext=(3, 3), textcoords="offset points",
-                            color="white", fontsize=8, path_effects=_HALO)
+            spot = _label_spot(z[finite], lc[finite], lam, (0.82, 0.55, 0.28)[k % 3])
+            if spot is not None:
+                ax.annotate(name, spot, ha="center", va="center", color="white", fontsize=7.5,
+                            path_effects=_HALO, annotation_clip=True)
+    if not curves and "critical_screening_length" in ds:
+        ax.text(0.5, 0.5, f"no stored state with l = {l} is ever bound", transform=ax.transAxes,
+                ha="center", va="center", color="white", path_effects=_HALO)
     unit, factor = _length_unit(ds, preset)
     if unit:
         ax.secondary_yaxis("right", functions=(lambda y: y * factor, lambda y: y / factor)).set_ylabel(
             f"screening length ({unit})")
     return fig, {"count": count, "curves": curves}
+
+
+def _label_spot(x, y, ylim, fraction):
+    """A point on the log–log polyline (x, y) inside ``ylim``, ``fraction`` of the way along it in log x.
+
+    Neighbouring states get different fractions, so their labels do not stack.
+    """
+    inside = (y >= ylim.min()) & (y <= ylim.max())
+    if not inside.any():
+        return None
+    lx, ly = np.log(x[inside]), np.log(y[inside])
+    if lx.size == 1:
+        return float(x[inside][0]), float(y[inside][0])
+    at = lx[0] + fraction * (lx[-1] - lx[0])
+    return float(np.exp(at)), float(np.exp(np.interp(at, lx, ly)))
 
 
 def fan_strengths(strength, most=3):
@@ -185,6 +202,7 @@ def level_fan(ds, strengths=None):
         for col, l in enumerate(ls):
             ax = axes[row, col]
             ax.set(xscale="log", yscale="log", ylim=(bottom, top), xlim=(lam.min(), lam.max()))
+            drawn = False
             labelled = []  # log10 positions of labels already placed in this panel
             span = math.log10(lam.max() / lam.min()) or 1.0
             for k, n_r in enumerate(ds["n_r"].values):
@@ -192,6 +210,7 @@ def level_fan(ds, strengths=None):
                 y = depth[:, col, k]
                 keep = np.isfinite(y) & (y > 0)
                 if keep.any():
+                    drawn = True
                     lines[(float(z), name)] = (lam[keep], y[keep])
                     ax.plot(lam[keep], y[keep], "-", color=colors[k], lw=1.3, gid=f"level:{name}")
                 if "critical_screening_length" in ds:
@@ -203,6 +222,9 @@ def level_fan(ds, strengths=None):
                             labelled.append(math.log10(lc))
                             ax.annotate(name, (lc, bottom), xytext=(0, 7), textcoords="offset points", rotation=90,
                                         ha="center", va="bottom", fontsize=7, color=colors[k])
+            if not drawn:
+                ax.text(0.5, 0.5, "no bound level stored", transform=ax.transAxes, ha="center", va="center",
+                        color="0.4")
             ax.set_title(f"strength {z:g}, l = {l}")
             if row == len(strengths) - 1:
                 ax.set_xlabel("screening length λ (bohr)")
@@ -353,7 +375,8 @@ def critical_rows(ds, preset=None):
                 lc = float(ds["critical_screening_length"].sel(strength=z, l=l, n_r=n_r))
                 n = int(ds["n"].sel(l=l, n_r=n_r))
                 row = {"strength": float(z), "n": n, "l": int(l), "n_r": int(n_r), "state": state_name(n, int(l)),
-                       "critical_screening_length_bohr": lc * units_m / BOHR_M}
+                       # Atomic-unit cubes keep every stored digit; others convert to bohr.
+                       "critical_screening_length_bohr": lc if units_m == BOHR_M else lc * units_m / BOHR_M}
                 if unit:
                     row[f"critical_screening_length_{unit}"] = lc * factor
                 if isinstance(preset, (Plasma, Semiconductor)):

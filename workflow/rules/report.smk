@@ -1,0 +1,19 @@
+# `snakemake --report results/<sweep>/report.html`: the figures with their captions, the run's
+# summary, the configuration and Snakemake's own runtime statistics.
+report: "../report/workflow.rst"
+
+
+rule report_summary:
+    input:
+        f"{RESULTS}/summary.txt",
+    output:
+        report(f"{RESULTS}/report/run_summary.txt", caption="../report/run_summary.rst", category="Run",
+               labels={"file": "run summary"}),
+    log:
+        f"{RESULTS}/logs/report_summary.log",
+    localrule: True
+    shell:
+        "cp {input:q} {output:q} 2> {log:q}"
+
+
+ALL_TARGETS += [f"{RESULTS}/report/run_summary.txt"]
