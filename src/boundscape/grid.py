@@ -29,7 +29,6 @@ from functools import lru_cache
 
 import numpy as np
 from scipy.linalg import lapack
-from scipy.special import lambertw
 
 
 
@@ -77,11 +76,22 @@ def _x_of_r(r, beta):
 
 
 def _r_of_x(x, beta):
+    """Invert x = ln r + r/β, i.e. r = β·W(e^x/β).  Newton on t = ln r (F(t) = t + e^t/β − x is
+    increasing and convex, so from above it converges monotonically); scipy's lambertw is exact
+    but costs ten times more on these arrays."""
     if np.isinf(beta):
         return np.exp(x)
-    # r/β · e^{r/β} = e^x/β; evaluate e^{x}/β through logs to avoid overflow.
-    z = np.exp(x - np.log(beta))
-    return beta * np.real(lambertw(z))
+    lb = math.log(beta)
+    # start above the root: t = x where e^x/β is small, else ln(β·(x − lb)) + margin
+    big = x - lb > 1.0
+    t = np.where(big, np.log(beta * np.maximum(x - lb, 1.0)) + 0.5, x)
+    for _ in range(60):
+        et = np.exp(t - lb)
+        step = (t + et - x) / (1.0 + et)
+        t = t - step
+        if np.max(np.abs(step)) < 1e-15:
+            break
+    return np.exp(t)
 
 
 def _map_derivatives(r, beta):
@@ -132,24 +142,30 @@ class Operator:
         boundary = -s / (2.0 * self.mass * h) * w[-1] ** 2
         return (kinetic + potential + boundary) / float(y @ y)
 
-    def eigenvector(self, s: float, shift: float, iterations: int = 2) -> np.ndarray:
+    def eigenvector(self, s: float, shift: float, iterations: int = 2, scale: float = 1.0) -> np.ndarray:
         """Eigenvector for the eigenvalue nearest ``shift``, by inverse iteration on the
         unsymmetrised pencil (A − σB) x = B x_old with LAPACK dgtsv.
 
         LAPACK's dstein on T fails here: it perturbs close shifts by ~eps·‖T‖, and the log map
         makes ‖T‖ ~ 1/(h² r_min²) ~ 1e30, while A and B have no such range."""
+        # The shift is kept 1e-9 (relative) off the eigenvalue: an exact eigenvalue can make a
+        # pivot exactly zero, and an offset δ costs the Rayleigh quotient only ~(δ/gap)².
+        offset = 1e-9 * max(abs(shift), 1e-6 * scale)
         a = self.a_diag.copy()
         a[-1] += -s / (2.0 * self.mass * self.grid.h)
-        d = a - shift * self.weight
+        d = a - (shift + offset) * self.weight
         off = np.full(d.size - 1, self.a_off)
         x = np.ones((d.size, 1))
         for _ in range(iterations):
-            _, _, _, x, info = lapack.dgtsv(off, d, off, self.weight[:, None] * x)
-            if info != 0:  # exactly singular: the shift is an eigenvalue to machine precision
-                d = d * (1 + 1e-15)
-                x = np.ones((d.size, 1))
-                continue
-            x /= np.max(np.abs(x))
+            for _attempt in range(3):
+                _, _, _, xn, info = lapack.dgtsv(off, d, off, self.weight[:, None] * x)
+                if info == 0 and np.all(np.isfinite(xn)):
+                    break
+                offset *= 1000.0
+                d = a - (shift + offset) * self.weight
+            else:
+                raise np.linalg.LinAlgError("inverse iteration failed: singular shifted pencil")
+            x = xn / np.max(np.abs(xn))
         y = x[:, 0] * np.sqrt(self.weight)
         return y / np.linalg.norm(y)
 
@@ -194,13 +210,13 @@ def eigenvalues_by_index(diag, off, lo: int, hi: int, scale: float = 1.0):
     return w[:m], iblock[:m], isplit
 
 
-def eigenvalue_near(diag, off, k: int, guess: float, delta: float):
+def eigenvalue_near(diag, off, k: int, guess: float, delta: float, rtol: float = 4e-16):
     """Eigenvalue number k (0-based), searched by bisection in a window guess ± delta.
 
     A window makes bisection start from a width ~delta instead of the Gershgorin width ~‖T‖,
     which saves two thirds of the iterations.  Falls back to the index search if k is not in it."""
     a, b = guess - delta, guess + delta
-    scale = max(abs(guess), delta)
+    scale = max(abs(guess), delta) * rtol / 4e-16
     for _ in range(8):
         below = count_below(diag, off, a)
         if below > k:
@@ -222,6 +238,13 @@ def eigenvectors(diag, off, w, iblock, isplit):
     if info != 0:
         raise np.linalg.LinAlgError(f"dstein failed (info={info})")
     return z[:, : len(w)]
+
+
+def node_count(y) -> int:
+    """Sign changes of an eigenvector, ignoring components at rounding level."""
+    big = np.abs(y) > 1e-9 * np.max(np.abs(y))
+    v = y[big]
+    return int(np.count_nonzero(np.signbit(v[1:]) != np.signbit(v[:-1])))
 
 
 def count_below(diag, off, value: float) -> int:

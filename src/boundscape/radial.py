@@ -198,7 +198,8 @@ def _refine(pot: Potential, l: int, k: int, guess: float, rtol: float, want_u: b
         if e_err <= rtol * abs(energy) or theta < 0.05:
             break
         theta *= 0.6  # not resolved to tolerance (shallow levels are the usual case): finer grid
-    radii = [_mean_radius(pot, l, op, y, energy) for op, y in zip(ops, ys)]
+    tail = exterior.tail_moments(pot.tail, l, energy, ops[0].grid.r_max, pot.mass)  # same R on every grid
+    radii = [_mean_radius(op, y, tail) for op, y in zip(ops, ys)]
     r_best, _ = fd.richardson(radii, FACTORS)
     status, reason = OK, ""
     if not (e_err <= rtol * abs(energy)) or not math.isfinite(energy):
@@ -223,12 +224,18 @@ def _self_consistent(pot, l, k, ops, energy):
     scale = pot.energy_scale
     open_tail = pot.tail != "confining"
     lo, hi = -math.inf, (0.0 if open_tail else math.inf)
-    guesses = [energy] * len(ops)
+    guesses = None
     for _ in range(60):
         s = ops[0].grid.end_log_derivative_to_s(_exterior_log_derivative(pot, l, energy, R))
         values, ys = [], []
         for i, op in enumerate(ops):
-            e_i, y = _eigenpair(op, k, s, guesses[i], scale)
+            if guesses is None:
+                # first pass: locate on the coarsest grid by bisection, then follow it to finer
+                # grids by inverse iteration from the previous grid's value
+                guess = values[-1] if values else energy
+                e_i, y = _eigenpair(op, k, s, guess, scale, locate=not values)
+            else:
+                e_i, y = _eigenpair(op, k, s, guesses[i], scale, locate=False)
             values.append(e_i)
             ys.append(y)
         guesses = values
@@ -257,21 +264,33 @@ def _self_consistent(pot, l, k, ops, energy):
     raise ConvergenceError(f"level n_r={k}, l={l}: outer boundary iteration did not converge (last E={energy:.6g})")
 
 
-def _eigenpair(op: fd.Operator, k: int, s: float, guess: float, scale: float):
-    """Eigenvalue k (as a Rayleigh quotient) and eigenvector of T with outer condition s."""
+def _eigenpair(op: fd.Operator, k: int, s: float, guess: float, scale: float, locate: bool = True):
+    """Eigenvalue k (as a Rayleigh quotient) and eigenvector of T with outer condition s.
+
+    With ``locate`` the eigenvalue is first bracketed by bisection (to a loose tolerance: the
+    Rayleigh quotient supplies the digits); otherwise ``guess`` is trusted as a shift close to
+    eigenvalue k, and the node count of the result checks that trust."""
+    if not locate:
+        y = op.eigenvector(s, guess, iterations=2, scale=scale)
+        e = op.rayleigh(s, y)
+        y = op.eigenvector(s, e, iterations=1, scale=scale)  # one Rayleigh-quotient step
+        if fd.node_count(y) == k:
+            return op.rayleigh(s, y), y
     diag = op.diagonal(s)
     delta = 0.05 * abs(guess) + 1e-9 * scale
-    w, _, _ = fd.eigenvalue_near(diag, op.off, k, guess, delta)
-    y = op.eigenvector(s, float(w[0]))
+    w, _, _ = fd.eigenvalue_near(diag, op.off, k, guess, delta, rtol=1e-8)
+    y = op.eigenvector(s, float(w[0]), scale=scale)
+    e = op.rayleigh(s, y)
+    y = op.eigenvector(s, e, iterations=1, scale=scale)
     return op.rayleigh(s, y), y
 
 
-def _mean_radius(pot, l, op: fd.Operator, y, energy):
-    """⟨r⟩ = ∫ r u² / ∫ u², the part beyond R from the exterior solution."""
+def _mean_radius(op: fd.Operator, y, tail):
+    """⟨r⟩ = ∫ r u² / ∫ u², the part beyond R from the exterior solution's moments ``tail``."""
     h = op.grid.h
     w_end = y[-1] / math.sqrt(op.weight[-1])
     u_end2 = op.g[-1] * w_end * w_end
-    t0, t1 = exterior.tail_moments(pot.tail, l, energy, op.grid.r_max, pot.mass)
+    t0, t1 = tail
     norm = h * float(y @ y) + u_end2 * t0
     first = h * float((y * y) @ op.r) + u_end2 * t1
     return first / norm

@@ -90,7 +90,7 @@ class ZeroEnergyProblem:
                 w = fd.eigenvalue_near(d, op.off, k, guess, delta)[0][0]
             else:
                 w = fd.eigenvalues_by_index(d, op.off, k, k, self.scale)[0][0]
-            self._cache[key] = op.rayleigh(s, op.eigenvector(s, float(w)))
+            self._cache[key] = op.rayleigh(s, op.eigenvector(s, float(w), scale=self.scale))
         return self._cache[key]
 
     def eigenvalues(self, k: int, factors) -> np.ndarray:
