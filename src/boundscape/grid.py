@@ -148,9 +148,9 @@ class Operator:
 
         LAPACK's dstein on T fails here: it perturbs close shifts by ~eps·‖T‖, and the log map
         makes ‖T‖ ~ 1/(h² r_min²) ~ 1e30, while A and B have no such range."""
-        # The shift is kept 1e-9 (relative) off the eigenvalue: an exact eigenvalue can make a
+        # The shift is kept 1e-12 (relative) off the eigenvalue: an exact eigenvalue can make a
         # pivot exactly zero, and an offset δ costs the Rayleigh quotient only ~(δ/gap)².
-        offset = 1e-9 * max(abs(shift), 1e-6 * scale)
+        offset = 1e-12 * max(abs(shift), 1e-6 * scale)
         a = self.a_diag.copy()
         a[-1] += -s / (2.0 * self.mass * self.grid.h)
         d = a - (shift + offset) * self.weight
