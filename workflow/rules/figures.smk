@@ -12,23 +12,19 @@ FIGURES = f"{RESULTS}/figures"
 HAS_CONDITION_MAP = isinstance(PRESET, (_presets.Plasma, _presets.Semiconductor))
 
 
-def _figure(stem, caption, category, subcategory=None):
-    """A PNG shown in the report and the PDF beside it."""
-    labels = {"figure": Path(stem).name}
-    return [report(f"{FIGURES}/{stem}.png", caption=f"../report/{caption}", category=category,
-                   subcategory=subcategory, labels=labels),
-            f"{FIGURES}/{stem}.pdf"]
-
-
-FIGURE_OUTPUTS = {
-    **{f"threshold_map_l{l}": _figure(f"threshold_map_l{l}", "threshold_map.rst", "Threshold maps", f"l = {l}")
-       for l in PLAN.l},
-    "level_fan": _figure("level_fan", "level_fan.rst", "Level fans"),
-    "table": report(f"{FIGURES}/critical_screening_lengths.csv", caption="../report/critical_table.rst",
-                    category="Tables", labels={"table": "critical screening lengths"}),
-}
+# (stem, caption, report category, subcategory) of each figure: a PNG in the report, a PDF beside it.
+_FIGURE_LIST = [(f"threshold_map_l{l}", "threshold_map.rst", "Threshold maps", f"l = {l}") for l in PLAN.l]
+_FIGURE_LIST.append(("level_fan", "level_fan.rst", "Level fans", None))
 if HAS_CONDITION_MAP:
-    FIGURE_OUTPUTS["condition_map"] = _figure("condition_map", "condition_map.rst", "Physical conditions")
+    _FIGURE_LIST.append(("condition_map", "condition_map.rst", "Physical conditions", None))
+
+# (Snakemake's parser reads `report` at the start of a line as its keyword: keep it mid-line.)
+FIGURE_OUTPUTS = {"table": report(f"{FIGURES}/critical_screening_lengths.csv", caption="../report/critical_table.rst",
+                                  category="Tables", labels={"table": "critical screening lengths"})}
+for _stem, _caption, _category, _subcategory in _FIGURE_LIST:
+    FIGURE_OUTPUTS[_stem] = [report(f"{FIGURES}/{_stem}.png", caption=f"../report/{_caption}", category=_category,
+                                    subcategory=_subcategory, labels={"figure": _stem}),
+                             f"{FIGURES}/{_stem}.pdf"]
 
 ALL_TARGETS += [path for paths in FIGURE_OUTPUTS.values() for path in (paths if isinstance(paths, list) else [paths])]
 
@@ -39,7 +35,7 @@ rule figures:
     output:
         **FIGURE_OUTPUTS,
     params:
-        outdir=FIGURES,
+        outdir=lambda wildcards, output: Path(output.table).parent,
     log:
         f"{RESULTS}/logs/figures.log",
     benchmark:

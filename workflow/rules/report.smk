@@ -12,6 +12,8 @@ rule report_summary:
     log:
         f"{RESULTS}/logs/report_summary.log",
     localrule: True
+    conda:
+        "../envs/boundscape.yaml"
     shell:
         "cp {input:q} {output:q} 2> {log:q}"
 
