@@ -84,7 +84,7 @@ def test_tiles_cover_every_cell_once(cells):
     plan = sweep.plan(mutated(lambda c: c["tiles"].update(cells=cells)))
     count = np.zeros((plan.strength.size, plan.screening_length.size), int)
     for tile in plan.tiles:
-        s, j = slice(*tile.strength_slice), slice(*tile.screening_length_slice)
+        s, j = slice(*tile.strength_slice), list(tile.screening_length_index)
         count[s, j] += 1
         np.testing.assert_array_equal(tile.strength, plan.strength[s])
         np.testing.assert_array_equal(tile.screening_length, plan.screening_length[j])

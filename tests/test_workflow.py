@@ -194,7 +194,7 @@ def test_resumes_after_a_kill(tmp_path):
 def test_a_changed_config_recomputes_only_what_it_changes(tiny_run):
     tmp_path = tiny_run[0]  # continues the module's run; its cube was loaded already
     before = tile_mtimes(tmp_path)
-    assert len(before) == 6  # 2 strengths x λ blocks of 2, 2, 1
+    assert len(before) == 6  # 2 strengths x 3 tiles dealing out λ: indices (0, 3), (1, 4), (2,)
     more = with_changes(grid__strength=[1.0, 2.0, 3.0])
     snakemake(tmp_path, more, "--cores", "2")
     after = tile_mtimes(tmp_path)

@@ -93,7 +93,7 @@ def collect(config: dict, tile_paths, critical_paths, output, summary=None) -> s
     engine_seconds = 0.0
     for tile, path in zip(plan.tiles, tile_paths):
         arrays, attrs = _read_checked(path, plan.tile_spec(tile))
-        where = (slice(*tile.strength_slice), slice(*tile.screening_length_slice))
+        where = (slice(*tile.strength_slice), list(tile.screening_length_index))
         for name in (*LEVEL_VARS, "num_bound", "status"):
             levels[name][where] = arrays[name]
         engine_seconds += float(attrs["engine_seconds"])

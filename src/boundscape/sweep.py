@@ -32,13 +32,13 @@ CRITICAL_COST_IN_CELLS = 1
 
 @dataclass(frozen=True)
 class Tile:
-    """A rectangular block of cells: some strengths × some screening lengths × every l."""
+    """A block of cells: consecutive strengths × every k-th screening length × every l."""
 
     index: int
     strength: tuple[float, ...]
     screening_length: tuple[float, ...]
     strength_slice: tuple[int, int]
-    screening_length_slice: tuple[int, int]
+    screening_length_index: tuple[int, ...]
 
     @property
     def name(self) -> str:
@@ -67,12 +67,12 @@ class Plan:
         return {**self.engine, "n_r_max": self.n_r_max, "strength": list(tile.strength),
                 "screening_length": list(tile.screening_length), "l": [int(v) for v in self.l],
                 "strength_slice": list(tile.strength_slice),
-                "screening_length_slice": list(tile.screening_length_slice)}
+                "screening_length_index": list(tile.screening_length_index)}
 
     def critical_spec(self, block: Tile) -> dict:
         spec = self.tile_spec(block)
         # Critical lengths do not depend on the λ grid; only its ends decide the flags in collect.
-        spec.pop("screening_length"), spec.pop("screening_length_slice")
+        spec.pop("screening_length"), spec.pop("screening_length_index")
         return spec
 
 
@@ -179,6 +179,8 @@ def plan(config: dict) -> Plan:
 
     Tiles keep every l (a potential is built once per strength and λ) and take whole λ rows
     when they fit, so that adding strengths adds tiles without touching the existing ones.
+    A row too long for one tile is dealt out: tile r of R takes λ indices r, r+R, r+2R, ...,
+    because the cost of a cell grows with λ (more levels) and tiles should cost alike.
     """
     config = validate_config(config)
     grid = config["grid"]
@@ -189,19 +191,18 @@ def plan(config: dict) -> Plan:
     cells = int(config["tiles"]["cells"])
 
     per_strength = screening_length.size * l_values.size
-    if cells >= per_strength:
-        strength_block, lam_block = max(1, cells // per_strength), screening_length.size
-    else:
-        strength_block, lam_block = 1, max(1, cells // l_values.size)
+    strength_block = max(1, cells // per_strength)
+    deal = -(-screening_length.size // max(1, cells // l_values.size)) if cells < per_strength else 1
     tiles = []
     for s0, s1 in _blocks(strength.size, strength_block):
-        for j0, j1 in _blocks(screening_length.size, lam_block):
+        for r in range(deal):
+            index = tuple(range(r, screening_length.size, deal))
             tiles.append(Tile(len(tiles), tuple(strength[s0:s1].tolist()),
-                              tuple(screening_length[j0:j1].tolist()), (s0, s1), (j0, j1)))
+                              tuple(screening_length[list(index)].tolist()), (s0, s1), index))
 
     critical_block = max(1, cells // (CRITICAL_COST_IN_CELLS * l_values.size * n_r_max))
     critical_blocks = tuple(
-        Tile(i, tuple(strength[s0:s1].tolist()), (), (s0, s1), (0, 0))
+        Tile(i, tuple(strength[s0:s1].tolist()), (), (s0, s1), ())
         for i, (s0, s1) in enumerate(_blocks(strength.size, critical_block)))
 
     pot = config["potential"]
