@@ -90,6 +90,15 @@ def _units(ds, preset):
     return cube_units(preset, float(ds.attrs.get("mass", 1.0)))
 
 
+def _unit_names(preset):
+    """Names of the cube's length and energy units: atomic, unless the preset reads them otherwise."""
+    if isinstance(preset, Semiconductor) and preset.units_choice == "effective":
+        return "effective Bohr radii a*", "effective hartrees 2Ry*"
+    if isinstance(preset, Nuclear):
+        return f"b = {preset.length_fm:g} fm", "(ħc)²/(μc² b²)"
+    return "bohr", "hartree"
+
+
 def _length_unit(ds, preset):
     """(unit name, factor from the cube's length unit) of the preset's physical length."""
     if preset is None:
@@ -121,7 +130,7 @@ def threshold_map(ds, l, preset=None):
     mesh = ax.pcolormesh(_edges(z), _edges(lam), np.ma.masked_invalid(np.minimum(count, top)).T,
                          cmap=cmap, norm=norm)
     ax.set(xscale="log", yscale="log", xlim=_edges(z)[[0, -1]], ylim=_edges(lam)[[0, -1]],
-           xlabel=f"strength {_strength_label(ds)}", ylabel="screening length λ (bohr)",
+           xlabel=f"strength {_strength_label(ds)}", ylabel=f"screening length λ ({_unit_names(preset)[0]})",
            title=f"{ds.attrs.get('family', '')} potential, l = {l}: bound states and where each is lost")
     _value_ticks(ax.xaxis, z)
     _count_colorbar(fig, mesh, ax, top, f"number of bound states with l = {l}", capped=True)
@@ -177,7 +186,7 @@ def fan_strengths(strength, most=3):
     return strength[picks]
 
 
-def level_fan(ds, strengths=None):
+def level_fan(ds, strengths=None, preset=None):
     """−E_nl against λ, one row per chosen strength and one panel per l; each state's critical length marked.
 
     Returns
@@ -226,13 +235,11 @@ def level_fan(ds, strengths=None):
                 ax.text(0.5, 0.5, "no bound level stored", transform=ax.transAxes, ha="center", va="center",
                         color="0.4")
             ax.set_title(f"strength {z:g}, l = {l}")
-            if row == len(strengths) - 1:
-                ax.set_xlabel("screening length λ (bohr)")
-            if col == 0:
-                ax.set_ylabel("binding energy −E (hartree)")
     handles = [matplotlib.lines.Line2D([], [], color=c, lw=1.3, label=f"n_r = {k}") for k, c in enumerate(colors)]
     handles.append(matplotlib.lines.Line2D([], [], color="0.3", marker="^", ls="", label="λ_c (state lost)"))
     fig.legend(handles=handles, loc="outside right center", fontsize=7, title="n = n_r + l + 1", title_fontsize=7)
+    fig.supxlabel(f"screening length λ ({_unit_names(preset)[0]})", fontsize="medium")
+    fig.supylabel(f"binding energy −E ({_unit_names(preset)[1]})", fontsize="medium")
     fig.suptitle("Level fan: binding energy against screening length")
     return fig, {"lines": lines, "critical": critical}
 
@@ -324,6 +331,8 @@ def condition_map(ds, preset, settings=None):
                     ax.annotate(name, (loss[i], temperature[i]), xytext=(4, 0), textcoords="offset points",
                                 ha="left", va="center", color="white", fontsize=8, path_effects=_HALO)
             else:
+                if n_r == 0:
+                    ax.set_title(f"{what} = {charge:g}: ground state lost at n = {loss[0]:.3g} cm⁻³")
                 ax.axvline(loss[0], ls="--", color="C0", lw=1)
                 ax.annotate(f"{name} lost", (loss[0], top), rotation=90, fontsize=7, xytext=(-8, 0),
                             textcoords="offset points", ha="center", va="top", color="C0")
@@ -341,7 +350,8 @@ def condition_map(ds, preset, settings=None):
             ax.set_ylabel(t_label if two_d else "surviving stored bound states")
     if two_d:
         _count_colorbar(fig, mesh, list(axes[:len(strengths)]), top, "surviving stored bound states (all l)")
-    handles = [matplotlib.lines.Line2D([], [], color="0.4", ls="--", label=f"loss of the lowest l = {l0} states")]
+    handles = [matplotlib.lines.Line2D([], [], color="0.4" if two_d else "C0", ls="--",
+                                       label=f"loss of the lowest l = {l0} states")]
     if is_plasma:
         handles.append(matplotlib.lines.Line2D([], [], color="red", ls=":",
                                                label="N_D = 1 (Debye picture fails to the right)"))
@@ -418,7 +428,7 @@ def render_all(ds, outdir):
     with matplotlib.rc_context(_RC):
         for l in ds["l"].values:
             written += save(threshold_map(ds, int(l), preset)[0], outdir / f"threshold_map_l{int(l)}")
-        written += save(level_fan(ds)[0], outdir / "level_fan")
+        written += save(level_fan(ds, preset=preset)[0], outdir / "level_fan")
         fig, _ = condition_map(ds, preset, settings)
         if fig is not None:
             written += save(fig, outdir / "condition_map")
