@@ -6,7 +6,7 @@ below zero.  Both run over the same cells (families × Z × λ × l, a third of 
 threshold).  Printed: cost per cell of each, their ratio, each one's largest relative error
 against converged values, and each one's number of cells with a wrong bound-state count.
 
-Converged values: exact formulas where they exist (Hulthén l = 0); elsewhere the engine itself
+Converged values: exact where known (Hulthén l = 0, square well); elsewhere the engine itself
 with every refinement doubled and a wider box margin, whose own agreement with the exact
 Hulthén levels is printed too.
 
@@ -56,7 +56,32 @@ def cells(quick=False):
     return out[::4] if quick else out
 
 
+def square_well_levels(depth, radius, l, mass=1.0):
+    """Exact square-well levels: zeros of the Wronskian of r·j_l(kr) inside and r·k_l(κr)
+    outside at r = radius (any quantum mechanics textbook), scanned in E then brentq."""
+    from scipy.optimize import brentq
+    from scipy.special import spherical_jn, kve
+
+    def wronskian(E):
+        k, kap = math.sqrt(2 * mass * (E + depth)), math.sqrt(-2 * mass * E)
+        x, z = k * radius, kap * radius
+        uin = radius * spherical_jn(l, x)
+        duin = spherical_jn(l, x) + x * spherical_jn(l, x, derivative=True)
+        nu = l + 0.5  # r·k_l(κr) ∝ √r K_ν(κr), exponentially scaled
+        uout = math.sqrt(radius) * kve(nu, z)
+        duout = uout * (0.5 / radius - kap * (kve(nu - 1, z) / kve(nu, z) + nu / z))
+        return duin * uout - duout * uin
+
+    es = -np.concatenate([np.linspace(depth * (1 - 1e-9), 1e-3 * depth, 4000), np.geomspace(1e-3 * depth, 1e-14 * depth, 2000)])
+    w = np.array([wronskian(e) for e in es])
+    roots = [brentq(wronskian, es[i], es[i + 1], xtol=1e-300, rtol=1e-15)
+             for i in range(len(es) - 1) if np.sign(w[i]) != np.sign(w[i + 1])]
+    return np.array(sorted(roots))
+
+
 def reference(pot, l):
+    if pot.family == "square_well":
+        return square_well_levels(pot.strength, pot.screening_length, l, pot.mass), "exact"
     if pot.family == "hulthen" and l == 0 and pot.mass == 1.0:
         Z, lam = pot.strength, pot.screening_length
         n = np.arange(1, int(math.ceil(math.sqrt(2 * Z * lam))) + 1)
@@ -113,7 +138,7 @@ def main():
         err_ours = max(err_ours, max_rel(a.energy, ref, p.energy_scale))
         err_plain = max(err_plain, max_rel(b, ref, p.energy_scale))
         flagged += int(np.any(a.status != 0))
-    # how good is the "engine x2" reference? against the exact Hulthén levels
+    # how good is the "engine x2" reference? against the exact levels
     for (p, l), (ref, kind) in zip(pots, refs):
         if kind == "exact":
             saved = radial.FACTORS, radial.DECAY_LENGTHS
@@ -131,7 +156,7 @@ def main():
     print(f"cost ratio (boundscape / plain): {t_ours / t_plain:.2f}")
     print(f"error ratio (plain / boundscape): {err_plain / max(err_ours, 1e-300):.2e}")
     print(f"cells with a level flagged not converged: {flagged}")
-    print(f"reference check: 'engine x2' against exact Hulthén levels: max relative error {exact_agreement:.2e}")
+    print(f"reference check: 'engine x2' against the exact levels: max relative error {exact_agreement:.2e}")
 
 
 if __name__ == "__main__":

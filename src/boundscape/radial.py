@@ -216,23 +216,28 @@ def _self_consistent(pot, l, k, ops, energy):
     condition s, and s depends on E through the exterior solution.
 
     The extrapolation is done at fixed s because only there is the error an even series in h
-    (near threshold s(E) is not analytic in E: it has a |E|^{3/2} term for l = 1).  Newton's
-    method, its derivative from the first-order sensitivity of the eigenvalue to the boundary row,
-    safeguarded by a bracket: φ(E) = Ê(s(E)) − E decreases with E, and φ(0) < 0 for a bound level.
-    Deep levels, whose boundary row does not matter, take one step."""
+    (s(E) is not analytic in E at threshold).  The unknown is κ = √(2μ|E|), in which the
+    condition is smooth down to κ = 0 (an l = 0 level's E vanishes quadratically in the distance
+    to threshold, κ only linearly): ψ(κ) = Ê_k(s(κ)) + κ²/2μ increases with κ, ψ(0) < 0 for a
+    bound level.  Newton's method, its derivative from the first-order sensitivity of the
+    eigenvalue to the boundary row, safeguarded by a bracket.  Deep levels, whose boundary row
+    does not matter, take one step.  A confining tail has no κ: one step at the guess."""
     R = ops[0].grid.r_max
     scale = pot.energy_scale
-    open_tail = pot.tail != "confining"
-    lo, hi = -math.inf, (0.0 if open_tail else math.inf)
+    mass = pot.mass
+    confining = pot.tail == "confining"
+    kappa = 0.0 if confining else math.sqrt(2.0 * mass * max(-energy, 1e-300))
+    lo, hi = 0.0, math.inf
     guesses = None
     for _ in range(60):
-        s = ops[0].grid.end_log_derivative_to_s(_exterior_log_derivative(pot, l, energy, R))
+        e_now = energy if confining else -kappa * kappa / (2.0 * mass)
+        s = ops[0].grid.end_log_derivative_to_s(_exterior_log_derivative(pot, l, e_now, R))
         values, ys = [], []
         for i, op in enumerate(ops):
             if guesses is None:
                 # first pass: locate on the coarsest grid by bisection, then follow it to finer
                 # grids by inverse iteration from the previous grid's value
-                guess = values[-1] if values else energy
+                guess = values[-1] if values else e_now
                 e_i, y = _eigenpair(op, k, s, guess, scale, locate=not values)
             else:
                 e_i, y = _eigenpair(op, k, s, guesses[i], scale, locate=False)
@@ -241,27 +246,35 @@ def _self_consistent(pot, l, k, ops, energy):
         guesses = values
         extrap, err = fd.richardson(values, FACTORS)
         op = ops[-1]
-        slope = op.end_sensitivity(ys[-1][-1]) * op.g[-1] * exterior.log_derivative_slope(
-            pot.tail, l, energy, R, pot.mass, pot.coulomb_charge, pot.strength)
-        if abs(slope) < 1e-13:
+        if confining:
             return extrap, err, s, ys
-        phi = extrap - energy
-        if phi > 0:
-            lo = max(lo, energy)
+        dlog_dk = _dlog_dkappa(pot, l, kappa, R)
+        sens = op.end_sensitivity(ys[-1][-1]) * op.g[-1]  # ∂eig/∂(u'/u at R)
+        if abs(sens * dlog_dk) * kappa < 1e-13 * abs(extrap):
+            return extrap, err, s, ys  # the outer condition does not matter
+        psi = extrap + kappa * kappa / (2.0 * mass)
+        if psi < 0:
+            lo = max(lo, kappa)
         else:
-            hi = min(hi, energy)
-        new = energy + phi / (1.0 - slope)
+            hi = min(hi, kappa)
+        dpsi = sens * dlog_dk + kappa / mass
+        new = kappa - psi / dpsi if dpsi > 0 else math.nan
         if not (lo < new < hi):
-            if math.isinf(lo):
-                new = 2.0 * hi if hi < 0 else hi - scale
-            elif hi < 0:
-                new = -math.sqrt(lo * hi)  # levels span decades near threshold: bisect in log
-            else:
-                new = 0.25 * lo
-        if abs(new - energy) <= 1e-14 * abs(new):
-            return new, err, s, ys
-        energy = new
-    raise ConvergenceError(f"level n_r={k}, l={l}: outer boundary iteration did not converge (last E={energy:.6g})")
+            new = 0.5 * (lo + hi) if math.isfinite(hi) else 2.0 * max(lo, kappa, 1e-12)
+        e_new = -new * new / (2.0 * mass)
+        if abs(new - kappa) <= 1e-14 * new or abs(e_new - e_now) <= 1e-3 * err:
+            return extrap, err, s, ys
+        kappa = new
+    raise ConvergenceError(f"level n_r={k}, l={l}: outer boundary iteration did not converge (last κ={kappa:.6g})")
+
+
+def _dlog_dkappa(pot, l, kappa, R):
+    """d(u'/u at R)/dκ of the exterior solution, by a central difference."""
+    dk = 1e-6 * kappa + 1e-12
+    up = _exterior_log_derivative(pot, l, -((kappa + dk) ** 2) / (2 * pot.mass), R)
+    down_k = max(kappa - dk, 0.0)
+    down = _exterior_log_derivative(pot, l, -(down_k**2) / (2 * pot.mass), R)
+    return (up - down) / (kappa + dk - down_k)
 
 
 def _eigenpair(op: fd.Operator, k: int, s: float, guess: float, scale: float, locate: bool = True):
