@@ -184,7 +184,7 @@ def test_never_bound_states_are_kept_out_of_the_curves(never_binding_cube, tmp_p
 def test_reruns_are_byte_identical(yukawa_cube, tmp_path):
     first = figures.render_all(yukawa_cube, tmp_path / "a")
     second = figures.render_all(yukawa_cube, tmp_path / "b")
-    assert {p.suffix for p in first} == {".png", ".pdf", ".csv"}
+    assert {p.suffix for p in first} == {".png", ".pdf", ".csv", ".yaml"}
     for a, b in zip(first, second):
         assert a.read_bytes() == b.read_bytes(), a.name
 
@@ -212,5 +212,6 @@ def test_workflow_renders_figures_and_builds_the_report(tmp_path):
                          text=True, timeout=300)
     assert run.returncode == 0, run.stderr[-2000:]
     html = (out / "report.html").read_text()
-    for text in ("Threshold maps", "Level fans", "Physical conditions", "threshold_map_l0.png", "run_summary.txt"):
+    for text in ("Threshold maps", "Level fans", "Physical conditions", "threshold_map_l0.png", "run_summary.txt",
+                 "sweep_config.yaml", "the exact number of bound states of this l"):
         assert text in html

@@ -433,7 +433,10 @@ def render_all(ds, outdir):
         if fig is not None:
             written += save(fig, outdir / "condition_map")
     write_critical_csv(ds, outdir / "critical_screening_lengths.csv", preset)
-    return written + [outdir / "critical_screening_lengths.csv"]
+    # The configuration the cube was computed from, as stored in it, for the report.
+    config = outdir / "sweep_config.yaml"
+    config.write_text(f"# config_sha256: {ds.attrs.get('config_sha256', 'unknown')}\n{ds.attrs.get('config_yaml', '')}")
+    return written + [outdir / "critical_screening_lengths.csv", config]
 
 
 def main(argv=None):

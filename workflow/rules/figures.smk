@@ -20,7 +20,9 @@ if HAS_CONDITION_MAP:
 
 # (Snakemake's parser reads `report` at the start of a line as its keyword: keep it mid-line.)
 FIGURE_OUTPUTS = {"table": report(f"{FIGURES}/critical_screening_lengths.csv", caption="../report/critical_table.rst",
-                                  category="Tables", labels={"table": "critical screening lengths"})}
+                                  category="Tables", labels={"table": "critical screening lengths"}),
+                  "config": report(f"{FIGURES}/sweep_config.yaml", caption="../report/sweep_config.rst",
+                                   category="Run", labels={"file": "configuration"})}
 for _stem, _caption, _category, _subcategory in _FIGURE_LIST:
     FIGURE_OUTPUTS[_stem] = [report(f"{FIGURES}/{_stem}.png", caption=f"../report/{_caption}", category=_category,
                                     subcategory=_subcategory, labels={"figure": _stem}),
