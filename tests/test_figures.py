@@ -19,7 +19,7 @@ from scipy.constants import physical_constants as pc
 
 from boundscape import figures, steps, sweep
 from boundscape.cube import open_cube
-from boundscape.presets import Plasma, Semiconductor
+from boundscape.presets import Nuclear, Plasma, Semiconductor
 
 pytestmark = pytest.mark.filterwarnings("error")
 BOHR = pc["Bohr radius"][0]
@@ -215,3 +215,25 @@ def test_workflow_renders_figures_and_builds_the_report(tmp_path):
     for text in ("Threshold maps", "Level fans", "Physical conditions", "threshold_map_l0.png", "run_summary.txt",
                  "sweep_config.yaml", "the exact number of bound states of this l"):
         assert text in html
+
+
+@pytest.mark.skipif(shutil.which("compliance-checker") is None, reason="compliance-checker not installed")
+@pytest.mark.parametrize("preset", [Plasma(temperature_eV=10.0),
+                                    Semiconductor(effective_mass=0.26, permittivity=11.7),
+                                    Nuclear(reduced_mass_MeV=469.4591)], ids=["plasma", "semiconductor", "nuclear"])
+def test_physical_coordinates_keep_the_cube_cf_conformant(yukawa_cube, preset, tmp_path):
+    # An independent checker (IOOS compliance-checker, CF-1.10 suite, strict) must find nothing.
+    from boundscape.cube import write_cube
+    from boundscape.presets import add_physical_coordinates
+
+    path = tmp_path / "physical.nc"
+    write_cube(add_physical_coordinates(yukawa_cube, preset), path)
+    report = tmp_path / "cf.json"
+    subprocess.run(["compliance-checker", "--test", "cf:1.10", "--criteria", "strict", "--format", "json",
+                    "-o", str(report), str(path)], capture_output=True, text=True, timeout=300)
+    result = json.loads(report.read_text())["cf:1.10"]
+    findings = [(p["name"], m) for level in ("high_priorities", "medium_priorities", "low_priorities")
+                for p in result[level] for m in p["msgs"]]
+    assert findings == []
+    with open_cube(path) as ds:
+        assert ds[f"screening_length_{preset.length_unit}"].attrs["units"] == preset.length_unit
