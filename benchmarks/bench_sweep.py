@@ -29,13 +29,14 @@ REPO = Path(__file__).resolve().parents[1]
 TARGETS = {"cells": 20_000, "wall_s": 60.0, "overhead": 0.15, "growth": 2.1}
 
 
-def with_lambda_points(config, num):
+def with_lambda_points(config, num, cells_per_tile):
     config = yaml.safe_load(yaml.safe_dump(config))
     axis = config["grid"]["screening_length"]
     if not isinstance(axis, dict):
         raise SystemExit("bench_sweep: the sweep's screening_length must be a {start, stop, num} range")
     axis["num"] = int(num)
-    # Same cells per tile, so half the cells means half the jobs.
+    # Same cells per tile in both sweeps, so half the cells means half the jobs.
+    config["tiles"]["cells"] = int(cells_per_tile)
     return config
 
 
@@ -44,9 +45,9 @@ def run(config, cores, workdir):
     (workdir / "sweep.yaml").write_text(yaml.safe_dump(config))
     plan = sweep.plan(config)
     cube = workdir / "results" / plan.sweep / "levels.nc"
-    command = [sys.executable, "-m", "snakemake", "--snakefile", str(REPO / "Snakefile"), "--directory",
-               str(workdir), "--configfile", str(workdir / "sweep.yaml"), "--cores", str(cores), "--quiet",
-               "all", str(cube.relative_to(workdir))]
+    command = [sys.executable, "-m", "snakemake", str(cube.relative_to(workdir)), "--snakefile",
+               str(REPO / "Snakefile"), "--directory", str(workdir), "--configfile", str(workdir / "sweep.yaml"),
+               "--cores", str(cores), "--quiet", "all"]
     start = time.perf_counter()
     proc = subprocess.run(command, capture_output=True, text=True)
     wall = time.perf_counter() - start
@@ -75,7 +76,8 @@ def main():
 
     base = sweep.load_config(args.config)
     num = max(2, round(base["grid"]["screening_length"]["num"] * args.fraction))
-    sweeps = {"full": with_lambda_points(base, num), "half": with_lambda_points(base, max(1, num // 2))}
+    cells = max(1, round(base["tiles"]["cells"] * args.fraction))
+    sweeps = {"full": with_lambda_points(base, num, cells), "half": with_lambda_points(base, max(1, num // 2), cells)}
     if args.only:
         sweeps = {args.only: sweeps[args.only]}
     results = {}

@@ -200,12 +200,19 @@ def plan(config: dict) -> Plan:
             tiles.append(Tile(len(tiles), tuple(strength[s0:s1].tolist()),
                               tuple(screening_length[list(index)].tolist()), (s0, s1), index))
 
-    critical_block = max(1, cells // (CRITICAL_COST_IN_CELLS * l_values.size * n_r_max))
+    from .potentials import FAMILIES
+
+    pot = config["potential"]
+    if pot["family"] in FAMILIES and FAMILIES[pot["family"]].one_scale:
+        # λ_c(Z, μ) = λ_c(1, 1)/(Zμ): the engine solves each (l, n_r) once per process and caches
+        # it, so one block is cheapest and more blocks would only repeat the same root searches.
+        critical_block = strength.size
+    else:
+        critical_block = max(1, cells // (CRITICAL_COST_IN_CELLS * l_values.size * n_r_max))
     critical_blocks = tuple(
         Tile(i, tuple(strength[s0:s1].tolist()), (), (s0, s1), ())
         for i, (s0, s1) in enumerate(_blocks(strength.size, critical_block)))
 
-    pot = config["potential"]
     engine = {"family": pot["family"], "mass": float(pot["mass"])}
     if pot["family"] == "tabulated":
         engine.update(table=pot["table"], screened=bool(pot["screened"]),
