@@ -17,7 +17,7 @@ import pytest
 import yaml
 from scipy.constants import physical_constants as pc
 
-from boundscape import figures, steps, sweep
+from boundscape import conditions, figures, steps, sweep
 from boundscape.cube import open_cube
 from boundscape.presets import Nuclear, Plasma, Semiconductor
 
@@ -129,7 +129,7 @@ def test_condition_map_counts_match_the_cells(yukawa_cube):
     plasma = Plasma(temperature_eV=10.0)
     lam = ds["screening_length"].values[1:-1]
     density = np.sort(plasma.density_for(lam * BOHR, 10.0) / 1e6)  # cm-3, ascending: λ descending
-    fig, data = figures.condition_map(ds, plasma, {"density_cm3": list(density), "temperature_eV": [10.0, 20.0],
+    fig, data = conditions.condition_map(ds, plasma, {"density_cm3": list(density), "temperature_eV": [10.0, 20.0],
                                                    "strengths": [1.0, 4.0]})
     assert fig is not None
     for z in (1.0, 4.0):
@@ -140,7 +140,7 @@ def test_condition_map_counts_match_the_cells(yukawa_cube):
 
 def test_semiconductor_condition_map_is_one_dimensional(yukawa_cube):
     semi = Semiconductor(effective_mass=0.067, permittivity=12.9)
-    fig, data = figures.condition_map(yukawa_cube, semi, {"strengths": [1.0]})
+    fig, data = conditions.condition_map(yukawa_cube, semi, {"strengths": [1.0]})
     assert data["count"][1.0].shape == (1, data["density_cm3"].size)
     counts = data["count"][1.0][0]
     assert counts[0] > counts[-1] and np.all(np.diff(counts) <= 0)  # denser carriers, fewer states
@@ -149,7 +149,7 @@ def test_semiconductor_condition_map_is_one_dimensional(yukawa_cube):
 def test_critical_table_equals_the_cube(yukawa_cube, tmp_path):
     ds = yukawa_cube
     plasma = Plasma(temperature_eV=10.0)
-    figures.write_critical_csv(ds, tmp_path / "critical.csv", plasma)
+    conditions.write_critical_csv(ds, tmp_path / "critical.csv", plasma)
     with open(tmp_path / "critical.csv") as f:
         rows = list(csv.DictReader(f))
     assert len(rows) == ds["critical_screening_length"].size

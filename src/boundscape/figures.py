@@ -1,16 +1,14 @@
-"""Figures and tables drawn from a cube alone: threshold maps, level fans, physical-condition maps.
+"""Figures drawn from a cube alone: threshold maps and level fans, and the files of a sweep.
 
 Nothing here solves the radial equation: every curve is a stored energy or a stored critical
-screening length, and a physical-condition map only compares a preset's screening length with
-the stored critical lengths.  Each function returns its figure together with the arrays it
+screening length (the physical-condition maps and the loss table live in :mod:`.conditions`,
+with the same rule).  Each function returns its figure together with the arrays it
 plotted, so tests can hold the picture against the cube.  Files are written with fixed
 metadata, so an unchanged cube gives byte-identical PNG and PDF files.
 """
 
 from __future__ import annotations
 
-import csv
-import dataclasses
 import math
 from pathlib import Path
 
@@ -23,11 +21,10 @@ from matplotlib import patheffects
 from matplotlib.colors import BoundaryNorm
 from matplotlib.figure import Figure
 
-from .presets import Nuclear, Plasma, Semiconductor, cube_units, from_config
-from .units import BOHR_M, convert
+from .presets import Nuclear, Semiconductor, cube_units, from_config
+from .units import convert
 
-__all__ = ["state_name", "threshold_map", "level_fan", "condition_map", "critical_rows",
-           "write_critical_csv", "save", "render_all", "cube_preset", "fan_strengths"]
+__all__ = ["state_name", "threshold_map", "level_fan", "save", "render_all", "cube_preset", "fan_strengths"]
 
 # Spectroscopic letters; j is skipped by convention (common practice, no source).
 _LETTERS = "spdfghiklmnoqrtuvwxyz"
@@ -244,172 +241,6 @@ def level_fan(ds, strengths=None, preset=None):
     return fig, {"lines": lines, "critical": critical}
 
 
-def surviving_levels(ds, strength, screening_length):
-    """Stored states (all l, n_r < n_r_max) with λ_c below ``screening_length`` (cube units, any shape)."""
-    lc = ds["critical_screening_length"].sel(strength=strength).values.ravel()
-    lc = lc[np.isfinite(lc)]
-    lam = np.asarray(screening_length, dtype=float)
-    return (lam[..., None] > lc).sum(axis=-1)
-
-
-def _axis_values(spec, default):
-    spec = spec or default
-    if isinstance(spec, dict):
-        return np.geomspace(float(spec["start"]), float(spec["stop"]), int(spec.get("num", 60)))
-    return np.asarray(spec, dtype=float)
-
-
-def condition_map(ds, preset, settings=None):
-    """Surviving stored levels over carrier density (× temperature): plasma or semiconductor preset.
-
-    A state survives where the preset's screening length at (n, T) exceeds its stored λ_c.
-
-    Returns
-    -------
-    fig : matplotlib.figure.Figure or None (nuclear, or no preset: no density axis)
-    data : dict
-        ``density_cm3``, ``temperature``, ``screening_length`` (T × n, cube units) and ``count``
-        (T × n) per strength.
-    """
-    settings = settings or {}
-    if isinstance(preset, Nuclear) or preset is None:
-        return None, {}
-    units = _units(ds, preset)
-    is_plasma = isinstance(preset, Plasma)
-    two_d = is_plasma or preset.screening == "debye"
-    if is_plasma:
-        temperature = _axis_values(settings.get("temperature_eV"), {"start": 0.1, "stop": 1e4, "num": 81})
-        t_label = "electron temperature T_e (eV)"
-    else:
-        temperature = _axis_values(settings.get("temperature_K"), {"start": 4, "stop": 600, "num": 61}) \
-            if two_d else np.array([preset.temperature_K])
-        t_label = "carrier temperature T (K)"
-    lc_all = ds["critical_screening_length"].values
-    lc_all = lc_all[np.isfinite(lc_all) & (lc_all > 0)] * units.length_m
-    if lc_all.size == 0:
-        return None, {}
-    # Default densities: from where every stored state survives to where the deepest is lost.
-    ends = [_density_for(preset, lc_all.max(), temperature[0]) / 30, _density_for(preset, lc_all.min(), temperature[-1]) * 30]
-    density = _axis_values(settings.get("density_cm3"), {
-        "start": float(convert(ends[0], "m-3", "cm-3")), "stop": float(convert(ends[1], "m-3", "cm-3")), "num": 121})
-    n_m3 = convert(density, "cm-3", "m-3")
-    lam_m = np.array([_screening_length(preset, n_m3, t) for t in temperature])  # (T, n)
-    lam = lam_m / units.length_m
-    strengths = _axis_values(settings.get("strengths"), list(fan_strengths(ds["strength"].values, 4)))
-    strengths = [ds["strength"].sel(strength=s, method="nearest").item() for s in strengths]
-    counts = {s: surviving_levels(ds, s, lam) for s in strengths}
-    top = max(max(int(c.max()) for c in counts.values()), 1)
-    cmap, norm = _count_norm(top)
-    ncols = min(2, len(strengths))
-    nrows = -(-len(strengths) // ncols)
-    fig = Figure(figsize=(4.3 * ncols + 1.2, 3.4 * nrows + 0.4), layout="constrained")
-    axes = fig.subplots(nrows, ncols, sharex=True, sharey=True, squeeze=False).ravel()
-    what = "ion charge Z" if is_plasma else "donor charge"
-    l0 = ds["l"].values[0]
-    for ax, s in zip(axes, strengths):
-        charge = s if is_plasma else float(preset.donor_charge(s))
-        ax.set(xscale="log", title=f"{what} = {charge:g}", xlim=(density.min(), density.max()))
-        if two_d:
-            mesh = ax.pcolormesh(_edges(density), _edges(temperature), counts[s], cmap=cmap, norm=norm)
-            ax.set_yscale("log")
-        else:
-            ax.step(density, counts[s][0], where="mid", color="black")
-            ax.set_ylim(-0.3, top + 0.6)
-        # The loss lines of the lowest states of the first l, each labelled where it crosses the middle.
-        lc = ds["critical_screening_length"].sel(strength=s, l=l0).values
-        for n_r, value in enumerate(lc[:3]):
-            if not (math.isfinite(value) and value > 0):
-                continue
-            name = state_name(int(ds["n"].sel(l=l0).values[n_r]), int(l0))
-            loss = convert(np.array([float(_density_for(preset, value * units.length_m, t)) for t in temperature]),
-                           "m-3", "cm-3")
-            if two_d:
-                ax.plot(loss, temperature, "--", color="white", lw=1, path_effects=_HALO)
-                # Staggered heights keep the labels of neighbouring lines apart.
-                i = int(round((0.8 - 0.2 * n_r) * (temperature.size - 1)))
-                if density.min() < loss[i] < density.max():
-                    ax.annotate(name, (loss[i], temperature[i]), xytext=(4, 0), textcoords="offset points",
-                                ha="left", va="center", color="white", fontsize=8, path_effects=_HALO)
-            else:
-                if n_r == 0:
-                    ax.set_title(f"{what} = {charge:g}: ground state lost at n = {loss[0]:.3g} cm⁻³")
-                ax.axvline(loss[0], ls="--", color="C0", lw=1)
-                ax.annotate(f"{name} lost", (loss[0], top), rotation=90, fontsize=7, xytext=(-8, 0),
-                            textcoords="offset points", ha="center", va="top", color="C0")
-        if is_plasma:
-            # Debye–Hückel screening needs many electrons in a Debye sphere, N_D = (4π/3) n λ_D³ ≫ 1.
-            n_debye = 4 * math.pi / 3 * n_m3[None, :] * lam_m ** 3
-            if n_debye.min() < 1 < n_debye.max():
-                ax.contour(density, temperature, n_debye, levels=[1.0], colors="red", linestyles=":", linewidths=1.2)
-    for ax in axes[len(strengths):]:
-        ax.set_visible(False)
-    for ax in axes[:len(strengths)]:
-        if ax.get_subplotspec().is_last_row():
-            ax.set_xlabel("electron density n_e (cm⁻³)" if is_plasma else "carrier density n (cm⁻³)")
-        if ax.get_subplotspec().is_first_col():
-            ax.set_ylabel(t_label if two_d else "surviving stored bound states")
-    if two_d:
-        _count_colorbar(fig, mesh, list(axes[:len(strengths)]), top, "surviving stored bound states (all l)")
-    handles = [matplotlib.lines.Line2D([], [], color="0.4" if two_d else "C0", ls="--",
-                                       label=f"loss of the lowest l = {l0} states")]
-    if is_plasma:
-        handles.append(matplotlib.lines.Line2D([], [], color="red", ls=":",
-                                               label="N_D = 1 (Debye picture fails to the right)"))
-    fig.legend(handles=handles, loc="outside lower center", fontsize=7, ncols=2)
-    return fig, {"density_cm3": density, "temperature": temperature, "screening_length": lam, "count": counts}
-
-
-def _screening_length(preset, n_m3, temperature):
-    if isinstance(preset, Plasma):
-        return preset.debye_length(n_m3, temperature)
-    return dataclasses.replace(preset, temperature_K=temperature).screening_length(n_m3)
-
-
-def _density_for(preset, lam_m, temperature):
-    if isinstance(preset, Plasma):
-        return preset.density_for(lam_m, temperature)
-    return dataclasses.replace(preset, temperature_K=temperature).density_for(lam_m) \
-        if preset.screening == "debye" else preset.density_for(lam_m)
-
-
-def critical_rows(ds, preset=None):
-    """One row per stored (strength, l, n_r): λ_c in bohr, in the preset's unit, and its loss density."""
-    units_m = _units(ds, preset).length_m
-    unit, factor = _length_unit(ds, preset)
-    flags = ds["critical_screening_length_flag"] if "critical_screening_length_flag" in ds else None
-    meanings = flags.attrs["flag_meanings"].split() if flags is not None else []
-    rows = []
-    for z in ds["strength"].values:
-        for l in ds["l"].values:
-            for n_r in ds["n_r"].values:
-                lc = float(ds["critical_screening_length"].sel(strength=z, l=l, n_r=n_r))
-                n = int(ds["n"].sel(l=l, n_r=n_r))
-                row = {"strength": float(z), "n": n, "l": int(l), "n_r": int(n_r), "state": state_name(n, int(l)),
-                       # Atomic-unit cubes keep every stored digit; others convert to bohr.
-                       "critical_screening_length_bohr": lc if units_m == BOHR_M else lc * units_m / BOHR_M}
-                if unit:
-                    row[f"critical_screening_length_{unit}"] = lc * factor
-                if isinstance(preset, (Plasma, Semiconductor)):
-                    t = preset.temperature_eV if isinstance(preset, Plasma) else preset.temperature_K
-                    density = float(_density_for(preset, lc * units_m, t)) if math.isfinite(lc) and lc > 0 else math.nan
-                    key = "loss_electron_density_cm-3" if isinstance(preset, Plasma) else "loss_carrier_density_cm-3"
-                    row[key] = convert(density, "m-3", "cm-3")
-                if flags is not None:
-                    row["flag"] = meanings[int(flags.sel(strength=z, l=l, n_r=n_r))]
-                rows.append(row)
-    return rows
-
-
-def write_critical_csv(ds, path, preset=None):
-    """Write ``critical_screening_lengths.csv`` (full float precision; inf where never bound)."""
-    rows = critical_rows(ds, preset)
-    with open(path, "w", newline="") as out:
-        writer = csv.DictWriter(out, fieldnames=list(rows[0]), lineterminator="\n")
-        writer.writeheader()
-        writer.writerows({k: repr(v) if isinstance(v, float) else v for k, v in row.items()} for row in rows)
-    return rows
-
-
 def save(fig, stem):
     """Write ``stem.png`` and ``stem.pdf`` with fixed metadata (byte-identical reruns)."""
     stem = Path(stem)
@@ -422,6 +253,8 @@ def save(fig, stem):
 
 def render_all(ds, outdir):
     """Every figure and the critical-lengths table of a cube, under ``outdir``; returns the paths."""
+    from .conditions import condition_map, write_critical_csv
+
     outdir = Path(outdir)
     preset, settings = cube_preset(ds)
     written = []
