@@ -270,6 +270,8 @@ class Potential:
             if self.tail == "coulomb":
                 return math.inf
             if self.screened:
+                if self.table.coulomb_charge > 0:  # a screened Coulomb tail runs past the table
+                    return TAIL_EXPONENT * self.screening_length
                 return min(end, TAIL_EXPONENT * self.screening_length)
             return end
         s = self.info.support

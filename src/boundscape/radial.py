@@ -36,6 +36,7 @@ DEFAULT_LEVELS = 20  # levels returned for potentials that bind infinitely many
 # Box margin beyond the turning point, in decay lengths 1/κ: the density there is e^{-2C}.
 DECAY_LENGTHS = 24.0
 FACTORS = (2, 3, 4, 5, 6)
+ROUNDOFF = 1e-14  # floor of an error estimate, relative: cancellation in E = <T> + <V>
 RTOL = 1e-9  # the accuracy the sweep promises on every level (relative)
 
 OK, NOT_CONVERGED = 0, 1
@@ -90,7 +91,7 @@ def bound_levels(pot: Potential, l: int, n_r_max: int | None = None, wavefunctio
     """
     l = check_l(l)
     if n_r_max is not None:
-        n_r_max = check_l(n_r_max)
+        n_r_max = check_l(n_r_max, "n_r_max")
     if pot.tail == "short":
         problem = zero_energy_problem(pot, l)
         count = _count(problem)
@@ -245,6 +246,7 @@ def _self_consistent(pot, l, k, ops, energy):
             ys.append(y)
         guesses = values
         extrap, err = fd.richardson(values, FACTORS)
+        err = max(err, ROUNDOFF * abs(extrap))  # two extrapolants can agree by chance
         op = ops[-1]
         if confining:
             return extrap, err, s, ys

@@ -35,14 +35,15 @@ ORIGIN_TOLERANCE = 1e-14
 FINE = (3, 4, 5, 6, 7)
 
 
-def check_l(l) -> int:
+def check_l(l, name: str = "l") -> int:
+    """A non-negative integer quantum number (``name`` says which, for the message)."""
     if isinstance(l, bool) or not isinstance(l, (int, np.integer)):
         if isinstance(l, float) and l.is_integer():
             l = int(l)
         else:
-            raise InputError(f"l must be a non-negative integer, got {l!r}")
+            raise InputError(f"{name} must be a non-negative integer, got {l!r}")
     if l < 0:
-        raise InputError(f"l must be a non-negative integer, got {l}")
+        raise InputError(f"{name} must be a non-negative integer, got {l}")
     return int(l)
 
 
@@ -155,15 +156,20 @@ def _marginal(problem: ZeroEnergyProblem, k: int) -> bool:
 
 
 def zero_energy_solution(pot: Potential, l: int):
-    """The regular zero-energy solution u(r) on the fine grid, normalised to max |u| = 1,
-    with its node count.  Returns (r, u, nodes)."""
+    """The regular zero-energy solution u(r) out to the end R of the potential's range, normalised
+    to max |u| = 1, and its node count on (0, ∞).
+
+    Beyond R, u = A r^{l+1} + B r^{−l}; one more node lies out there when u(R) and A differ in
+    sign.  Returns (r, u, nodes).  (The count in :func:`count_bound` decides the same question
+    on the extrapolated eigenvalues, which is exact also right at a threshold.)"""
     l = check_l(l)
     problem = zero_energy_problem(pot, l)
     v_eff = effective_potential(pot, l)
     g = problem.grid.refined(4)
     r, gg, F = g.nodes()
     q = 2.0 * pot.mass * (gg * gg * v_eff(r)) + F
-    # w'' = q w marched outward (three-point recurrence consistent with the matrix).
+    # w'' = q w marched outward with the same three-point recurrence as the matrix (w_0 = 0).
+    # A loop: numpy has no variable-coefficient recurrence, and this runs once per call.
     w = np.zeros(r.size + 1)
     w[1] = 1e-300
     h2 = g.h * g.h
@@ -173,8 +179,13 @@ def zero_energy_solution(pot: Potential, l: int):
             w[: i + 2] *= 1e-250
     u = w[1:] * np.sqrt(gg)
     u /= np.max(np.abs(u))
-    nodes = int(np.count_nonzero(np.signbit(u[1:]) != np.signbit(u[:-1])))
-    return r, u, nodes
+    inside = int(np.count_nonzero(np.signbit(u[1:]) != np.signbit(u[:-1])))
+    # u'(R) from the last two points, converted back from x to r: du/dr = (du/dx)/g
+    R = r[-1]
+    du = (u[-1] - u[-2]) / (r[-1] - r[-2])
+    A = (du + l * u[-1] / R) / ((2 * l + 1) * R**l)
+    beyond = int(A != 0 and np.signbit(A) != np.signbit(u[-1]))
+    return r, u, inside + beyond
 
 
 # ---------------------------------------------------------------------------------------
@@ -249,7 +260,7 @@ def critical_screening_length(family: str, strength: float, l: int, n_r: int, ma
     dimensionless root is computed once per (family, l, n_r) and cached.
     """
     l = check_l(l)
-    n_r = check_l(n_r)
+    n_r = check_l(n_r, "n_r")
     if family != "tabulated":
         info = family_info(family)
         if not info.uses_screening_length:
@@ -276,7 +287,7 @@ def critical_strength(family: str, screening_length: float, l: int, n_r: int, ma
     For one-scale families Z_c = λ_c(1, 1)/(μλ).  Returns ``math.inf`` if never bound.
     """
     l = check_l(l)
-    n_r = check_l(n_r)
+    n_r = check_l(n_r, "n_r")
     if family != "tabulated" and not family_info(family).uses_screening_length:
         raise InputError(f"family {family!r} binds at any strength; critical strengths need a screened family")
     probe = _build(family, 1.0, screening_length, mass, table, screened)
