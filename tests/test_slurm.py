@@ -25,15 +25,15 @@ pytestmark = pytest.mark.cluster
 
 REPO = Path(__file__).resolve().parents[1]
 SWEEP = "cluster_check"
-# Enough cells for several tiles, so SLURM runs more than one job at a time,
-# yet each job is quick; the sweep's structure is the demo's.
+# Enough cells for two tiles, so SLURM runs jobs side by side (every job costs
+# some 10 s of Snakemake start-up there); the sweep's structure is the demo's.
 SMALL_GRID = {
     "strength": [1.0, 2.0],
     "screening_length": {"start": 0.5, "stop": 50.0, "num": 6, "spacing": "log"},
     "l": [0, 1],
     "n_r_max": 3,
 }
-SMALL_TILES = {"cells": 6}
+SMALL_TILES = {"cells": 12}
 # What a workflow run needs; results/ and .snakemake/ are left behind.
 WORKFLOW_PATHS = ("Snakefile", "workflow", "config")
 RUN_TIMEOUT_S = 900
