@@ -6,7 +6,6 @@ process; one test runs Snakemake end to end on a tiny sweep and builds the HTML 
 
 import csv
 import json
-import math
 import shutil
 import subprocess
 import sys
@@ -237,3 +236,14 @@ def test_physical_coordinates_keep_the_cube_cf_conformant(yukawa_cube, preset, t
     assert findings == []
     with open_cube(path) as ds:
         assert ds[f"screening_length_{preset.length_unit}"].attrs["units"] == preset.length_unit
+
+
+def test_nuclear_table_shows_the_one_scale_threshold(yukawa_cube):
+    # 2μg²λ_c/ħ² = 2/1.19061 ≈ 1.6798 for the Yukawa ground state at every coupling
+    # (Rogers, Graboske & Harwood, Phys. Rev. A 1, 1577 (1970); value from memory).
+    rows = conditions.critical_rows(yukawa_cube, Nuclear(reduced_mass_MeV=469.4591))
+    ground = [row for row in rows if row["state"] == "1s"]
+    assert len(ground) == yukawa_cube.sizes["strength"]
+    for row in ground:
+        assert row["two_mu_g2_lambda_over_hbar2"] == pytest.approx(2 / 1.19061, rel=5e-6)
+        assert f"{row['two_mu_g2_lambda_over_hbar2']:.5g}" == "1.6798"

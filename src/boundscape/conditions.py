@@ -175,6 +175,11 @@ def critical_rows(ds, preset=None):
                     density = float(loss_density(preset, lc * units_m, t)) if math.isfinite(lc) and lc > 0 else math.nan
                     key = "loss_electron_density_cm-3" if isinstance(preset, Plasma) else "loss_carrier_density_cm-3"
                     row[key] = convert(density, "m-3", "cm-3")
+                if isinstance(preset, Nuclear):
+                    g2 = float(preset.coupling_MeV_fm(z, float(ds.attrs.get("mass", 1.0))))
+                    row["coupling_MeV_fm"] = g2
+                    # 2μg²λ_c/ħ²: the one-scale threshold, 2/1.19061 for the Yukawa ground state.
+                    row["two_mu_g2_lambda_over_hbar2"] = 2 * float(preset.dimensionless(g2, lc * factor))
                 if flags is not None:
                     row["flag"] = meanings[int(flags.sel(strength=z, l=l, n_r=n_r))]
                 rows.append(row)

@@ -158,6 +158,13 @@ def threshold_map(ds, l, preset=None):
     if unit:
         ax.secondary_yaxis("right", functions=(lambda y: y * factor, lambda y: y / factor)).set_ylabel(
             f"screening length ({unit})")
+    if isinstance(preset, Nuclear):
+        g2 = float(preset.coupling_MeV_fm(1.0, float(ds.attrs.get("mass", 1.0))))
+        top = ax.secondary_xaxis("top", functions=(lambda x: x * g2, lambda x: x / g2))
+        top.set_xlabel("coupling g² (MeV fm)")
+        if len(z) <= 10:
+            top.set_xticks(z * g2, labels=[f"{v:.3g}" for v in z * g2])
+            top.xaxis.set_minor_locator(matplotlib.ticker.NullLocator())
     return fig, {"count": count, "curves": curves}
 
 
