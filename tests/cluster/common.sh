@@ -1,3 +1,4 @@
+# shellcheck shell=bash disable=SC2034  # the paths are used by the scripts that source this
 # Shared paths and helpers for start_slurm.sh and stop_slurm.sh (sourced, not run).
 
 # Client commands (sinfo, sbatch, squeue) read this path, so the test and the
