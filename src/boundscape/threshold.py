@@ -136,23 +136,27 @@ def count_bound(pot: Potential, l: int) -> int:
 
 def _count(problem: ZeroEnergyProblem) -> int:
     c = problem.coarse_count()
-    # The coarse count can be off only for a state within discretisation error of threshold.
-    # Compare the marginal μ on h and h/2; decide on the extrapolated μ only when it is close.
-    for k in (c - 1, c):
-        if 0 <= k < problem.grid.m and _marginal(problem, k):
-            break
-    else:
-        return c
-    while c > 0 and problem.extrapolated(c - 1) >= 0.0:
+    # The coarse count can be off only for a state within discretisation error of threshold:
+    # the marginal μ decide, each on the cheapest extrapolation whose error is clearly smaller.
+    while c > 0 and _settled(problem, c - 1) >= 0.0:
         c -= 1
-    while c < problem.grid.m and problem.extrapolated(c) < 0.0:
+    while c < problem.grid.m and _settled(problem, c) < 0.0:
         c += 1
     return c
 
 
-def _marginal(problem: ZeroEnergyProblem, k: int) -> bool:
-    mu_h, mu_h2 = problem.eigenvalues(k, (1, 2))
-    return abs(mu_h2) < 10.0 * abs(mu_h - mu_h2)
+def _settled(problem: ZeroEnergyProblem, k: int) -> float:
+    """μ_k, extrapolated on more and finer grids until its sign is beyond its error estimate;
+    at worst on FINE, the refinements the critical parameters use."""
+    for factors in ((1, 2), (1, 2, 3), (2, 3, 4, 5)):
+        values = problem.eigenvalues(k, factors)
+        if len(factors) == 2:
+            value, err = values[-1], abs(values[-1] - values[0])
+        else:
+            value, err = fd.richardson(values, factors)
+        if abs(value) > 10.0 * err:
+            return value
+    return problem.extrapolated(k)
 
 
 def zero_energy_solution(pot: Potential, l: int):
