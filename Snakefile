@@ -11,7 +11,11 @@ from boundscape.sweep import schema_error
 min_version("8.10")
 
 
-configfile: "config/config.yaml"
+# The demo sweep, unless one is given with --configfile: a given sweep replaces the demo
+# rather than being merged into it (Snakemake would otherwise keep the demo's other keys).
+if not workflow.overwrite_configfiles:
+
+    configfile: "config/config.yaml"
 
 
 # Before any job: unknown keys, wrong types and impossible values, each naming the key.

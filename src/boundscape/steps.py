@@ -125,6 +125,10 @@ def collect(config: dict, tile_paths, critical_paths, output, summary=None) -> s
     ds = build_cube({"strength": plan.strength, "screening_length": plan.screening_length,
                      "l": plan.l, "n_r_max": plan.n_r_max}, levels, criticals, provenance=provenance)
     ds.attrs["engine_seconds"] = engine_seconds
+    from .presets import add_physical_coordinates, from_config
+
+    # The physical reading of the axes (issue 4) travels with the cube as extra coordinates.
+    ds = add_physical_coordinates(ds, from_config(config.get("preset")))
     write_cube(ds, output)
     flagged = int(np.count_nonzero(levels["status"]))
     lines = [f"sweep {plan.sweep}: {plan.num_cells} cells ({' x '.join(map(str, shape))}), "
