@@ -188,18 +188,37 @@ def test_reruns_are_byte_identical(yukawa_cube, tmp_path):
         assert a.read_bytes() == b.read_bytes(), a.name
 
 
+def _workflow_copy(directory: Path, config: dict):
+    for name in ("Snakefile", "workflow"):
+        (shutil.copytree if (ROOT / name).is_dir() else shutil.copy)(ROOT / name, directory / name)
+    (directory / "config").mkdir()
+    shutil.copy(ROOT / "config" / "schema.yaml", directory / "config" / "schema.yaml")
+    (directory / "config" / "config.yaml").write_text(yaml.safe_dump(config))
+
+
+TINY = {"sweep": "tiny", "potential": {"family": "yukawa", "mass": 1.0},
+        "grid": {"strength": [1.0, 2.0], "screening_length": {"start": 0.5, "stop": 50, "num": 5, "spacing": "log"},
+                 "l": [0], "n_r_max": 2},
+        "tiles": {"cells": 5}, "preset": {"kind": "plasma", "temperature_eV": 5.0}}
+
+
+@pytest.mark.parametrize("preset, words", [
+    ({"kind": "semiconductor", "units": "atomic", "effective_mass": 0.067}, "needs potential.mass"),
+    ({"kind": "plasma", "permittivity": 12.0}, "config key preset"),
+])
+def test_a_preset_that_does_not_fit_fails_before_any_job(tmp_path, preset, words):
+    _workflow_copy(tmp_path, {**TINY, "preset": preset})
+    run = subprocess.run([sys.executable, "-m", "snakemake", "-n"], cwd=tmp_path, capture_output=True, text=True,
+                         timeout=120)
+    assert run.returncode != 0
+    message = [line for line in run.stderr.splitlines() if line.startswith("boundscape:")]
+    assert len(message) == 1 and words in message[0], run.stderr[-1000:]
+    assert "Traceback" not in run.stderr
+
+
 @pytest.mark.workflow
 def test_workflow_renders_figures_and_builds_the_report(tmp_path):
-    for name in ("Snakefile", "workflow"):
-        (shutil.copytree if (ROOT / name).is_dir() else shutil.copy)(ROOT / name, tmp_path / name)
-    (tmp_path / "config").mkdir()
-    shutil.copy(ROOT / "config" / "schema.yaml", tmp_path / "config" / "schema.yaml")
-    config = {"sweep": "tiny", "potential": {"family": "yukawa", "mass": 1.0},
-              "grid": {"strength": [1.0, 2.0], "screening_length": {"start": 0.5, "stop": 50, "num": 5,
-                                                                      "spacing": "log"},
-                       "l": [0], "n_r_max": 2},
-              "tiles": {"cells": 5}, "preset": {"kind": "plasma", "temperature_eV": 5.0}}
-    (tmp_path / "config" / "config.yaml").write_text(yaml.safe_dump(config))
+    _workflow_copy(tmp_path, TINY)
     snakemake = [sys.executable, "-m", "snakemake", "--cores", "2"]
     run = subprocess.run(snakemake, cwd=tmp_path, capture_output=True, text=True, timeout=300)
     assert run.returncode == 0, run.stderr[-2000:]

@@ -1,5 +1,9 @@
 # Figures and the critical-lengths table, rendered from the cube alone (no physics here).
+import sys
+from pathlib import Path
+
 from boundscape import presets as _presets
+from boundscape.errors import InputError
 
 try:
     # A preset that does not fit the sweep fails before any job starts, naming the key.
