@@ -199,12 +199,13 @@ def _abstol(scale: float) -> float:
     return max(4e-16 * scale, 1e-300)
 
 
-def eigenvalues_by_index(diag, off, lo: int, hi: int, scale: float = 1.0):
+def eigenvalues_by_index(diag, off, lo: int, hi: int, scale: float = 1.0, rtol: float = 4e-16):
     """Eigenvalues lo..hi (0-based, ascending) of a symmetric tridiagonal matrix, to an absolute
     tolerance ~1e-16·``scale``, with the block data dstein needs for eigenvectors.
 
     Direct LAPACK (dstebz): eigh_tridiagonal's checks cost more than the bisection here."""
-    m, w, iblock, isplit, info = lapack.dstebz(diag, off, 2, 0.0, 0.0, lo + 1, hi + 1, _abstol(scale), "B")
+    m, w, iblock, isplit, info = lapack.dstebz(diag, off, 2, 0.0, 0.0, lo + 1, hi + 1,
+                                               _abstol(scale * rtol / 4e-16), "B")
     if info != 0 or m != hi - lo + 1:
         raise np.linalg.LinAlgError(f"dstebz failed (info={info}, found {m} of {hi - lo + 1})")
     return w[:m], iblock[:m], isplit

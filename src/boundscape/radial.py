@@ -98,7 +98,8 @@ def bound_levels(pot: Potential, l: int, n_r_max: int | None = None, wavefunctio
         keep = count if n_r_max is None else min(count, n_r_max)
         if keep:
             op, s0 = problem.operator(1)
-            guesses = fd.eigenvalues_by_index(op.diagonal(s0), op.off, 0, keep - 1, pot.energy_scale)[0]
+            # rough guesses only: each level is located again on its own grid
+            guesses = fd.eigenvalues_by_index(op.diagonal(s0), op.off, 0, keep - 1, pot.energy_scale, 1e-8)[0]
         else:
             guesses = np.array([])
     else:
@@ -152,7 +153,7 @@ def _survey_infinite(pot: Potential, l: int, keep: int) -> np.ndarray:
     g = fd.design_grid(v_eff, pot.mass, e_top, origin_radius(pot, l), R)
     op = fd.build_operator(g, v_eff, pot.mass)
     s = g.end_log_derivative_to_s(_exterior_log_derivative(pot, l, e_top, R))
-    return fd.eigenvalues_by_index(op.diagonal(s), op.off, 0, keep - 1, pot.energy_scale)[0]
+    return fd.eigenvalues_by_index(op.diagonal(s), op.off, 0, keep - 1, pot.energy_scale, 1e-8)[0]
 
 
 def _exterior_log_derivative(pot, l, energy, R):

@@ -90,7 +90,8 @@ class ZeroEnergyProblem:
                 delta = 2.0 * abs(guess - self._cache.get((k, 1), guess)) + 1e-3 * abs(guess) + 1e-9 * self.scale
                 w = fd.eigenvalue_near(d, op.off, k, guess, delta)[0][0]
             else:
-                w = fd.eigenvalues_by_index(d, op.off, k, k, self.scale)[0][0]
+                # located to 1e-10 of the scale; the Rayleigh quotient supplies the digits
+                w = fd.eigenvalues_by_index(d, op.off, k, k, self.scale, 1e-10)[0][0]
             self._cache[key] = op.rayleigh(s, op.eigenvector(s, float(w), scale=self.scale))
         return self._cache[key]
 
