@@ -103,6 +103,18 @@ def test_summary_is_printed_at_the_end(tiny_run):
     assert "cube: results/tiny/levels.nc" in out
 
 
+def test_workflow_cube_passes_the_cf_checker(tiny_run, tmp_path):
+    import shutil
+
+    from test_cube import _cf_findings, _standard_name_table
+
+    if shutil.which("compliance-checker") is None or _standard_name_table() is None:
+        pytest.skip("compliance-checker not installed (pip install compliance-checker)")
+    workdir, _, ds = tiny_run
+    assert ds.attrs["Conventions"] == "CF-1.10" and ds.attrs["config_sha256"]
+    assert _cf_findings(workdir / "results" / "tiny" / "levels.nc", tmp_path) == []
+
+
 def test_every_energy_equals_the_engine(tiny_run):
     _, _, ds = tiny_run
     for Z in ds.strength.values:
