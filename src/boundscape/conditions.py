@@ -90,7 +90,7 @@ def condition_map(ds, preset, settings=None):
         charge = s if is_plasma else float(preset.donor_charge(s))
         ax.set(xscale="log", title=f"{what} = {charge:g}", xlim=(density.min(), density.max()))
         if two_d:
-            mesh = ax.pcolormesh(_edges(density), _edges(temperature), counts[s], cmap=cmap, norm=norm)
+            mesh = ax.pcolormesh(_edges(density), _edges(temperature), counts[s], cmap=cmap, norm=norm, rasterized=True)
             ax.set_yscale("log")
         else:
             ax.step(density, counts[s][0], where="mid", color="black")

@@ -62,6 +62,7 @@ def _count_norm(top):
 
 def _count_colorbar(fig, mesh, ax, top, label, capped=False):
     bar = fig.colorbar(mesh, ax=ax, label=label, pad=0.02)
+    bar.solids.set_rasterized(True)  # no hairline seams between the colour blocks in PDF viewers
     step = max(1, math.ceil((top + 1) / 12))
     ticks = np.arange(0, top + 1, step)
     bar.set_ticks(ticks, labels=[f"≥{t}" if capped and t == top else f"{t}" for t in ticks])
@@ -125,7 +126,7 @@ def threshold_map(ds, l, preset=None):
     fig = Figure(figsize=(6.4, 4.6), layout="constrained")
     ax = fig.add_subplot()
     mesh = ax.pcolormesh(_edges(z), _edges(lam), np.ma.masked_invalid(np.minimum(count, top)).T,
-                         cmap=cmap, norm=norm)
+                         cmap=cmap, norm=norm, rasterized=True)
     ax.set(xscale="log", yscale="log", xlim=_edges(z)[[0, -1]], ylim=_edges(lam)[[0, -1]],
            xlabel=f"strength {_strength_label(ds)}", ylabel=f"screening length λ ({_unit_names(preset)[0]})",
            title=f"{ds.attrs.get('family', '')} potential, l = {l}: bound states and where each is lost")
