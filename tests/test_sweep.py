@@ -127,3 +127,19 @@ def test_missing_or_broken_config_file(tmp_path):
     broken.write_text("sweep: [unclosed\n")
     with pytest.raises(InputError, match="not valid YAML"):
         sweep.load_config(broken)
+
+
+def test_plan_step_prints_the_plan_and_errors_in_one_line(tmp_path):
+    import subprocess
+    import sys
+
+    ok = subprocess.run([sys.executable, "-m", "boundscape.steps", "plan", "--config", str(REPO / "config" / "config.yaml")],
+                        capture_output=True, text=True, check=True)
+    plan = sweep.plan(DEMO)
+    assert f"{plan.num_cells} cells" in ok.stdout and f"{len(plan.tiles)} tiles" in ok.stdout
+    bad = tmp_path / "bad.yaml"
+    bad.write_text(yaml.safe_dump(mutated(lambda c: c["potential"].update(family="yukava"))))
+    run = subprocess.run([sys.executable, "-m", "boundscape.steps", "plan", "--config", str(bad)],
+                         capture_output=True, text=True)
+    assert run.returncode == 2 and run.stdout == ""
+    assert run.stderr.count("\n") == 1 and "potential.family" in run.stderr and "Traceback" not in run.stderr
