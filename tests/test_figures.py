@@ -143,6 +143,12 @@ def test_semiconductor_condition_map_is_one_dimensional(yukawa_cube):
     assert data["count"][1.0].shape == (1, data["density_cm3"].size)
     counts = data["count"][1.0][0]
     assert counts[0] > counts[-1] and np.all(np.diff(counts) <= 0)  # denser carriers, fewer states
+    # Debye screening adds a temperature axis; hotter carriers screen less, so no state is lost by heating.
+    debye = Semiconductor(effective_mass=0.067, permittivity=12.9, screening="debye")
+    fig, data = conditions.condition_map(yukawa_cube, debye, {"strengths": [1.0], "temperature_K": [10.0, 100.0]})
+    hot_minus_cold = data["count"][1.0][1] - data["count"][1.0][0]
+    assert data["count"][1.0].shape == (2, data["density_cm3"].size) and np.all(hot_minus_cold >= 0)
+    assert hot_minus_cold.any()
 
 
 def test_critical_table_equals_the_cube(yukawa_cube, tmp_path):

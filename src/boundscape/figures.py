@@ -10,6 +10,7 @@ metadata, so an unchanged cube gives byte-identical PNG and PDF files.
 from __future__ import annotations
 
 import math
+import sys
 from pathlib import Path
 
 import matplotlib
@@ -21,6 +22,7 @@ from matplotlib import patheffects
 from matplotlib.colors import BoundaryNorm
 from matplotlib.figure import Figure
 
+from .errors import InputError
 from .presets import Nuclear, Semiconductor, cube_units, from_config
 from .units import convert
 
@@ -290,10 +292,15 @@ def main(argv=None):
     parser.add_argument("cube")
     parser.add_argument("outdir")
     args = parser.parse_args(argv)
-    with open_cube(args.cube) as ds:
-        for path in render_all(ds.load(), args.outdir):
-            print(path)
+    try:
+        with open_cube(args.cube) as ds:
+            for path in render_all(ds.load(), args.outdir):
+                print(path)
+    except InputError as exc:
+        print(f"boundscape: error: {exc}", file=sys.stderr)
+        return 2
+    return 0
 
 
 if __name__ == "__main__":
-    main()
+    sys.exit(main())
