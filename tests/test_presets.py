@@ -154,6 +154,9 @@ def test_physical_coordinates_semiconductor_and_nuclear():
     np.testing.assert_allclose(ds["donor_charge"], [12.9, 25.8])
     with pytest.raises(InputError, match="potential.mass"):
         add_physical_coordinates(_toy_cube(mass=1.0), semi)
+    eff = add_physical_coordinates(_toy_cube(), Semiconductor(effective_mass=0.067, permittivity=12.9))
+    # Effective units: lengths in a* = (ε_r/μ*) a₀ as a UDUNITS scaled unit (Yu & Cardona §4.2).
+    assert float(eff["screening_length"].attrs["units"].split()[0]) == pytest.approx(12.9 / 0.067 * BOHR, rel=1e-12)
     nuc = Nuclear(reduced_mass_MeV=469.4591)
     ds = add_physical_coordinates(_toy_cube(), nuc)
     np.testing.assert_allclose(ds["coupling"], np.array([1.0, 2.0]) * HBAR_C ** 2 / 469.4591, rtol=1e-9)

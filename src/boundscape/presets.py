@@ -260,7 +260,9 @@ def add_physical_coordinates(ds, preset, cube_mass=None):
 
     Adds ``screening_length_<unit>`` along ``screening_length`` and, per preset, the
     ``electron_density`` (plasma, at the reference temperature), ``carrier_density`` and
-    ``donor_charge`` (semiconductor) or ``coupling`` g² (nuclear); each with CF units.
+    ``donor_charge`` (semiconductor) or ``coupling`` g² (nuclear); each with CF units.  Where the
+    preset reads the cube in units other than atomic ones, the ``units`` of the lengths and energies
+    become that system's scaled units; no number changes.
     """
     if preset is None:
         return ds
@@ -290,4 +292,10 @@ def add_physical_coordinates(ds, preset, cube_mass=None):
     out.attrs["preset"] = kind
     out.attrs["preset_energy_unit_J"] = units.energy_J
     out.attrs["preset_length_unit_m"] = units.length_m
+    if units is not ATOMIC:
+        # The numbers are in the preset's units (a*, 2Ry*; b, ħ²/μb²): say so, so the file stays true.
+        lengths = ("screening_length", "mean_radius", "critical_screening_length")
+        for name in lengths + ("energy", "energy_error"):
+            if name in out.variables:
+                out[name].attrs["units"] = units.length_udunits() if name in lengths else units.energy_udunits()
     return out
