@@ -71,10 +71,10 @@ def _count_colorbar(fig, mesh, ax, top, label, capped=False):
     return bar
 
 
-def _value_ticks(axis, values):
+def _value_ticks(axis, values, style="{:g}"):
     # A short log axis reads best with its grid values as plain numbers.
     if len(values) <= 10:
-        axis.set_ticks(values, labels=[f"{v:g}" for v in values])
+        axis.set_ticks(values, labels=[style.format(v) for v in values])
         axis.set_minor_locator(matplotlib.ticker.NullLocator())
 
 
@@ -82,7 +82,7 @@ def _strength_label(ds):
     units = ds["strength"].attrs.get("units", "1")
     name = ds["strength"].attrs.get("long_name", "strength")
     if units == "1":
-        return "Z" if name.startswith("charge number") else name
+        return "strength Z" if name.startswith("charge number") else f"strength ({name})"
     return f"{name} (hartree)" if units.endswith(" J") else f"{name} ({units})"
 
 
@@ -121,16 +121,18 @@ def threshold_map(ds, l, preset=None):
     count = ds["num_bound"].sel(l=l).values.astype(float)
     status = ds["status"].sel(l=l).values
     # The count comes from the zero-energy solution, so it stands in flagged cells too (marked ×).
-    count = np.where(count >= 0, count, np.nan)
+    # The engine's −1 means infinitely many (Coulomb tail, confining well): the top shade.
     # Shades stop at n_r_max ("n_r_max or more"): above that no loss curve is stored to explain them.
     top = int(ds.sizes["n_r"])
+    infinite = count < 0
+    count = np.where(infinite, np.inf, count)
     cmap, norm = _count_norm(top)
     fig = Figure(figsize=(6.4, 4.6), layout="constrained")
     ax = fig.add_subplot()
     mesh = ax.pcolormesh(_edges(z), _edges(lam), np.ma.masked_invalid(np.minimum(count, top)).T,
                          cmap=cmap, norm=norm, rasterized=True)
     ax.set(xscale="log", yscale="log", xlim=_edges(z)[[0, -1]], ylim=_edges(lam)[[0, -1]],
-           xlabel=f"strength {_strength_label(ds)}", ylabel=f"screening length λ ({_unit_names(preset)[0]})",
+           xlabel=_strength_label(ds), ylabel=f"screening length λ ({_unit_names(preset)[0]})",
            title=f"{ds.attrs.get('family', '')} potential, l = {l}: bound states and where each is lost")
     _value_ticks(ax.xaxis, z)
     _count_colorbar(fig, mesh, ax, top, f"number of bound states with l = {l}", capped=True)
@@ -154,7 +156,10 @@ def threshold_map(ds, l, preset=None):
             if spot is not None:
                 ax.annotate(name, spot, ha="center", va="center", color="white", fontsize=7.5,
                             path_effects=_HALO, annotation_clip=True)
-    if not curves and "critical_screening_length" in ds:
+    if infinite.all():
+        ax.text(0.5, 0.5, "infinitely many bound states in every cell\n(Coulomb tail or confining potential)",
+                transform=ax.transAxes, ha="center", va="center", color="black")
+    elif not curves and "critical_screening_length" in ds and np.isposinf(ds["critical_screening_length"].sel(l=l)).all():
         ax.text(0.5, 0.5, f"no stored state with l = {l} is ever bound", transform=ax.transAxes,
                 ha="center", va="center", color="white", path_effects=_HALO)
     unit, factor = _length_unit(ds, preset)
@@ -163,11 +168,9 @@ def threshold_map(ds, l, preset=None):
             f"screening length ({unit})")
     if isinstance(preset, Nuclear):
         g2 = float(preset.coupling_MeV_fm(1.0, float(ds.attrs.get("mass", 1.0))))
-        top = ax.secondary_xaxis("top", functions=(lambda x: x * g2, lambda x: x / g2))
-        top.set_xlabel("coupling g² (MeV fm)")
-        if len(z) <= 10:
-            top.set_xticks(z * g2, labels=[f"{v:.3g}" for v in z * g2])
-            top.xaxis.set_minor_locator(matplotlib.ticker.NullLocator())
+        coupling_axis = ax.secondary_xaxis("top", functions=(lambda x: x * g2, lambda x: x / g2))
+        coupling_axis.set_xlabel("coupling g² (MeV fm)")
+        _value_ticks(coupling_axis.xaxis, z * g2, "{:.3g}")
     return fig, {"count": count, "curves": curves}
 
 
