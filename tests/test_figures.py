@@ -63,11 +63,7 @@ def never_binding_cube(tmp_path_factory):
               "grid": {"strength": [0.5, 1.0, 2.0], "screening_length": {"start": 0.3, "stop": 30, "num": 7,
                                                                            "spacing": "log"},
                        "l": [0, 1], "n_r_max": 2}}
-    try:
-        return _build_cube(directory, config)
-    except TypeError as exc:
-        # Shown in the summary as xfail until the engine handles tables in its critical-length search.
-        pytest.xfail(f"engine cannot yet find critical lengths of a tabulated potential: {exc}")
+    return _build_cube(directory, config)
 
 
 def test_state_names():

@@ -114,7 +114,7 @@ register(
 )
 
 
-@dataclass(frozen=True)
+@dataclass(frozen=True, eq=False)  # hashed by identity: the critical-length cache keys on it
 class Table:
     """A tabulated V(r), interpolated by a cubic spline in r·V(r) (smooth where V ~ 1/r)."""
 
