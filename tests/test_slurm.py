@@ -1,7 +1,7 @@
 """The sweep gives the same cube on a real SLURM cluster as on this machine.
 
-Runs a small sweep twice, each in its own copy of the workflow: once with the
-local profile, once with the SLURM profile (Snakemake's SLURM executor plugin
+Runs the demo sweep (config/config.yaml, in larger tiles) twice, each in its
+own copy of the workflow: once with the local profile, once with the SLURM profile (Snakemake's SLURM executor plugin
 submitting every job with sbatch to the single-node cluster that
 tests/cluster/start_slurm.sh starts), then compares the two cubes.
 
@@ -24,16 +24,10 @@ import yaml
 pytestmark = pytest.mark.cluster
 
 REPO = Path(__file__).resolve().parents[1]
-SWEEP = "cluster_check"
-# Enough cells for two tiles, so SLURM runs jobs side by side (every job costs
-# some 10 s of Snakemake start-up there); the sweep's structure is the demo's.
-SMALL_GRID = {
-    "strength": [1.0, 2.0],
-    "screening_length": {"start": 0.5, "stop": 50.0, "num": 6, "spacing": "log"},
-    "l": [0, 1],
-    "n_r_max": 3,
-}
-SMALL_TILES = {"cells": 12}
+# Every SLURM job costs some 10 s of Snakemake start-up on the node, so the
+# demo's grid goes in a few large tiles (two for the 1152-cell demo): SLURM
+# still runs jobs side by side, and tile size does not change the cube.
+TILE_CELLS = 576
 # What a workflow run needs; results/ and .snakemake/ are left behind.
 WORKFLOW_PATHS = ("Snakefile", "workflow", "config")
 RUN_TIMEOUT_S = 900
@@ -61,13 +55,15 @@ def slurm_unavailable_reason() -> str | None:
     return None
 
 
-def small_config() -> dict:
-    """The demo config with a small grid, so every key the schema needs is there."""
+def demo_config() -> dict:
+    """The demo config, in tiles of TILE_CELLS cells."""
     config = yaml.safe_load((REPO / "config" / "config.yaml").read_text())
-    config["sweep"] = SWEEP
-    config["grid"] = dict(SMALL_GRID)
-    config["tiles"] = dict(SMALL_TILES)
+    config.setdefault("tiles", {})["cells"] = TILE_CELLS
     return config
+
+
+def cube_path() -> str:
+    return f"results/{demo_config()['sweep']}/levels.nc"
 
 
 def workflow_copy(dest: Path) -> Path:
@@ -79,7 +75,7 @@ def workflow_copy(dest: Path) -> Path:
             shutil.copytree(src, dest / name, ignore=shutil.ignore_patterns(".snakemake", "__pycache__"))
         else:
             shutil.copy2(src, dest / name)
-    (dest / "cluster_check.yaml").write_text(yaml.safe_dump(small_config(), sort_keys=False))
+    (dest / "cluster_check.yaml").write_text(yaml.safe_dump(demo_config(), sort_keys=False))
     return dest
 
 
@@ -96,13 +92,13 @@ def code_snapshot(dest: Path) -> Path:
 
 
 def run_sweep(workdir: Path, profile: str, code: Path) -> str:
-    """Run the small sweep in workdir with one of the project's profiles; return its log."""
+    """Run the demo's cube in workdir with one of the project's profiles; return its log."""
     env = {k: v for k, v in os.environ.items() if not k.startswith("SLURM_")}
     # sbatch passes the environment on, so the jobs import the same frozen code.
     env["PYTHONPATH"] = os.pathsep.join(filter(None, [str(code), env.get("PYTHONPATH")]))
     cmd = [
         sys.executable, "-m", "snakemake",
-        f"results/{SWEEP}/levels.nc",  # first: --configfile takes every word after it
+        cube_path(),  # first: --configfile takes every word after it
         "--snakefile", str(workdir / "Snakefile"),
         "--directory", str(workdir),
         "--profile", str(workdir / "workflow" / "profiles" / profile),
@@ -150,7 +146,7 @@ def test_slurm_profile_gives_the_local_cube(cluster, tmp_path):
     assert "submitted with SLURM jobid" in slurm_log, _tail(slurm_log)
     assert "submitted with SLURM jobid" not in local_log
 
-    cube = f"results/{SWEEP}/levels.nc"
+    cube = cube_path()
     with xr.open_dataset(local_dir / cube) as local, xr.open_dataset(slurm_dir / cube) as slurm:
         # Two empty or all-NaN cubes would compare equal and prove nothing.
         assert int(np.isfinite(local["energy"]).sum()) > 0
