@@ -18,7 +18,8 @@ import numpy as np
 from .tiles import CRITICAL_FLAGS, STATUS_FLAGS
 from .units import BOHR_M, BOHR_UDUNITS, HARTREE_EV, HARTREE_J, HARTREE_UDUNITS, udunits_scaled
 
-__all__ = ["build_cube", "write_cube", "open_cube", "atomic_path", "chunk_shape",
+__all__ = ["build_cube", "write_cube", "open_cube", "atomic_path", "replace_atomically", "chunk_shape",
+           "write_part", "read_part",
            "CELL_DIMS", "LEVEL_DIMS", "CRITICAL_DIMS"]
 
 CELL_DIMS = ("strength", "screening_length", "l")
@@ -207,6 +208,17 @@ def open_cube(path):
 
 def write_part(path, arrays: dict, dims: dict, attrs: dict):
     """Write a tile or a block of critical lengths (internal files, read back by :func:`read_part`).
+
+    Parameters
+    ----------
+    path : path
+        The final name; the file is written beside it and renamed into place.
+    arrays : dict of numpy.ndarray
+        The variables.
+    dims : dict of tuple of str
+        The dimension names of each variable.
+    attrs : dict
+        Global attributes (strings and numbers).
 
     netCDF4 directly rather than xarray: a tile job then skips importing pandas, which is a
     good part of a short job's start-up time.

@@ -76,7 +76,25 @@ def _read_checked(path, expected_spec):
 
 
 def collect(config: dict, tile_paths, critical_paths, output, summary=None) -> str:
-    """Merge tile files and critical blocks into the cube at ``output``; return the summary text."""
+    """Merge tile files and critical blocks into the cube.
+
+    Parameters
+    ----------
+    config : dict
+        The sweep configuration the tiles were planned from.
+    tile_paths, critical_paths : list of path
+        The files of every tile and every critical block, in the plan's order; each is checked
+        against the plan, so a stale file is an error rather than silently merged.
+    output : path
+        Where the cube is written (atomically).
+    summary : path, optional
+        Where the summary text is written as well.
+
+    Returns
+    -------
+    str
+        The summary: cells, flagged cells and where to look, where the cube is.
+    """
     from . import __version__
     from .cube import build_cube, write_cube
     from .tiles import CRITICAL_FLAGS
