@@ -1,9 +1,9 @@
 """The discretised radial problem: a mapped grid, its symmetric tridiagonal operator, and
 Richardson extrapolation of what it yields.
 
-Map.  x = ln r + r/β on a uniform x grid: logarithmic near the origin, where u ~ r^{l+1}
-varies on the scale r, and linear (spacing h·β) far out, where a level decays like e^{−κr}.
-It inverts in closed form, r = β·W(e^x/β) (Lambert W).
+Map.  x = α ln r + r/β on a uniform x grid: logarithmic near the origin, where u ~ r^{l+1}
+varies on the scale r, and linear (spacing h·β) far out, where a level decays like e^{−κr};
+α < 1 thins the logarithmic stretch near the origin, where nothing oscillates.
 
 Liouville transform.  With g = dr/dx and u(r) = g^{1/2} w(x) the radial equation becomes
 
@@ -40,69 +40,70 @@ class MappedGrid:
     r_max: float
     beta: float  # math.inf for a pure logarithmic map
     m: int
+    alpha: float = 1.0
 
     @property
     def x0(self):
-        return _x_of_r(self.r_min, self.beta)
+        return _x_of_r(self.r_min, self.alpha, self.beta)
 
     @property
     def x1(self):
-        return _x_of_r(self.r_max, self.beta)
+        return _x_of_r(self.r_max, self.alpha, self.beta)
 
     @property
     def h(self):
         return (self.x1 - self.x0) / self.m
 
     def refined(self, factor: int) -> "MappedGrid":
-        return MappedGrid(self.r_min, self.r_max, self.beta, self.m * factor)
+        return MappedGrid(self.r_min, self.r_max, self.beta, self.m * factor, self.alpha)
 
     def nodes(self):
         """r, g = dr/dx, F (the Liouville term) at the unknowns."""
         x = self.x0 + self.h * np.arange(1, self.m + 1)
-        r = _r_of_x(x, self.beta)
+        r = _r_of_x(x, self.alpha, self.beta)
         r[-1] = self.r_max  # exact end: the boundary condition is evaluated there
-        g, gp_over_g, gpp_over_g = _map_derivatives(r, self.beta)
+        g, gp_over_g, gpp_over_g = _map_derivatives(r, self.alpha, self.beta)
         F = 0.75 * gp_over_g**2 - 0.5 * gpp_over_g
         return r, g, F
 
     def end_log_derivative_to_s(self, dlnu_dr: float) -> float:
         """Convert u'/u at r_max into the Robin coefficient s = w'/w of the mapped problem."""
-        g, gp_over_g, _ = _map_derivatives(np.array([self.r_max]), self.beta)
+        g, gp_over_g, _ = _map_derivatives(np.array([self.r_max]), self.alpha, self.beta)
         return float(g[0] * dlnu_dr - 0.5 * gp_over_g[0])
 
 
-def _x_of_r(r, beta):
-    return np.log(r) + (0.0 if np.isinf(beta) else r / beta)
+def _x_of_r(r, alpha, beta):
+    return alpha * np.log(r) + (0.0 if np.isinf(beta) else r / beta)
 
 
-def _r_of_x(x, beta):
-    """Invert x = ln r + r/β, i.e. r = β·W(e^x/β).  Newton on t = ln r (F(t) = t + e^t/β − x is
-    increasing and convex, so from above it converges monotonically); scipy's lambertw is exact
-    but costs ten times more on these arrays."""
+def _r_of_x(x, alpha, beta):
+    """Invert x = α ln r + r/β (for α = 1, r = β·W(e^x/β), Lambert W).  Newton on t = ln r:
+    F(t) = αt + e^t/β − x is increasing and convex, so from above it converges monotonically;
+    scipy's lambertw would cost ten times more on these arrays."""
     if np.isinf(beta):
-        return np.exp(x)
+        return np.exp(x / alpha)
     lb = math.log(beta)
-    # start above the root: t = x where e^x/β is small, else ln(β·(x − lb)) + margin
-    big = x - lb > 1.0
-    t = np.where(big, np.log(beta * np.maximum(x - lb, 1.0)) + 0.5, x)
+    # start above the root: t = x/α where e^t/β is small, else ln(β·x) (as r/β ≤ x there)
+    big = x / alpha - lb > 1.0
+    t = np.where(big, np.log(beta * np.maximum(x - alpha * lb, 1.0)) + 0.5, x / alpha)
     for _ in range(60):
         et = np.exp(t - lb)
-        step = (t + et - x) / (1.0 + et)
+        step = (alpha * t + et - x) / (alpha + et)
         t = t - step
         if np.max(np.abs(step)) < 1e-15:
             break
     return np.exp(t)
 
 
-def _map_derivatives(r, beta):
-    """g = dr/dx, g'/g and g''/g for x = ln r + r/β (derivatives in x)."""
+def _map_derivatives(r, alpha, beta):
+    """g = dr/dx, g'/g and g''/g for x = α ln r + r/β (derivatives in x)."""
     if np.isinf(beta):
         one = np.ones_like(r)
-        return r.copy(), one, one
-    s = r + beta
+        return r / alpha, one / alpha, one / alpha**2
+    s = alpha * beta + r
     g = r * beta / s
-    gp_over_g = beta**2 / s**2
-    gpp_over_g = beta**3 * (beta - 2.0 * r) / s**4
+    gp_over_g = alpha * beta**2 / s**2
+    gpp_over_g = alpha * beta**3 * (alpha * beta - 2.0 * r) / s**4
     return g, gp_over_g, gpp_over_g
 
 
@@ -290,13 +291,14 @@ def design_grid(v_eff, mass: float, energy: float, r_min: float, R: float,
     r = np.geomspace(r_min, R, 800)
     ve = v_eff(r) - energy
     best = None
-    for beta in (np.inf, R, R / 3, R / 10, R / 30, R / 100, R / 300, R / 1000, R / 3000):
-        if beta < 4 * r_min:
-            continue
-        g, gp, gpp = _map_derivatives(r, beta)
-        rate = np.sqrt(np.abs(2.0 * mass * g * g * ve + 0.75 * gp**2 - 0.5 * gpp))
-        length = float(_x_of_r(R, beta) - _x_of_r(r_min, beta))
-        m = int(math.ceil(max(length * float(rate.max()) / theta, length / h_max, 16)))
-        if best is None or m < best.m:
-            best = MappedGrid(r_min, R, float(beta), m)
+    for alpha in (1.0, 0.5, 0.25, 0.12):
+        for beta in (np.inf, R, R / 3, R / 10, R / 30, R / 100, R / 300, R / 1000, R / 3000):
+            if beta < 4 * r_min:
+                continue
+            g, gp, gpp = _map_derivatives(r, alpha, beta)
+            rate = np.sqrt(np.abs(2.0 * mass * g * g * ve + 0.75 * gp**2 - 0.5 * gpp))
+            length = float(_x_of_r(R, alpha, beta) - _x_of_r(r_min, alpha, beta))
+            m = int(math.ceil(max(length * float(rate.max()) / theta, length / h_max, 16)))
+            if best is None or m < best.m:
+                best = MappedGrid(r_min, R, float(beta), m, alpha)
     return best

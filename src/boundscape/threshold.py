@@ -120,7 +120,7 @@ def zero_energy_problem(pot: Potential, l: int, m: int | None = None) -> ZeroEne
     r_min = origin_radius(pot, l)
     g = fd.design_grid(effective_potential(pot, l), pot.mass, 0.0, r_min, R)
     if m is not None:
-        g = fd.MappedGrid(g.r_min, g.r_max, g.beta, m)
+        g = fd.MappedGrid(g.r_min, g.r_max, g.beta, m, g.alpha)
     return ZeroEnergyProblem(pot, l, g)
 
 
@@ -149,12 +149,8 @@ def _count(problem: ZeroEnergyProblem) -> int:
 def _settled(problem: ZeroEnergyProblem, k: int) -> float:
     """μ_k, extrapolated on more and finer grids until its sign is beyond its error estimate;
     at worst on FINE, the refinements the critical parameters use."""
-    for factors in ((1, 2), (1, 2, 3), (2, 3, 4, 5)):
-        values = problem.eigenvalues(k, factors)
-        if len(factors) == 2:
-            value, err = values[-1], abs(values[-1] - values[0])
-        else:
-            value, err = fd.richardson(values, factors)
+    for factors in ((1, 2, 3), (2, 3, 4, 5)):
+        value, err = fd.richardson(problem.eigenvalues(k, factors), factors)
         if abs(value) > 10.0 * err:
             return value
     return problem.extrapolated(k)
