@@ -1,7 +1,8 @@
 """A sweep configuration turned into a plan: the grid axes and the tiles of cells, one job each.
 
 No physics here: this module only checks the configuration and cuts the grid
-strength × screening_length × l into rectangular tiles. A tile is described by the
+strength × screening_length × l into tiles (blocks of strengths × a share of the λ row × every
+l) and the strengths into blocks for the critical lengths. A tile is described by the
 values it covers (not by indices), so a tile's description changes exactly when the
 cells it computes change; the workflow passes it as the job's params.
 """
