@@ -112,7 +112,8 @@ def build_cube(axes, levels, criticals, *, provenance):
         "num_bound": (CELL_DIMS, levels["num_bound"].astype(np.int32), {
             "long_name": "number of bound states of this l", "units": "1",
             "comment": "exact count from the nodes of the zero-energy solution; levels with "
-                       f"n_r >= {axes['n_r_max']} are counted but not stored"}),
+                       f"n_r >= {axes['n_r_max']} are counted but not stored; -1 means infinitely "
+                       "many (a Coulomb tail or a confining potential)"}),
         "status": (CELL_DIMS, status, {
             "long_name": "solver status of the cell",
             "flag_values": np.arange(len(STATUS_FLAGS), dtype=np.int8),
