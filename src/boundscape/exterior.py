@@ -14,7 +14,6 @@ import math
 from functools import lru_cache
 
 import numpy as np
-from scipy.integrate import quad
 from scipy.special import kve, roots_laguerre
 
 
@@ -80,6 +79,8 @@ def tail_moments(kind: str, l: int, energy: float, R: float, mass: float) -> tup
         i0 = 0.5 * float(w @ f)
         i1 = 0.5 * float(w @ (r * f))
         return i0 / kappa, i1 / kappa
+    from scipy.integrate import quad  # only near threshold; the import costs each job ~0.5 s
+
     i0, _ = quad(shape, 0.0, np.inf, limit=200, epsabs=0.0, epsrel=1e-12)
     i1, _ = quad(lambda t: (R + t / kappa) * shape(t), 0.0, np.inf, limit=200, epsabs=0.0, epsrel=1e-12)
     return i0 / kappa, i1 / kappa

@@ -34,77 +34,107 @@ from scipy.linalg import lapack
 
 @dataclass(frozen=True)
 class MappedGrid:
-    """Uniform x grid on (x0, x1]: unknowns at x0 + i·h, i = 1..m; x0 is the Dirichlet end."""
+    """Uniform x grid on (x0, x1]: unknowns at x0 + i·h, i = 1..m; x0 is the Dirichlet end.
+
+    The map is x = α ln r + 2√(r/b) + r/β (b or β infinite drops that term)."""
 
     r_min: float
     r_max: float
-    beta: float  # math.inf for a pure logarithmic map
+    beta: float  # math.inf: no linear term
     m: int
     alpha: float = 1.0
+    b: float = math.inf  # math.inf: no square-root term
 
     @property
     def x0(self):
-        return _x_of_r(self.r_min, self.alpha, self.beta)
+        return _x_of_r(self.r_min, self.alpha, self.b, self.beta)
 
     @property
     def x1(self):
-        return _x_of_r(self.r_max, self.alpha, self.beta)
+        return _x_of_r(self.r_max, self.alpha, self.b, self.beta)
 
     @property
     def h(self):
         return (self.x1 - self.x0) / self.m
 
     def refined(self, factor: int) -> "MappedGrid":
-        return MappedGrid(self.r_min, self.r_max, self.beta, self.m * factor, self.alpha)
+        return MappedGrid(self.r_min, self.r_max, self.beta, self.m * factor, self.alpha, self.b)
+
+    def with_steps(self, m: int) -> "MappedGrid":
+        return MappedGrid(self.r_min, self.r_max, self.beta, m, self.alpha, self.b)
 
     def nodes(self):
         """r, g = dr/dx, F (the Liouville term) at the unknowns."""
         x = self.x0 + self.h * np.arange(1, self.m + 1)
-        r = _r_of_x(x, self.alpha, self.beta)
+        r = _r_of_x(x, self.alpha, self.b, self.beta)
         r[-1] = self.r_max  # exact end: the boundary condition is evaluated there
-        g, gp_over_g, gpp_over_g = _map_derivatives(r, self.alpha, self.beta)
+        g, gp_over_g, gpp_over_g = _map_derivatives(r, self.alpha, self.b, self.beta)
         F = 0.75 * gp_over_g**2 - 0.5 * gpp_over_g
         return r, g, F
 
     def end_log_derivative_to_s(self, dlnu_dr: float) -> float:
         """Convert u'/u at r_max into the Robin coefficient s = w'/w of the mapped problem."""
-        g, gp_over_g, _ = _map_derivatives(np.array([self.r_max]), self.alpha, self.beta)
+        g, gp_over_g, _ = _map_derivatives(np.array([self.r_max]), self.alpha, self.b, self.beta)
         return float(g[0] * dlnu_dr - 0.5 * gp_over_g[0])
 
 
-def _x_of_r(r, alpha, beta):
-    return alpha * np.log(r) + (0.0 if np.isinf(beta) else r / beta)
+def _x_of_r(r, alpha, b, beta):
+    x = alpha * np.log(r)
+    if not np.isinf(b):
+        x = x + 2.0 * np.sqrt(r / b)
+    if not np.isinf(beta):
+        x = x + r / beta
+    return x
 
 
-def _r_of_x(x, alpha, beta):
-    """Invert x = α ln r + r/β (for α = 1, r = β·W(e^x/β), Lambert W).  Newton on t = ln r:
-    F(t) = αt + e^t/β − x is increasing and convex, so from above it converges monotonically;
-    scipy's lambertw would cost ten times more on these arrays."""
-    if np.isinf(beta):
+def _r_of_x(x, alpha, b, beta):
+    """Invert the map by Newton's method on t = ln r.  F(t) = x(e^t) − x is increasing and
+    convex in t, so from a start above the root the iterates fall to it monotonically (there is
+    no closed form once the square-root term is in; lambertw covers only α ln r + r/β)."""
+    if np.isinf(b) and np.isinf(beta):
         return np.exp(x / alpha)
-    lb = math.log(beta)
-    # start above the root: t = x/α where e^t/β is small, else ln(β·x) (as r/β ≤ x there)
-    big = x / alpha - lb > 1.0
-    t = np.where(big, np.log(beta * np.maximum(x - alpha * lb, 1.0)) + 0.5, x / alpha)
-    for _ in range(60):
-        et = np.exp(t - lb)
-        step = (alpha * t + et - x) / (alpha + et)
+    x = np.asarray(x, dtype=float)
+    sb = math.sqrt(b) if not np.isinf(b) else math.inf
+    ib = 0.0 if np.isinf(beta) else 1.0 / beta
+
+    def F(t):
+        return alpha * t + 2.0 * np.exp(0.5 * t) / sb + np.exp(t) * ib - x
+
+    # start: t = x/α is above the root; the other terms give smaller starts where they are valid
+    t = x / alpha
+    xp = np.maximum(x, 1e-300)
+    for cand in (2.0 * np.log(0.5 * xp * sb) if np.isfinite(sb) else None,
+                 np.log(xp / ib) if ib > 0 else None):
+        if cand is not None:
+            t = np.where((cand < t) & (F(np.minimum(cand, 700.0)) >= 0), cand, t)
+    t = np.minimum(t, 700.0)
+    for _ in range(80):
+        e2 = np.exp(0.5 * t)
+        step = (alpha * t + 2.0 * e2 / sb + e2 * e2 * ib - x) / (alpha + e2 / sb + e2 * e2 * ib)
         t = t - step
-        if np.max(np.abs(step)) < 1e-15:
+        if np.max(np.abs(step)) < 1e-15 * max(1.0, float(np.max(np.abs(t)))):
             break
     return np.exp(t)
 
 
-def _map_derivatives(r, alpha, beta):
-    """g = dr/dx, g'/g and g''/g for x = α ln r + r/β (derivatives in x)."""
-    if np.isinf(beta):
+def _map_derivatives(r, alpha, b, beta):
+    """g = dr/dx, g'/g and g''/g (derivatives in x).  With p = dx/dr:
+    g'/g = −p'/p², g''/g = 3p'²/p⁴ − p''/p³."""
+    r = np.asarray(r, dtype=float)
+    if np.isinf(b) and np.isinf(beta):
         one = np.ones_like(r)
         return r / alpha, one / alpha, one / alpha**2
-    s = alpha * beta + r
-    g = r * beta / s
-    gp_over_g = alpha * beta**2 / s**2
-    gpp_over_g = alpha * beta**3 * (alpha * beta - 2.0 * r) / s**4
-    return g, gp_over_g, gpp_over_g
+    p = alpha / r
+    dp = -alpha / r**2
+    ddp = 2.0 * alpha / r**3
+    if not np.isinf(b):
+        rb = np.sqrt(r * b)
+        p = p + 1.0 / rb
+        dp = dp - 0.5 / (rb * r)
+        ddp = ddp + 0.75 / (rb * r * r)
+    if not np.isinf(beta):
+        p = p + 1.0 / beta
+    return 1.0 / p, -dp / p**2, 3.0 * dp**2 / p**4 - ddp / p**3
 
 
 @dataclass
@@ -286,19 +316,39 @@ H_MAX = 0.1
 
 def design_grid(v_eff, mass: float, energy: float, r_min: float, R: float,
                 theta: float = THETA, h_max: float = H_MAX) -> MappedGrid:
-    """Choose the map's β and the coarse number of steps so that the local wavenumber in x,
-    |2μ g²(V_eff − E) + F|^{1/2}, is resolved to ``theta`` per step everywhere on [r_min, R]."""
-    r = np.geomspace(r_min, R, 800)
-    ve = v_eff(r) - energy
-    best = None
-    for alpha in (1.0, 0.5, 0.25, 0.12):
-        for beta in (np.inf, R, R / 3, R / 10, R / 30, R / 100, R / 300, R / 1000, R / 3000):
-            if beta < 4 * r_min:
-                continue
-            g, gp, gpp = _map_derivatives(r, alpha, beta)
-            rate = np.sqrt(np.abs(2.0 * mass * g * g * ve + 0.75 * gp**2 - 0.5 * gpp))
-            length = float(_x_of_r(R, alpha, beta) - _x_of_r(r_min, alpha, beta))
-            m = int(math.ceil(max(length * float(rate.max()) / theta, length / h_max, 16)))
-            if best is None or m < best.m:
-                best = MappedGrid(r_min, R, float(beta), m, alpha)
-    return best
+    """Choose the map (α, b, β) and the coarse number of steps so that the local wavenumber in x,
+    |2μ g²(V_eff − E) + F|^{1/2}, is resolved to ``theta`` per step everywhere on [r_min, R],
+    with as few steps as possible.  The square-root term follows a Coulomb-like region, whose
+    local wavelength grows like √r (WKB); the linear term an exponential tail."""
+    r = np.geomspace(r_min, R, 400)
+    two_mu_ve = 2.0 * mass * (v_eff(r) - energy)
+    a, b, beta = _CANDIDATES
+    b = b * R
+    beta = beta * R
+    ok = (b > 4 * r_min) & (beta > 4 * r_min)
+    a, b, beta = a[ok, None], b[ok, None], beta[ok, None]
+    # all candidates at once: p = dx/dr and its derivatives, with 1/b = 0 and 1/β = 0 for ∞
+    ib, ibeta = 1.0 / b, 1.0 / beta
+    root = np.sqrt(ib / r)
+    p = a / r + root + ibeta
+    dp = -a / r**2 - 0.5 * root / r
+    ddp = 2.0 * a / r**3 + 0.75 * root / r**2
+    g = 1.0 / p
+    gp, gpp = -dp / p**2, 3.0 * dp**2 / p**4 - ddp / p**3
+    rate = np.sqrt(np.max(np.abs(g * g * two_mu_ve + 0.75 * gp**2 - 0.5 * gpp), axis=1))
+    length = (a[:, 0] * math.log(R / r_min) + 2.0 * (np.sqrt(R * ib[:, 0]) - np.sqrt(r_min * ib[:, 0]))
+              + (R - r_min) * ibeta[:, 0])
+    m = np.ceil(np.maximum(np.maximum(length * rate / theta, length / h_max), 16)).astype(int)
+    i = int(np.argmin(m))
+    return MappedGrid(r_min, R, float(beta[i, 0]), int(m[i]), float(a[i, 0]), float(b[i, 0]))
+
+
+def _candidate_maps():
+    # (α, b/R, β/R) tried by design_grid; ∞ drops the term
+    grid = [(alpha, b, beta) for alpha in (1.0, 0.5, 0.25)
+            for b in (math.inf, 1e-1, 1e-2, 1e-3, 1e-4, 1e-5)
+            for beta in (math.inf, 1.0, 1e-1, 1e-2)]
+    return tuple(np.array(col, dtype=float) for col in zip(*grid))
+
+
+_CANDIDATES = _candidate_maps()

@@ -265,7 +265,9 @@ def _self_consistent(pot, l, k, ops, energy):
         if not (lo < new < hi):
             new = 0.5 * (lo + hi) if math.isfinite(hi) else 2.0 * max(lo, kappa, 1e-12)
         e_new = -new * new / (2.0 * mass)
-        if abs(new - kappa) <= 1e-14 * new or abs(e_new - e_now) <= 1e-3 * err:
+        # E = Ê(s(E)) holds, to the extrapolation's error or the Rayleigh quotient's roundoff
+        settled = abs(psi) <= max(10.0 * err, 1e-13 * abs(e_now), 1e-15 * scale)
+        if settled and (abs(new - kappa) <= 1e-14 * new or abs(e_new - e_now) <= 1e-3 * err):
             return extrap, err, s, ys
         kappa = new
     raise ConvergenceError(f"level n_r={k}, l={l}: outer boundary iteration did not converge (last κ={kappa:.6g})")
@@ -290,8 +292,11 @@ def _eigenpair(op: fd.Operator, k: int, s: float, guess: float, scale: float, lo
         y = op.eigenvector(s, guess, iterations=2, scale=scale)
         e = op.rayleigh(s, y)
         y = op.eigenvector(s, e, iterations=1, scale=scale)  # one Rayleigh-quotient step
-        if fd.node_count(y) == k:
-            return op.rayleigh(s, y), y
+        e2 = op.rayleigh(s, y)
+        # trusted only if the Rayleigh step barely moved it (a shift far from eigenvalue k gives
+        # a mixture whose quotient lies between eigenvalues) and the node count is k
+        if abs(e2 - e) <= 1e-8 * max(abs(e2), 1e-6 * scale) and fd.node_count(y) == k:
+            return e2, y
     diag = op.diagonal(s)
     delta = 0.05 * abs(guess) + 1e-9 * scale
     w, _, _ = fd.eigenvalue_near(diag, op.off, k, guess, delta, rtol=1e-8)
