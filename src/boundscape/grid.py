@@ -320,7 +320,7 @@ def design_grid(v_eff, mass: float, energy: float, r_min: float, R: float,
     |2μ g²(V_eff − E) + F|^{1/2}, is resolved to ``theta`` per step everywhere on [r_min, R],
     with as few steps as possible.  The square-root term follows a Coulomb-like region, whose
     local wavelength grows like √r (WKB); the linear term an exponential tail."""
-    r = np.geomspace(r_min, R, 400)
+    r = np.geomspace(r_min, R, 240)
     two_mu_ve = 2.0 * mass * (v_eff(r) - energy)
     a, b, beta = _CANDIDATES
     b = b * R
@@ -346,8 +346,8 @@ def design_grid(v_eff, mass: float, energy: float, r_min: float, R: float,
 def _candidate_maps():
     # (α, b/R, β/R) tried by design_grid; ∞ drops the term
     grid = [(alpha, b, beta) for alpha in (1.0, 0.5, 0.25)
-            for b in (math.inf, 1e-1, 1e-2, 1e-3, 1e-4, 1e-5)
-            for beta in (math.inf, 1.0, 1e-1, 1e-2)]
+            for b in (math.inf, 1e-2, 1e-3, 1e-4)
+            for beta in (math.inf, 1.0, 1e-1)]
     return tuple(np.array(col, dtype=float) for col in zip(*grid))
 
 
