@@ -25,7 +25,7 @@ from __future__ import annotations
 
 import math
 from dataclasses import dataclass
-from functools import lru_cache
+from functools import cached_property, lru_cache
 
 import numpy as np
 from scipy.linalg import lapack
@@ -45,15 +45,15 @@ class MappedGrid:
     alpha: float = 1.0
     b: float = math.inf  # math.inf: no square-root term
 
-    @property
+    @cached_property
     def x0(self):
-        return _x_of_r(self.r_min, self.alpha, self.b, self.beta)
+        return float(_x_of_r(self.r_min, self.alpha, self.b, self.beta))
 
-    @property
+    @cached_property
     def x1(self):
-        return _x_of_r(self.r_max, self.alpha, self.b, self.beta)
+        return float(_x_of_r(self.r_max, self.alpha, self.b, self.beta))
 
-    @property
+    @cached_property
     def h(self):
         return (self.x1 - self.x0) / self.m
 
