@@ -76,7 +76,7 @@ class ZeroEnergyProblem:
         return fd.count_below(op.diagonal(s), op.off, 0.0)
 
     def eigenvalue(self, k: int, factor: int) -> float:
-        """μ_k on the design grid refined by ``factor`` (cached; coarser results seed the search).
+        """μ_k on the design grid refined by ``factor`` (cached; coarser results start the search).
 
         Bisection locates it; the value is the Rayleigh quotient of its eigenvector, which is
         accurate to ~eps of the kinetic energy (bisection alone only to ~eps·‖T‖)."""
@@ -120,7 +120,7 @@ def zero_energy_problem(pot: Potential, l: int, m: int | None = None) -> ZeroEne
     r_min = origin_radius(pot, l)
     g = fd.design_grid(effective_potential(pot, l), pot.mass, 0.0, r_min, R)
     if m is not None:
-        g = fd.MappedGrid(g.r_min, g.r_max, g.beta, m, g.alpha)
+        g = g.with_steps(m)
     return ZeroEnergyProblem(pot, l, g)
 
 
