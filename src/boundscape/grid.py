@@ -66,7 +66,12 @@ class MappedGrid:
     def nodes(self):
         """r, g = dr/dx, F (the Liouville term) at the unknowns."""
         x = self.x0 + self.h * np.arange(1, self.m + 1)
-        r = _r_of_x(x, self.alpha, self.b, self.beta)
+        if np.isinf(self.b) and np.isinf(self.beta):
+            r = np.exp(x / self.alpha)
+        else:
+            # every refinement of one map starts Newton from the same interpolated table
+            xt, tt = _log_radius_table(self.r_min, self.r_max, self.alpha, self.b, self.beta)
+            r = _r_of_x(x, self.alpha, self.b, self.beta, start=np.interp(x, xt, tt))
         r[-1] = self.r_max  # exact end: the boundary condition is evaluated there
         g, gp_over_g, gpp_over_g = _map_derivatives(r, self.alpha, self.b, self.beta)
         F = 0.75 * gp_over_g**2 - 0.5 * gpp_over_g
@@ -87,7 +92,14 @@ def _x_of_r(r, alpha, b, beta):
     return x
 
 
-def _r_of_x(x, alpha, b, beta):
+@lru_cache(maxsize=64)
+def _log_radius_table(r_min, r_max, alpha, b, beta, points=512):
+    """ln r on a uniform x table of one map, for starting Newton close to the root."""
+    x = np.linspace(_x_of_r(r_min, alpha, b, beta), _x_of_r(r_max, alpha, b, beta), points)
+    return x, np.log(_r_of_x(x, alpha, b, beta))
+
+
+def _r_of_x(x, alpha, b, beta, start=None):
     """Invert the map by Newton's method on t = ln r.  F(t) = x(e^t) − x is increasing and
     convex in t, so from a start above the root the iterates fall to it monotonically (there is
     no closed form once the square-root term is in; lambertw covers only α ln r + r/β)."""
@@ -100,14 +112,18 @@ def _r_of_x(x, alpha, b, beta):
     def F(t):
         return alpha * t + 2.0 * np.exp(0.5 * t) / sb + np.exp(t) * ib - x
 
-    # start: t = x/α is above the root; the other terms give smaller starts where they are valid
-    t = x / alpha
-    xp = np.maximum(x, 1e-300)
-    for cand in (2.0 * np.log(0.5 * xp * sb) if np.isfinite(sb) else None,
-                 np.log(xp / ib) if ib > 0 else None):
-        if cand is not None:
-            t = np.where((cand < t) & (F(np.minimum(cand, 700.0)) >= 0), cand, t)
-    t = np.minimum(t, 700.0)
+    if start is not None:
+        # an interpolated start may lie below the root: one Newton step from below lands above
+        t = np.asarray(start, dtype=float).copy()
+    else:
+        # t = x/α is above the root; the other terms give smaller starts where they are valid
+        t = x / alpha
+        xp = np.maximum(x, 1e-300)
+        for cand in (2.0 * np.log(0.5 * xp * sb) if np.isfinite(sb) else None,
+                     np.log(xp / ib) if ib > 0 else None):
+            if cand is not None:
+                t = np.where((cand < t) & (F(np.minimum(cand, 700.0)) >= 0), cand, t)
+        t = np.minimum(t, 700.0)
     for _ in range(80):
         e2 = np.exp(0.5 * t)
         step = (alpha * t + 2.0 * e2 / sb + e2 * e2 * ib - x) / (alpha + e2 / sb + e2 * e2 * ib)
