@@ -42,16 +42,6 @@ def log_derivative(kind: str, l: int, energy: float, R: float, mass: float, char
     return 0.5 / R - kappa * (ratio + nu / z)
 
 
-def log_derivative_slope(kind, l, energy, R, mass, charge=0.0, omega=0.0) -> float:
-    """d(u'/u)/dE at R, by a central difference (the closed forms are smooth in E)."""
-    if kind == "confining" or energy >= 0:
-        return 0.0
-    de = 1e-6 * abs(energy)
-    hi = log_derivative(kind, l, min(energy + de, -1e-300), R, mass, charge, omega)
-    lo = log_derivative(kind, l, energy - de, R, mass, charge, omega)
-    return (hi - lo) / (2 * de)
-
-
 def tail_moments(kind: str, l: int, energy: float, R: float, mass: float) -> tuple[float, float]:
     """∫_R^∞ (u/u(R))² dr and ∫_R^∞ r (u/u(R))² dr for the short-range exterior solution.
 

@@ -1,9 +1,11 @@
 """The discretised radial problem: a mapped grid, its symmetric tridiagonal operator, and
 Richardson extrapolation of what it yields.
 
-Map.  x = α ln r + r/β on a uniform x grid: logarithmic near the origin, where u ~ r^{l+1}
-varies on the scale r, and linear (spacing h·β) far out, where a level decays like e^{−κr};
-α < 1 thins the logarithmic stretch near the origin, where nothing oscillates.
+Map.  x = α ln r + 2√(r/b) + r/β on a uniform x grid: logarithmic near the origin, where
+u ~ r^{l+1} varies on the scale r; square-root through a Coulomb-like region, whose local
+wavelength grows like √r (WKB); linear (spacing h·β) far out, where a level decays like e^{−κr};
+α < 1 thins the logarithmic stretch near the origin, where nothing oscillates.  ``design_grid``
+picks (α, b, β) and the step count for each problem from its local wavenumber.
 
 Liouville transform.  With g = dr/dx and u(r) = g^{1/2} w(x) the radial equation becomes
 
@@ -12,9 +14,10 @@ Liouville transform.  With g = dr/dx and u(r) = g^{1/2} w(x) the radial equation
 
 with no first-derivative term, so the three-point difference on the uniform x grid gives a
 symmetric generalised problem A w = E B w, B diagonal; y = B^{1/2} w makes it a symmetric
-tridiagonal matrix (LAPACK dstebz/dstein).  Its eigenvalue error is an even series in h
-(the coefficients are analytic in x), which Richardson extrapolation over h, h/2, h/4 removes
-to O(h⁶).
+tridiagonal matrix, whose eigenvalues LAPACK dstebz locates; the eigenvectors come from inverse
+iteration on the pencil itself (dgtsv) and the values from their Rayleigh quotients.  The
+eigenvalue error is an even series in h (the coefficients are analytic in x), which Richardson
+extrapolation over several refinements removes.
 
 Ends.  Dirichlet at r_min (error ~ (r_min/a)^{2l+1}); at R a Robin condition w' = s·w chosen
 by the caller (the exact exterior log-derivative), discretised with a ghost point and a
@@ -248,7 +251,7 @@ def _abstol(scale: float) -> float:
 
 def eigenvalues_by_index(diag, off, lo: int, hi: int, scale: float = 1.0, rtol: float = 4e-16):
     """Eigenvalues lo..hi (0-based, ascending) of a symmetric tridiagonal matrix, to an absolute
-    tolerance ~1e-16·``scale``, with the block data dstein needs for eigenvectors.
+    tolerance ~1e-16·``scale`` (times rtol/4e-16).
 
     Direct LAPACK (dstebz): eigh_tridiagonal's checks cost more than the bisection here."""
     m, w, iblock, isplit, info = lapack.dstebz(diag, off, 2, 0.0, 0.0, lo + 1, hi + 1,
@@ -276,16 +279,6 @@ def eigenvalue_near(diag, off, k: int, guess: float, delta: float, rtol: float =
             return w[j:j + 1], iblock[j:j + 1], isplit
         b += 4 * (b - a)
     return eigenvalues_by_index(diag, off, k, k, scale)
-
-
-def eigenvectors(diag, off, w, iblock, isplit):
-    """Eigenvectors (columns) for eigenvalues ``w`` from dstebz, by inverse iteration (dstein)."""
-    blocks = np.zeros(diag.size, dtype=np.int32)
-    blocks[: len(w)] = iblock[: len(w)]
-    z, info = lapack.dstein(diag, off, w, blocks, isplit)
-    if info != 0:
-        raise np.linalg.LinAlgError(f"dstein failed (info={info})")
-    return z[:, : len(w)]
 
 
 def node_count(y) -> int:
