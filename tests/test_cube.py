@@ -11,7 +11,6 @@ from pathlib import Path
 
 import numpy as np
 import pytest
-import xarray as xr
 from scipy.constants import physical_constants
 
 from boundscape import cube

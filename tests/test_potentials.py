@@ -3,7 +3,6 @@
 Bad input must raise boundscape.InputError with a one-line message naming the problem.
 """
 
-import math
 
 import numpy as np
 import pytest
