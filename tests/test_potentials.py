@@ -247,3 +247,14 @@ def test_unscreened_coulomb_tail_table_is_hydrogen():
     pot = bs.potential("tabulated", 1.0, table=(r, -1.0 / r), coulomb_tail=1.0)
     res = bs.bound_levels(pot, 1, n_r_max=4)
     assert np.max(np.abs(res.energy * 2 * res.n**2 + 1)) <= 1e-6, res.energy
+
+
+def test_screened_coulomb_tail_table_has_the_yukawa_critical_length(tmp_path):
+    # A table of −1/r with a declared Coulomb tail, screened, is the Yukawa potential with Z = 1:
+    # its 1s state is lost at 1/λ_c = 1.19061 (Rogers, Graboske & Harwood, Phys. Rev. A 1, 1577
+    # (1970); value from memory), to the spline's accuracy (~1e-6 here), so to the digits given.
+    r = np.linspace(1e-3, 60.0, 600)
+    path = tmp_path / "coulomb.csv"
+    np.savetxt(path, np.column_stack([r, -1.0 / r]), delimiter=",")
+    lam = bs.critical_screening_length("tabulated", 1.0, 0, 0, table=str(path), coulomb_tail=1.0)
+    assert round(1.0 / lam, 5) == 1.19061

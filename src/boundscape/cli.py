@@ -134,7 +134,8 @@ def run_critical(args) -> int:
     for l in ls:
         for n in range(l + 1, args.n_max + 1):
             lam = critical_screening_length(args.family, args.strength, l, n - l - 1, args.mass,
-                                            table=args.table, screened=True)
+                                            table=args.table, screened=True,
+                                            coulomb_tail=args.coulomb_tail)
             rows.append({"n": n, "l": l, "state": f"{n}{letter(l)}", "n_r": n - l - 1,
                          "critical_screening_length_bohr": lam,
                          "critical_inverse_length_per_bohr": 0.0 if math.isinf(lam) else 1.0 / lam})

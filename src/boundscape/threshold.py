@@ -192,9 +192,13 @@ def zero_energy_solution(pot: Potential, l: int):
 # ---------------------------------------------------------------------------------------
 # Critical parameters
 
-def _build(family, strength, lam, mass, table, screened):
+def _build(family, strength, lam, mass, table, coulomb_tail=None):
+    # Critical lengths need the screening on: a table is always screened here.  ``table`` is a
+    # path or pair for the first (validating) build, then the Table it produced, which keeps
+    # its declared Coulomb tail.
     if family == "tabulated":
-        return make_potential(family, strength, lam, mass, table=table, screened=True)
+        return make_potential(family, strength, lam, mass, table=table, screened=True,
+                              coulomb_tail=coulomb_tail)
     return make_potential(family, strength, lam, mass)
 
 
@@ -230,15 +234,15 @@ def _root_on(make, l: int, k: int, start: float, scale_up=2.0, span=1e12):
 
 
 @lru_cache(maxsize=4096)
-def _critical_lambda(family, strength, l, n_r, mass, table, screened):
+def _critical_lambda(family, strength, l, n_r, mass, table):
     start = 1.0 / (strength * mass)
     if family == "square_well":
         start = 1.0 / math.sqrt(2 * mass * strength)
-    return _root_on(lambda lam: _build(family, strength, lam, mass, table, screened), l, n_r, start)
+    return _root_on(lambda lam: _build(family, strength, lam, mass, table), l, n_r, start)
 
 
 def critical_screening_length(family: str, strength: float, l: int, n_r: int, mass: float = 1.0,
-                              table=None, screened: bool = True) -> float:
+                              table=None, screened: bool = True, coulomb_tail: float | None = None) -> float:
     """Screening length λ_c (bohr) below which the state (n_r, l) is not bound.
 
     Parameters
@@ -249,6 +253,11 @@ def critical_screening_length(family: str, strength: float, l: int, n_r: int, ma
         Z (or depth) and reduced mass μ (electron masses).
     l, n_r : int
         Angular momentum and radial node count of the state.
+    table, coulomb_tail : optional
+        For ``tabulated``: the table (path or (r, V) pair) and a declared −Z/r tail beyond it.
+    screened : bool
+        Kept for symmetry with :func:`boundscape.potential`; a critical length always means the
+        table is multiplied by exp(−r/λ).
 
     Returns
     -------
@@ -266,23 +275,23 @@ def critical_screening_length(family: str, strength: float, l: int, n_r: int, ma
         info = family_info(family)
         if not info.uses_screening_length:
             raise InputError(f"family {family!r} has no screening length; critical lengths need a screened family")
-    probe = _build(family, strength, 1.0, mass, table, screened)  # validates the parameters
+    probe = _build(family, strength, 1.0, mass, table, coulomb_tail)  # validates the parameters
     table = probe.table if family == "tabulated" else None
     if family != "tabulated" and family_info(family).one_scale:
-        return _critical_lambda(family, 1.0, l, n_r, 1.0, None, True) / (probe.strength * probe.mass)
-    return _critical_lambda(family, probe.strength, l, n_r, probe.mass, table, True)
+        return _critical_lambda(family, 1.0, l, n_r, 1.0, None) / (probe.strength * probe.mass)
+    return _critical_lambda(family, probe.strength, l, n_r, probe.mass, table)
 
 
 @lru_cache(maxsize=4096)
-def _critical_z(family, lam, l, n_r, mass, table, screened):
+def _critical_z(family, lam, l, n_r, mass, table):
     start = 1.0 / (lam * mass)
     if family == "square_well":
         start = 1.0 / (2 * mass * lam * lam)
-    return _root_on(lambda z: _build(family, z, lam, mass, table, screened), l, n_r, start)
+    return _root_on(lambda z: _build(family, z, lam, mass, table), l, n_r, start)
 
 
 def critical_strength(family: str, screening_length: float, l: int, n_r: int, mass: float = 1.0,
-                      table=None, screened: bool = True) -> float:
+                      table=None, screened: bool = True, coulomb_tail: float | None = None) -> float:
     """Strength Z_c (or depth, hartree, for the square well) below which (n_r, l) is not bound.
 
     For one-scale families Z_c = λ_c(1, 1)/(μλ).  Returns ``math.inf`` if never bound.
@@ -291,8 +300,8 @@ def critical_strength(family: str, screening_length: float, l: int, n_r: int, ma
     n_r = check_l(n_r, "n_r")
     if family != "tabulated" and not family_info(family).uses_screening_length:
         raise InputError(f"family {family!r} binds at any strength; critical strengths need a screened family")
-    probe = _build(family, 1.0, screening_length, mass, table, screened)
+    probe = _build(family, 1.0, screening_length, mass, table, coulomb_tail)
     table = probe.table if family == "tabulated" else None
     if family != "tabulated" and family_info(family).one_scale:
-        return _critical_lambda(family, 1.0, l, n_r, 1.0, None, True) / (probe.mass * probe.screening_length)
-    return _critical_z(family, probe.screening_length, l, n_r, probe.mass, table, True)
+        return _critical_lambda(family, 1.0, l, n_r, 1.0, None) / (probe.mass * probe.screening_length)
+    return _critical_z(family, probe.screening_length, l, n_r, probe.mass, table)

@@ -128,7 +128,8 @@ def solve_criticals(spec: dict) -> dict:
     if not has_length:
         flag[...] = CRITICAL_FLAGS.index("not_applicable")
     else:
-        extra = {"table": spec["table"], "screened": True} if family == "tabulated" else {}
+        extra = ({"table": spec["table"], "screened": True, "coulomb_tail": spec.get("coulomb_tail")}
+                 if family == "tabulated" else {})
         for i, strength in enumerate(strengths):
             for k, l in enumerate(ls):
                 for n_r in range(n_r_max):
