@@ -26,8 +26,8 @@ __all__ = ["Plan", "Tile", "SCHEMA_PATH", "load_config", "schema_error", "valida
 SCHEMA_PATH = Path(__file__).resolve().parents[2] / "config" / "schema.yaml"
 
 DEFAULT_CELLS_PER_TILE = 2048
-# A critical length costs a root search over zero-energy solutions: about as much as one
-# cell's levels with the current engine (measured: ~36 ms against ~48 ms per Yukawa cell).
+# A critical length costs a root search over zero-energy solutions, taken here as about one
+# cell's levels (a planning weight for non-one-scale families, not a measured figure).
 CRITICAL_COST_IN_CELLS = 1
 
 
