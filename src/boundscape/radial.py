@@ -185,22 +185,24 @@ def _refine(pot: Potential, l: int, k: int, guess: float, rtol: float, want_u: b
     energy = guess
     v_eff = effective_potential(pot, l)
     theta = fd.THETA
+    R = _box(pot, l, energy)
     for _attempt in range(6):
-        R = _box(pot, l, energy)
         base = fd.design_grid(v_eff, pot.mass, energy, origin_radius(pot, l), R, theta=theta)
         ops = [fd.build_operator(base.refined(f), v_eff, pot.mass) for f in FACTORS]
         try:
-            new, e_err, s, ys = _self_consistent(pot, l, k, ops, energy)
+            new, e_err, _, ys = _self_consistent(pot, l, k, ops, energy)
         except ConvergenceError as exc:
             return _Level(math.nan, math.inf, math.nan, NOT_CONVERGED, f"{exc} (grid of {base.m} points)")
-        box_ok = R >= pot.support or _box(pot, l, new) <= 1.05 * R
-        energy = new
+        next_R = _box(pot, l, new)  # the box the solved level asks for; used by a next attempt
+        box_ok = R >= pot.support or next_R <= 1.05 * R
+        energy, R = new, next_R
         if not box_ok:
             continue  # the level came out shallower than the box assumed: a wider box
         if e_err <= rtol * abs(energy) or theta < 0.05:
             break
         theta *= 0.6  # not resolved to tolerance (shallow levels are the usual case): finer grid
-    tail = exterior.tail_moments(pot.tail, l, energy, ops[0].grid.r_max, pot.mass)  # same R on every grid
+    R = ops[0].grid.r_max  # the box the levels were solved in (the same on every grid)
+    tail = exterior.tail_moments(pot.tail, l, energy, R, pot.mass)
     radii = [_mean_radius(op, y, tail) for op, y in zip(ops, ys)]
     r_best, _ = fd.richardson(radii, FACTORS)
     status, reason = OK, ""
