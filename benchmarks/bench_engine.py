@@ -23,7 +23,7 @@ import numpy as np
 from scipy.linalg import eigh_tridiagonal
 
 import boundscape as bs
-from boundscape import radial
+from boundscape.engine import levels as radial
 
 
 def plain_levels(pot, l, n=2000, r_max=100.0):

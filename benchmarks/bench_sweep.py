@@ -46,7 +46,7 @@ def run(config, cores, workdir):
     plan = sweep.plan(config)
     cube = workdir / "results" / plan.sweep / "levels.nc"
     command = [sys.executable, "-m", "snakemake", str(cube.relative_to(workdir)), "--snakefile",
-               str(REPO / "Snakefile"), "--directory", str(workdir), "--configfile", str(workdir / "sweep.yaml"),
+               str(REPO / "workflow" / "Snakefile"), "--directory", str(workdir), "--configfile", str(workdir / "sweep.yaml"),
                "--cores", str(cores), "--quiet", "all"]
     start = time.perf_counter()
     proc = subprocess.run(command, capture_output=True, text=True)

@@ -4,7 +4,6 @@ compression and lazy opening, atomic writes. Built here from exact hydrogen-like
 
 from __future__ import annotations
 
-import json
 import shutil
 import subprocess
 from pathlib import Path
@@ -14,6 +13,7 @@ import pytest
 from scipy.constants import physical_constants
 
 from boundscape import cube
+from boundscape.cube import model, netcdf
 
 HARTREE = physical_constants["Hartree energy"][0]
 BOHR = physical_constants["Bohr radius"][0]
@@ -102,35 +102,12 @@ def test_provenance_attributes(small_cube):
         assert ds.attrs["config_yaml"] == "sweep: unit\n"
 
 
-def _standard_name_table():
-    import importlib.resources
-
-    try:
-        table = importlib.resources.files("compliance_checker") / "data" / "cf-standard-name-table.xml"
-    except ModuleNotFoundError:
-        return None
-    return table if table.is_file() else None
-
-
-def _cf_findings(path, tmp_path):
-    report = tmp_path / f"{Path(path).stem}.json"
-    # compliance-checker (IOOS), CF-1.10 suite, offline with the standard-name table its wheel ships.
-    subprocess.run(["compliance-checker", "--test", "cf:1.10", "--criteria", "strict", "--format", "json",
-                    "-o", str(report), str(path)], capture_output=True, text=True, timeout=300)
-    result = json.loads(report.read_text())["cf:1.10"]
-    return [(p["name"], msg) for level in ("high_priorities", "medium_priorities", "low_priorities")
-            for p in result[level] for msg in p["msgs"]]
-
-
-@pytest.mark.skipif(shutil.which("compliance-checker") is None or _standard_name_table() is None,
-                    reason="compliance-checker not installed (pip install compliance-checker)")
-def test_cf_checker_finds_nothing(small_cube, tmp_path):
+def test_cf_checker_finds_nothing(small_cube, cf_findings):
     _, path = small_cube
-    assert _cf_findings(path, tmp_path) == []
+    assert cf_findings(path) == []
 
 
-@pytest.mark.skipif(shutil.which("compliance-checker") is None, reason="compliance-checker not installed")
-def test_cf_checker_catches_a_broken_file(tmp_path):
+def test_cf_checker_catches_a_broken_file(tmp_path, cf_findings):
     # Negative control: the same checker must object to a bad unit and an unknown standard_name.
     import netCDF4
 
@@ -141,7 +118,7 @@ def test_cf_checker_catches_a_broken_file(tmp_path):
         var = nc.createVariable("energy", "f8", ("x",))
         var.units, var.standard_name = "hartrees", "bound_state_energy"
         var[:] = [-0.5, -0.125]
-    findings = " ".join(msg for _, msg in _cf_findings(path, tmp_path))
+    findings = " ".join(msg for _, msg in cf_findings(path))
     assert "hartrees" in findings and "bound_state_energy" in findings
 
 
@@ -176,8 +153,8 @@ def test_million_cell_cube_is_small_and_opens_lazily(tmp_path):
 
 
 def test_chunks_hold_about_a_mebibyte():
-    chunks = cube.chunk_shape((100, 1250, 8, 4), 8)
-    assert np.prod(chunks) * 8 <= cube.CHUNK_BYTES
+    chunks = model.chunk_shape((100, 1250, 8, 4), 8)
+    assert np.prod(chunks) * 8 <= model.CHUNK_BYTES
     assert chunks[1:] == (1250, 8, 4)
 
 
@@ -189,7 +166,7 @@ def test_write_is_atomic(tmp_path):
         raise KeyboardInterrupt
 
     with pytest.raises(KeyboardInterrupt):
-        cube.replace_atomically(dies_half_way, final)
+        netcdf.replace_atomically(dies_half_way, final)
     assert list(tmp_path.iterdir()) == []
 
 

@@ -1,4 +1,4 @@
-"""The engine against an independent method where no exact formula exists (issue 2, item 3).
+"""The engine against an independent method where no exact formula exists.
 
 The second method is shooting with scipy.integrate.solve_ivp (DOP853, rtol 1e-13): outward
 from a power series at the origin, inward from the decaying WKB solution, matched by the

@@ -1,4 +1,4 @@
-"""The engine against exact solutions and published values (issue 2, item 3).
+"""The engine against exact solutions and published values.
 
 Every reference below is computed from a closed formula or from scipy.special/scipy.optimize
 inside the test, or is a published number; the source is named beside each check.
@@ -210,7 +210,7 @@ def test_one_scale_law_for_energies(family, reduced_lengths):
                 assert len(scaled.energy) == len(unit.energy), (family, Z, lam, mu, l)
                 assert scaled.num_bound == unit.num_bound
                 band = np.abs(unit.energy) >= 1e-6
-                # tolerance: the reach figure of issue 2, 1e-9, on the ratio of the two sides
+                # tolerance: the promised relative accuracy, 1e-9, on the ratio of the two sides
                 assert rel_err(scaled.energy[band], Z * Z * mu * unit.energy[band]).max(initial=0) <= 1e-9
                 checked += band.sum()
     assert checked > 0

@@ -1,4 +1,4 @@
-"""Exact bound-state counts on either side of each threshold (issue 2, items 1-3).
+"""Exact bound-state counts on either side of each threshold.
 
 A cell just past a threshold holds a level so shallow that it spreads over 1e6 bohr; one just
 short of it holds none.  The count must step by exactly one at λ_c, equal the number of levels

@@ -1,4 +1,4 @@
-"""Potential families, tabulated potentials, and bad input (issue 2, item 6).
+"""Potential families, tabulated potentials, and bad input.
 
 Bad input must raise boundscape.InputError with a one-line message naming the problem.
 """
@@ -22,7 +22,7 @@ def message_of(call):
 
 
 # ---------------------------------------------------------------------------------------------
-# The families are the formulas of issue 2.
+# The families follow their formulas.
 
 def test_family_values_follow_their_formulas():
     r = np.array([0.05, 0.7, 3.0, 11.0])
@@ -158,7 +158,7 @@ def test_table_with_too_few_points():
 
 @pytest.mark.parametrize("v_of_r", [lambda r: -1.0 / r, lambda r: -1.0 / r**2, lambda r: -np.exp(-r / 2) / r])
 def test_table_whose_tail_does_not_fall_off(v_of_r):
-    # −1/r without a declared Coulomb tail, −1/r² (not faster than 1/r², as issue 2 requires),
+    # −1/r without a declared Coulomb tail, −1/r² (not faster than 1/r², as a short-range table must),
     # and a Yukawa table cut at 10 bohr where |V|r² is still 0.07.
     r = np.geomspace(1e-6, 10.0, 200)
     assert "tail" in message_of(lambda: tabulated(r, v_of_r(r)))

@@ -29,7 +29,7 @@ REPO = Path(__file__).resolve().parents[1]
 # still runs jobs side by side, and tile size does not change the cube.
 TILE_CELLS = 576
 # What a workflow run needs; results/ and .snakemake/ are left behind.
-WORKFLOW_PATHS = ("Snakefile", "workflow", "config")
+WORKFLOW_PATHS = ("workflow", "config")
 RUN_TIMEOUT_S = 900
 
 
@@ -82,12 +82,10 @@ def workflow_copy(dest: Path) -> Path:
 def code_snapshot(dest: Path) -> Path:
     """Freeze the package source for both runs, so an edit between them cannot differ them.
 
-    Returns the directory to put on PYTHONPATH; config/ goes beside it, where
-    the package looks for the schema.
+    Returns the directory to put on PYTHONPATH (the schema is package data inside it).
     """
     ignore = shutil.ignore_patterns("__pycache__", "*.egg-info")
     shutil.copytree(REPO / "src", dest / "src", ignore=ignore)
-    shutil.copytree(REPO / "config", dest / "config", ignore=ignore)
     return dest / "src"
 
 
@@ -99,7 +97,7 @@ def run_sweep(workdir: Path, profile: str, code: Path) -> str:
     cmd = [
         sys.executable, "-m", "snakemake",
         cube_path(),  # first: --configfile takes every word after it
-        "--snakefile", str(workdir / "Snakefile"),
+        "--snakefile", str(workdir / "workflow" / "Snakefile"),
         "--directory", str(workdir),
         "--profile", str(workdir / "workflow" / "profiles" / profile),
         "--configfile", str(workdir / "cluster_check.yaml"),

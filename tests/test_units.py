@@ -8,7 +8,7 @@ from scipy import constants as sc
 from scipy.constants import physical_constants as pc
 
 from boundscape.errors import InputError
-from boundscape.units import (ATOMIC, BOHR_UDUNITS, HARTREE_UDUNITS, convert, effective_atomic_units,
+from boundscape.physics.units import (ATOMIC, BOHR_UDUNITS, HARTREE_UDUNITS, convert, effective_atomic_units,
                               nuclear_units, quantity_of)
 
 

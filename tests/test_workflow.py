@@ -18,8 +18,11 @@ import xarray as xr
 import yaml
 
 import boundscape as bs
-from boundscape import radial, steps, sweep, tiles
+from boundscape import engine, sweep
+from boundscape.cli import steps
 from boundscape.cube import read_part
+from boundscape.cube.collect import collect
+from boundscape.sweep import tiles
 from boundscape.errors import ConvergenceError
 
 pytestmark = pytest.mark.workflow
@@ -54,7 +57,7 @@ def snakemake(workdir, config, *args, check=True, timeout=600):
     workdir.mkdir(parents=True, exist_ok=True)
     (workdir / "sweep.yaml").write_text(yaml.safe_dump(config))
     target = [] if "--unlock" in args else [f"results/{config['sweep']}/levels.nc"]
-    command = [sys.executable, "-m", "snakemake", *target, "--snakefile", str(REPO / "Snakefile"),
+    command = [sys.executable, "-m", "snakemake", *target, "--snakefile", str(REPO / "workflow" / "Snakefile"),
                "--directory", str(workdir), "--configfile", str(workdir / "sweep.yaml"), *args]
     run = subprocess.run(command, capture_output=True, text=True, timeout=timeout)
     if check and run.returncode != 0:
@@ -79,7 +82,7 @@ def tile_mtimes(workdir, sweep_name="tiny"):
 
 
 def test_lint_is_clean():
-    run = subprocess.run([sys.executable, "-m", "snakemake", "--lint", "--snakefile", str(REPO / "Snakefile"),
+    run = subprocess.run([sys.executable, "-m", "snakemake", "--lint", "--snakefile", str(REPO / "workflow" / "Snakefile"),
                           "--directory", str(REPO)], capture_output=True, text=True, timeout=300)
     output = run.stdout + run.stderr
     assert run.returncode == 0, output
@@ -103,16 +106,10 @@ def test_summary_is_printed_at_the_end(tiny_run):
     assert "cube: results/tiny/levels.nc" in out
 
 
-def test_workflow_cube_passes_the_cf_checker(tiny_run, tmp_path):
-    import shutil
-
-    from test_cube import _cf_findings, _standard_name_table
-
-    if shutil.which("compliance-checker") is None or _standard_name_table() is None:
-        pytest.skip("compliance-checker not installed (pip install compliance-checker)")
+def test_workflow_cube_passes_the_cf_checker(tiny_run, cf_findings):
     workdir, _, ds = tiny_run
     assert ds.attrs["Conventions"] == "CF-1.10" and ds.attrs["config_sha256"]
-    assert _cf_findings(workdir / "results" / "tiny" / "levels.nc", tmp_path) == []
+    assert cf_findings(workdir / "results" / "tiny" / "levels.nc") == []
 
 
 def test_every_energy_equals_the_engine(tiny_run):
@@ -173,7 +170,7 @@ def test_deterministic_over_cores_and_tile_sizes(tiny_run, tmp_path):
 def test_resumes_after_a_kill(tmp_path):
     config = TINY  # 6 tiles, run one at a time
     (tmp_path / "sweep.yaml").write_text(yaml.safe_dump(config))
-    command = [sys.executable, "-m", "snakemake", "results/tiny/levels.nc", "--snakefile", str(REPO / "Snakefile"),
+    command = [sys.executable, "-m", "snakemake", "results/tiny/levels.nc", "--snakefile", str(REPO / "workflow" / "Snakefile"),
                "--directory", str(tmp_path), "--configfile", str(tmp_path / "sweep.yaml"), "--cores", "1"]
     process = subprocess.Popen(command, stdout=subprocess.DEVNULL, stderr=subprocess.DEVNULL, start_new_session=True)
     logs = tmp_path / "results" / "tiny" / "logs"
@@ -231,7 +228,7 @@ def _fake_unconverged(real):
 
 
 def test_failed_cell_is_isolated_and_reported(tmp_path, monkeypatch, capsys):
-    monkeypatch.setattr(radial, "bound_levels", _fake_unconverged(radial.bound_levels))
+    monkeypatch.setattr(engine, "bound_levels", _fake_unconverged(engine.bound_levels))
     plan = sweep.plan(TINY)
     tile_paths = [tmp_path / f"tile_{t.name}.nc" for t in plan.tiles]
     critical_paths = [tmp_path / f"criticals_{b.name}.nc" for b in plan.critical_blocks]
@@ -239,7 +236,7 @@ def test_failed_cell_is_isolated_and_reported(tmp_path, monkeypatch, capsys):
         assert steps.main(["solve-tile", "--spec", json.dumps(plan.tile_spec(tile)), "--output", str(path)]) == 0
     for block, path in zip(plan.critical_blocks, critical_paths):
         assert steps.main(["criticals", "--spec", json.dumps(plan.critical_spec(block)), "--output", str(path)]) == 0
-    report = steps.collect(sweep.validate_config(TINY), tile_paths, critical_paths, tmp_path / "levels.nc")
+    report = collect(sweep.validate_config(TINY), tile_paths, critical_paths, tmp_path / "levels.nc")
     assert "1 flagged" in report and "flagged_cells" in report
     lam = float(plan.screening_length[2])  # 5 bohr up to rounding in the log spacing
     cell = f"strength=2.0 screening_length={lam!r} l=1: ConvergenceError"
@@ -253,7 +250,7 @@ def test_failed_cell_is_isolated_and_reported(tmp_path, monkeypatch, capsys):
 
 
 def test_an_unconverged_level_is_nan_and_flags_its_cell(monkeypatch):
-    real = radial.bound_levels
+    real = engine.bound_levels
 
     def one_level_short(pot, l, n_r_max=None, wavefunctions=False):
         res = real(pot, l, n_r_max=n_r_max)
@@ -263,7 +260,7 @@ def test_an_unconverged_level_is_nan_and_flags_its_cell(monkeypatch):
             res.reason = list(res.reason[:-1]) + ["error estimate above tolerance"]
         return res
 
-    monkeypatch.setattr(radial, "bound_levels", one_level_short)
+    monkeypatch.setattr(engine, "bound_levels", one_level_short)
     plan = sweep.plan(TINY)
     tile = next(t for t in plan.tiles if t.strength == (2.0,) and 50.0 in t.screening_length)
     j = tile.screening_length.index(50.0)

@@ -18,6 +18,6 @@ rule collect:
     conda:
         "../envs/boundscape.yaml"
     shell:
-        "python -m boundscape.steps collect --config-json {params.config:q} --tiles {input.tiles:q}"
+        "python -m boundscape.cli.steps collect --config-json {params.config:q} --tiles {input.tiles:q}"
         " --criticals {input.criticals:q} --output {output.cube:q} --summary {output.summary:q}"
         " > {log:q} 2>&1"

@@ -16,6 +16,3 @@ rule report_summary:
         "../envs/boundscape.yaml"
     shell:
         "cp {input:q} {output:q} 2> {log:q}"
-
-
-ALL_TARGETS += [f"{RESULTS}/report/run_summary.txt"]

@@ -18,7 +18,7 @@ rule solve_tile:
     conda:
         "../envs/boundscape.yaml"
     shell:
-        "python -m boundscape.steps solve-tile --spec {params.spec:q} --output {output:q} > {log:q} 2>&1"
+        "python -m boundscape.cli.steps solve-tile --spec {params.spec:q} --output {output:q} > {log:q} 2>&1"
 
 
 rule criticals:
@@ -41,4 +41,4 @@ rule criticals:
     conda:
         "../envs/boundscape.yaml"
     shell:
-        "python -m boundscape.steps criticals --spec {params.spec:q} --output {output:q} > {log:q} 2>&1"
+        "python -m boundscape.cli.steps criticals --spec {params.spec:q} --output {output:q} > {log:q} 2>&1"

@@ -12,24 +12,16 @@ import time
 
 import numpy as np
 
-from . import potentials, radial, threshold
-from .errors import ConvergenceError, InputError
+from .. import engine
+from ..engine import FAMILIES, INPUT_REJECTED, NOT_CONVERGED
+from ..errors import ConvergenceError, InputError
 
-__all__ = ["STATUS_FLAGS", "CRITICAL_FLAGS", "solve_tile", "solve_criticals"]
+__all__ = ["CRITICAL_FLAGS", "solve_tile", "solve_criticals"]
 
-# CF flag_values are the positions in these tuples; flag_meanings are the names.
-STATUS_FLAGS = ("ok", "not_converged", "input_rejected")
+# CF flag_values are the positions in this tuple; flag_meanings are the names.  (The cells'
+# status codes are the engine's: boundscape.engine.LEVEL_STATUS.)
 CRITICAL_FLAGS = ("within_grid", "below_grid", "above_grid", "never_bound", "not_converged",
                   "not_applicable")
-OK, NOT_CONVERGED, INPUT_REJECTED = range(3)
-
-
-def _potential(spec, strength, screening_length):
-    if spec["family"] == "tabulated":
-        return potentials.potential("tabulated", strength, screening_length, spec["mass"],
-                                    table=spec["table"], screened=spec["screened"],
-                                    coulomb_tail=spec.get("coulomb_tail"))
-    return potentials.potential(spec["family"], strength, screening_length, spec["mass"])
 
 
 def _one_line(exc) -> str:
@@ -65,14 +57,14 @@ def solve_tile(spec: dict) -> dict:
         for j, lam in enumerate(lams):
             start = time.perf_counter()
             try:
-                pot = _potential(spec, strength, lam)
+                pot = engine.potential_from_spec(spec, strength, lam)
             except InputError as exc:
                 out["status"][i, j, :] = INPUT_REJECTED
                 reasons += [(i, j, k, _one_line(exc)) for k in range(len(ls))]
                 continue
             for k, l in enumerate(ls):
                 try:
-                    res = radial.bound_levels(pot, int(l), n_r_max=n_r_max)
+                    res = engine.bound_levels(pot, int(l), n_r_max=n_r_max)
                 except ConvergenceError as exc:
                     out["status"][i, j, k] = NOT_CONVERGED
                     reasons.append((i, j, k, _one_line(exc)))
@@ -124,17 +116,17 @@ def solve_criticals(spec: dict) -> dict:
     start = time.perf_counter()
     family = spec["family"]
     has_length = (family == "tabulated" and spec.get("screened")) or (
-        family != "tabulated" and potentials.FAMILIES[family].uses_screening_length)
+        family != "tabulated" and FAMILIES[family].uses_screening_length)
     if not has_length:
         flag[...] = CRITICAL_FLAGS.index("not_applicable")
     else:
-        extra = ({"table": spec["table"], "screened": True, "coulomb_tail": spec.get("coulomb_tail")}
+        extra = ({"table": spec["table"], "coulomb_tail": spec.get("coulomb_tail")}
                  if family == "tabulated" else {})
         for i, strength in enumerate(strengths):
             for k, l in enumerate(ls):
                 for n_r in range(n_r_max):
                     try:
-                        value = threshold.critical_screening_length(
+                        value = engine.critical_screening_length(
                             family, strength, int(l), n_r, mass=spec["mass"], **extra)
                     except ConvergenceError as exc:
                         flag[i, k, n_r] = CRITICAL_FLAGS.index("not_converged")

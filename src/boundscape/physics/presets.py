@@ -16,17 +16,20 @@ Choices stated once here:
 
 from __future__ import annotations
 
+import dataclasses
 import math
 from dataclasses import dataclass
 
 import numpy as np
 from scipy import constants as sc
 
-from .errors import InputError
+from ..checks import positive
+from ..errors import InputError
 from .units import (ATOMIC, BOHR_M, ELECTRON_MASS_KG, FM_M, HBAR_C_MEV_FM, MEV_J, UnitSystem,
                     effective_atomic_units, nuclear_units)
 
-__all__ = ["Plasma", "Semiconductor", "Nuclear", "from_config", "add_physical_coordinates", "cube_units", "PRESETS"]
+__all__ = ["Plasma", "Semiconductor", "Nuclear", "from_config", "cube_units", "screening_length_at", "loss_density",
+           "PRESETS"]
 
 
 @dataclass(frozen=True)
@@ -37,13 +40,6 @@ class EngineParameters:
     screening_length: float
     mass: float
     units: UnitSystem
-
-
-def _positive(name, value):
-    arr = np.asarray(value, dtype=float)
-    if not np.all(np.isfinite(arr)) or np.any(arr <= 0):
-        raise InputError(f"{name} must be positive and finite, got {value!r}")
-    return arr if arr.ndim else float(arr)
 
 
 @dataclass(frozen=True)
@@ -76,7 +72,7 @@ class Plasma:
         if self.species not in ("electrons", "electrons_and_ions"):
             raise InputError(f"plasma species must be 'electrons' or 'electrons_and_ions', got {self.species!r}")
         for name in ("screening_ion_charge", "ion_temperature_ratio", "temperature_eV", "reduced_mass"):
-            _positive(f"plasma {name}", getattr(self, name))
+            positive(f"plasma {name}", getattr(self, name))
 
     units = ATOMIC
     length_unit = "nm"
@@ -91,19 +87,19 @@ class Plasma:
 
     def debye_length(self, electron_density, temperature_eV):
         """λ_D in metres for n_e in m⁻³ and T_e in eV: λ_D⁻² = (e² n_e/ε₀)·Σ weights."""
-        n = _positive("electron density", electron_density)
-        _positive("electron temperature", temperature_eV)
+        n = positive("electron density", electron_density)
+        positive("electron temperature", temperature_eV)
         return 1.0 / np.sqrt(sc.e ** 2 * n / sc.epsilon_0 * self._inverse_kT(temperature_eV))
 
     def density_for(self, debye_length_m, temperature_eV):
         """The electron density (m⁻³) at which λ_D equals ``debye_length_m`` at T_e (eV)."""
-        lam = _positive("Debye length", debye_length_m)
+        lam = positive("Debye length", debye_length_m)
         return sc.epsilon_0 / (sc.e ** 2 * lam ** 2 * self._inverse_kT(temperature_eV))
 
     def to_engine(self, ion_charge, electron_density, temperature_eV) -> EngineParameters:
         """Engine inputs for ion charge Z in a plasma of n_e (m⁻³), T_e (eV)."""
         lam = self.debye_length(electron_density, temperature_eV) / BOHR_M
-        return EngineParameters(float(_positive("ion charge", ion_charge)), lam, self.reduced_mass, ATOMIC)
+        return EngineParameters(float(positive("ion charge", ion_charge)), lam, self.reduced_mass, ATOMIC)
 
 
 @dataclass(frozen=True)
@@ -136,7 +132,7 @@ class Semiconductor:
         if self.units_choice not in ("effective", "atomic"):
             raise InputError(f"semiconductor units must be 'effective' or 'atomic', got {self.units_choice!r}")
         for name in ("effective_mass", "permittivity", "temperature_K"):
-            _positive(f"semiconductor {name}", getattr(self, name))
+            positive(f"semiconductor {name}", getattr(self, name))
 
     length_unit = "nm"
 
@@ -154,7 +150,7 @@ class Semiconductor:
 
     def screening_length(self, carrier_density):
         """Screening length (m) for a carrier density (m⁻³)."""
-        n = _positive("carrier density", carrier_density)
+        n = positive("carrier density", carrier_density)
         if self.screening == "debye":
             return np.sqrt(self._epsilon * sc.k * self.temperature_K / (n * sc.e ** 2))
         fermi_energy = sc.hbar ** 2 * (3 * math.pi ** 2 * n) ** (2 / 3) / (2 * self.effective_mass * ELECTRON_MASS_KG)
@@ -162,7 +158,7 @@ class Semiconductor:
 
     def density_for(self, screening_length_m):
         """The carrier density (m⁻³) whose screening length is ``screening_length_m``."""
-        lam = _positive("screening length", screening_length_m)
+        lam = positive("screening length", screening_length_m)
         if self.screening == "debye":
             return self._epsilon * sc.k * self.temperature_K / (sc.e ** 2 * lam ** 2)
         # q² = 3 e² μ* mₑ n^{1/3} / (ε ħ² (3π²)^{2/3}), solved for n.
@@ -195,8 +191,8 @@ class Nuclear:
     length_fm: float = 1.0
 
     def __post_init__(self):
-        _positive("nuclear reduced_mass_MeV", self.reduced_mass_MeV)
-        _positive("nuclear length_fm", self.length_fm)
+        positive("nuclear reduced_mass_MeV", self.reduced_mass_MeV)
+        positive("nuclear length_fm", self.length_fm)
 
     length_unit = "fm"
 
@@ -213,8 +209,8 @@ class Nuclear:
 
     def to_engine(self, coupling_MeV_fm, range_fm) -> EngineParameters:
         """Engine inputs (mass 1) for a coupling g² (MeV·fm) and range λ (fm)."""
-        g2 = _positive("coupling g²", coupling_MeV_fm)
-        lam = _positive("range λ", range_fm)
+        g2 = positive("coupling g²", coupling_MeV_fm)
+        lam = positive("range λ", range_fm)
         units = self.units
         return EngineParameters(g2 * MEV_J * FM_M / units.coupling_J_m, lam * FM_M / units.length_m, 1.0, units)
 
@@ -255,47 +251,17 @@ def cube_units(preset, cube_mass: float = 1.0) -> UnitSystem:
     return preset.units
 
 
-def add_physical_coordinates(ds, preset, cube_mass=None):
-    """Return ``ds`` with the preset's physical coordinates next to the atomic ones.
-
-    Adds ``screening_length_<unit>`` along ``screening_length`` and, per preset, the
-    ``electron_density`` (plasma, at the reference temperature), ``carrier_density`` and
-    ``donor_charge`` (semiconductor) or ``coupling`` g² (nuclear); each with CF units.  Where the
-    preset reads the cube in units other than atomic ones, the ``units`` of the lengths and energies
-    become that system's scaled units; no number changes.
-    """
-    if preset is None:
-        return ds
-    mass = float(ds.attrs.get("mass", 1.0) if cube_mass is None else cube_mass)
-    lam = ds["screening_length"].values
-    coords = {}
-    kind = type(preset).__name__.lower()
-    units = cube_units(preset, mass)
-    if isinstance(preset, Nuclear):
-        coords["coupling"] = ("strength", preset.coupling_MeV_fm(ds["strength"].values, mass),
-                              {"long_name": "coupling g² of V = -g² exp(-r/λ)/r", "units": "MeV fm"})
-    lam_m = lam * units.length_m
-    unit = preset.length_unit
-    scale = {"nm": sc.nano, "fm": FM_M}[unit]
-    coords[f"screening_length_{unit}"] = ("screening_length", lam_m / scale, {
-        "long_name": f"screening length in {unit} ({kind} preset)", "units": unit})
+def screening_length_at(preset, density_m3, temperature):
+    """The preset's screening length (m) at a carrier density (m⁻³) and temperature (the
+    preset's unit: eV for a plasma, K for a semiconductor)."""
     if isinstance(preset, Plasma):
-        coords["electron_density"] = ("screening_length", preset.density_for(lam_m, preset.temperature_eV), {
-            "long_name": f"electron density giving this Debye length at T_e = {preset.temperature_eV:g} eV",
-            "units": "m-3"})
-    if isinstance(preset, Semiconductor):
-        coords["carrier_density"] = ("screening_length", preset.density_for(lam_m), {
-            "long_name": f"carrier density giving this screening length ({preset.screening})", "units": "m-3"})
-        coords["donor_charge"] = ("strength", preset.donor_charge(ds["strength"].values), {
-            "long_name": "donor charge number", "units": "1"})
-    out = ds.assign_coords({k: (d, np.asarray(v, dtype=float), a) for k, (d, v, a) in coords.items()})
-    out.attrs["preset"] = kind
-    out.attrs["preset_energy_unit_J"] = units.energy_J
-    out.attrs["preset_length_unit_m"] = units.length_m
-    if units is not ATOMIC:
-        # The numbers are in the preset's units (a*, 2Ry*; b, ħ²/μb²): say so, so the file stays true.
-        lengths = ("screening_length", "mean_radius", "critical_screening_length")
-        for name in lengths + ("energy", "energy_error"):
-            if name in out.variables:
-                out[name].attrs["units"] = units.length_udunits() if name in lengths else units.energy_udunits()
-    return out
+        return preset.debye_length(density_m3, temperature)
+    return dataclasses.replace(preset, temperature_K=temperature).screening_length(density_m3)
+
+
+def loss_density(preset, lam_m, temperature):
+    """Density (m⁻³) at which the preset's screening length equals ``lam_m`` (m) at ``temperature``."""
+    if isinstance(preset, Plasma):
+        return preset.density_for(lam_m, temperature)
+    return dataclasses.replace(preset, temperature_K=temperature).density_for(lam_m) \
+        if preset.screening == "debye" else preset.density_for(lam_m)

@@ -24,22 +24,23 @@ from dataclasses import dataclass, field
 
 import numpy as np
 
-from . import exterior, grid as fd
-from .errors import ConvergenceError
-from .potentials import Potential
-from .threshold import _count, check_l, effective_potential, origin_radius, zero_energy_problem
+from ..checks import quantum_number
+from ..errors import ConvergenceError
+from ..labels import state_label
+from . import grid as fd
+from .effective import effective_potential, origin_radius
+from .potential import Potential
+from .status import NOT_CONVERGED, OK
+from .zero_energy import zero_energy_problem
 
-__all__ = ["BoundLevels", "bound_levels", "SPECTROSCOPIC", "DEFAULT_LEVELS"]
+__all__ = ["BoundLevels", "bound_levels", "DEFAULT_LEVELS", "RTOL"]
 
-SPECTROSCOPIC = "spdfghiklmnoqrtuvwxyz"
 DEFAULT_LEVELS = 20  # levels returned for potentials that bind infinitely many
 # Box margin beyond the turning point, in decay lengths 1/κ: the density there is e^{-2C}.
 DECAY_LENGTHS = 24.0
 FACTORS = (2, 3, 4, 5, 6)
 ROUNDOFF = 1e-14  # floor of an error estimate, relative: cancellation in E = <T> + <V>
 RTOL = 1e-9  # the accuracy the sweep promises on every level (relative)
-
-OK, NOT_CONVERGED = 0, 1
 
 
 @dataclass
@@ -63,8 +64,7 @@ class BoundLevels:
 
     @property
     def labels(self) -> list[str]:
-        letter = SPECTROSCOPIC[self.l] if self.l < len(SPECTROSCOPIC) else f"[l={self.l}]"
-        return [f"{n}{letter}" for n in self.n]
+        return [state_label(int(n), self.l) for n in self.n]
 
 
 def bound_levels(pot: Potential, l: int, n_r_max: int | None = None, wavefunctions: bool = False,
@@ -89,12 +89,12 @@ def bound_levels(pot: Potential, l: int, n_r_max: int | None = None, wavefunctio
     -------
     BoundLevels
     """
-    l = check_l(l)
+    l = quantum_number(l)
     if n_r_max is not None:
-        n_r_max = check_l(n_r_max, "n_r_max")
+        n_r_max = quantum_number(n_r_max, "n_r_max")
     if pot.tail == "short":
         problem = zero_energy_problem(pot, l)
-        count = _count(problem)
+        count = problem.count()
         keep = count if n_r_max is None else min(count, n_r_max)
         if keep:
             op, s0 = problem.operator(1)
@@ -140,15 +140,7 @@ class _Level:
 
 def _survey_infinite(pot: Potential, l: int, keep: int) -> np.ndarray:
     """Lower levels of a Coulomb-tail or confining potential, from one box sized for the highest."""
-    n = keep + l
-    if pot.tail == "coulomb":
-        zmu = pot.coulomb_charge * pot.mass
-        e_top = -zmu * pot.coulomb_charge / (2.0 * n * n)
-        R = (2.0 * n * n + DECAY_LENGTHS * n) / zmu
-    else:
-        omega = pot.strength
-        e_top = omega * (2 * keep + l + 1.5)
-        R = math.sqrt(2 * e_top / (pot.mass * omega**2)) + 8.0 / math.sqrt(pot.mass * omega)
+    e_top, R = pot.exterior(l).survey_window(keep, DECAY_LENGTHS)
     v_eff = effective_potential(pot, l)
     g = fd.design_grid(v_eff, pot.mass, e_top, origin_radius(pot, l), R)
     op = fd.build_operator(g, v_eff, pot.mass)
@@ -157,7 +149,7 @@ def _survey_infinite(pot: Potential, l: int, keep: int) -> np.ndarray:
 
 
 def _exterior_log_derivative(pot, l, energy, R):
-    return exterior.log_derivative(pot.tail, l, energy, R, pot.mass, pot.coulomb_charge, pot.strength)
+    return pot.exterior(l).log_derivative(energy, R)
 
 
 def _outer_turning_point(pot, l, energy, r_lo, r_hi):
@@ -173,9 +165,7 @@ def _box(pot, l, energy):
     kappa = math.sqrt(2.0 * pot.mass * abs(energy)) if energy < 0 else math.sqrt(2 * pot.mass * pot.energy_scale)
     reach = pot.support if math.isfinite(pot.support) else 1e12 / pot.mass
     if pot.tail == "confining":
-        omega = pot.strength
-        r_t = math.sqrt(max(2 * energy, 0.0) / (pot.mass * omega**2)) + 1.0 / math.sqrt(pot.mass * omega)
-        return r_t + 8.0 / math.sqrt(pot.mass * omega)
+        return pot.exterior(l).box(energy)
     r_t = _outer_turning_point(pot, l, energy, origin_radius(pot, l), min(reach, 1e3 / kappa + 10 * pot.length_scale))
     return min(reach, r_t + DECAY_LENGTHS / kappa)
 
@@ -202,7 +192,7 @@ def _refine(pot: Potential, l: int, k: int, guess: float, rtol: float, want_u: b
             break
         theta *= 0.6  # not resolved to tolerance (shallow levels are the usual case): finer grid
     R = ops[0].grid.r_max  # the box the levels were solved in (the same on every grid)
-    tail = exterior.tail_moments(pot.tail, l, energy, R, pot.mass)
+    tail = pot.exterior(l).tail_moments(energy, R)
     radii = [_mean_radius(op, y, tail) for op, y in zip(ops, ys)]
     r_best, _ = fd.richardson(radii, FACTORS)
     status, reason = OK, ""

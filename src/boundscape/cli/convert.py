@@ -1,6 +1,6 @@
 """``boundscape convert``: one-off conversions between physical conditions and engine inputs.
 
-Wired into the main command by ``cli_convert.register(subparsers)``; the handler is stored as
+Wired into the main command by ``convert.register(subparsers)``; the handler is stored as
 ``func`` in the parsed namespace and returns the exit status.
 """
 
@@ -10,9 +10,9 @@ import argparse
 import json
 import sys
 
-from .errors import InputError
-from .presets import Nuclear, Plasma, Semiconductor
-from .units import BOHR_M, UNITS, convert
+from ..checks import positive
+from ..physics.presets import Nuclear, Plasma, Semiconductor
+from ..physics.units import BOHR_M, UNITS, convert
 
 __all__ = ["register", "run"]
 
@@ -135,8 +135,8 @@ def run(args) -> int:
     for name in ("density", "screening_length", "temperature", "effective_mass", "permittivity",
                  "reduced_mass", "coupling", "range"):
         value = getattr(args, name, None)
-        if value is not None and not value > 0:
-            raise InputError(f"--{name.replace('_', '-')} must be positive, got {value:g}")
+        if value is not None:
+            positive(f"--{name.replace('_', '-')}", value)
     rows = _rows(args)
     if args.format == "json":
         json.dump([{"quantity": q, "value": v, "unit": u} for q, v, u in rows], sys.stdout, indent=1)

@@ -1,14 +1,12 @@
-"""The cube's critical screening lengths read in physical conditions: survival maps and the loss table.
+"""Condition maps: how many stored levels survive over carrier density (× temperature) under a
+plasma or semiconductor preset.
 
 A stored state survives at a density n (and temperature T) where the preset's screening length
-λ(n, T) exceeds its stored critical length λ_c; the density at which it is lost inverts the
-preset's formula at λ_c.  No level is recomputed.
+λ(n, T) exceeds its stored critical length λ_c.  No level is recomputed.
 """
 
 from __future__ import annotations
 
-import csv
-import dataclasses
 import math
 
 import matplotlib
@@ -16,12 +14,13 @@ import matplotlib.lines
 import numpy as np
 from matplotlib.figure import Figure
 
-from .figures import (_HALO, _count_colorbar, _count_norm, _edges, _length_unit, _units, fan_strengths,
-                      state_name)
-from .presets import Nuclear, Plasma, Semiconductor
-from .units import BOHR_M, convert
+from ..labels import state_label
+from ..physics.presets import Nuclear, Plasma, loss_density, screening_length_at
+from ..physics.units import convert
+from .level_fan import fan_strengths
+from .style import HALO, cell_edges, count_colorbar, count_norm, cube_unit_system
 
-__all__ = ["surviving_levels", "condition_map", "loss_density", "critical_rows", "write_critical_csv"]
+__all__ = ["surviving_levels", "condition_map"]
 
 
 def surviving_levels(ds, strength, screening_length):
@@ -54,7 +53,7 @@ def condition_map(ds, preset, settings=None):
     settings = settings or {}
     if isinstance(preset, Nuclear) or preset is None:
         return None, {}
-    units = _units(ds, preset)
+    units = cube_unit_system(ds, preset)
     is_plasma = isinstance(preset, Plasma)
     two_d = is_plasma or preset.screening == "debye"
     if is_plasma:
@@ -73,13 +72,13 @@ def condition_map(ds, preset, settings=None):
     density = _axis_values(settings.get("density_cm3"), {
         "start": float(convert(ends[0], "m-3", "cm-3")), "stop": float(convert(ends[1], "m-3", "cm-3")), "num": 121})
     n_m3 = convert(density, "cm-3", "m-3")
-    lam_m = np.array([_screening_length(preset, n_m3, t) for t in temperature])  # (T, n)
+    lam_m = np.array([screening_length_at(preset, n_m3, t) for t in temperature])  # (T, n)
     lam = lam_m / units.length_m
     strengths = _axis_values(settings.get("strengths"), list(fan_strengths(ds["strength"].values, 4)))
     strengths = [ds["strength"].sel(strength=s, method="nearest").item() for s in strengths]
     counts = {s: surviving_levels(ds, s, lam) for s in strengths}
     top = max(max(int(c.max()) for c in counts.values()), 1)
-    cmap, norm = _count_norm(top)
+    cmap, norm = count_norm(top)
     ncols = min(2, len(strengths))
     nrows = -(-len(strengths) // ncols)
     fig = Figure(figsize=(4.3 * ncols + 1.2, 3.4 * nrows + 0.4), layout="constrained")
@@ -90,7 +89,7 @@ def condition_map(ds, preset, settings=None):
         charge = s if is_plasma else float(preset.donor_charge(s))
         ax.set(xscale="log", title=f"{what} = {charge:g}", xlim=(density.min(), density.max()))
         if two_d:
-            mesh = ax.pcolormesh(_edges(density), _edges(temperature), counts[s], cmap=cmap, norm=norm, rasterized=True)
+            mesh = ax.pcolormesh(cell_edges(density), cell_edges(temperature), counts[s], cmap=cmap, norm=norm, rasterized=True)
             ax.set_yscale("log")
         else:
             ax.step(density, counts[s][0], where="mid", color="black")
@@ -100,16 +99,16 @@ def condition_map(ds, preset, settings=None):
         for n_r, value in enumerate(lc[:3]):
             if not (math.isfinite(value) and value > 0):
                 continue
-            name = state_name(int(ds["n"].sel(l=l0).values[n_r]), int(l0))
+            name = state_label(int(ds["n"].sel(l=l0).values[n_r]), int(l0))
             loss = convert(np.array([float(loss_density(preset, value * units.length_m, t)) for t in temperature]),
                            "m-3", "cm-3")
             if two_d:
-                ax.plot(loss, temperature, "--", color="white", lw=1, path_effects=_HALO)
+                ax.plot(loss, temperature, "--", color="white", lw=1, path_effects=HALO)
                 # Staggered heights keep the labels of neighbouring lines apart.
                 i = int(round((0.8 - 0.2 * n_r) * (temperature.size - 1)))
                 if density.min() < loss[i] < density.max():
                     ax.annotate(name, (loss[i], temperature[i]), xytext=(4, 0), textcoords="offset points",
-                                ha="left", va="center", color="white", fontsize=8, path_effects=_HALO)
+                                ha="left", va="center", color="white", fontsize=8, path_effects=HALO)
             else:
                 if n_r == 0:
                     ax.set_title(f"{what} = {charge:g}: ground state lost at n = {loss[0]:.3g} cm⁻³")
@@ -129,7 +128,7 @@ def condition_map(ds, preset, settings=None):
         if ax.get_subplotspec().is_first_col():
             ax.set_ylabel(t_label if two_d else "surviving stored bound states")
     if two_d:
-        _count_colorbar(fig, mesh, list(axes[:len(strengths)]), top, "surviving stored bound states (all l)")
+        count_colorbar(fig, mesh, list(axes[:len(strengths)]), top, "surviving stored bound states (all l)")
     handles = [matplotlib.lines.Line2D([], [], color="0.4" if two_d else "C0", ls="--",
                                        label=f"loss of the lowest l = {l0} states")]
     if is_plasma:
@@ -137,60 +136,3 @@ def condition_map(ds, preset, settings=None):
                                                label="N_D = 1 (Debye picture fails to the right)"))
     fig.legend(handles=handles, loc="outside lower center", fontsize=7, ncols=2)
     return fig, {"density_cm3": density, "temperature": temperature, "screening_length": lam, "count": counts}
-
-
-def _screening_length(preset, n_m3, temperature):
-    if isinstance(preset, Plasma):
-        return preset.debye_length(n_m3, temperature)
-    return dataclasses.replace(preset, temperature_K=temperature).screening_length(n_m3)
-
-
-def loss_density(preset, lam_m, temperature):
-    """Density (m⁻³) at which the preset's screening length equals ``lam_m`` (m) at ``temperature``."""
-    if isinstance(preset, Plasma):
-        return preset.density_for(lam_m, temperature)
-    return dataclasses.replace(preset, temperature_K=temperature).density_for(lam_m) \
-        if preset.screening == "debye" else preset.density_for(lam_m)
-
-
-def critical_rows(ds, preset=None):
-    """One row per stored (strength, l, n_r): λ_c in bohr, in the preset's unit, and its loss density."""
-    units_m = _units(ds, preset).length_m
-    unit, factor = _length_unit(ds, preset)
-    flags = ds["critical_screening_length_flag"] if "critical_screening_length_flag" in ds else None
-    meanings = flags.attrs["flag_meanings"].split() if flags is not None else []
-    rows = []
-    for z in ds["strength"].values:
-        for l in ds["l"].values:
-            for n_r in ds["n_r"].values:
-                lc = float(ds["critical_screening_length"].sel(strength=z, l=l, n_r=n_r))
-                n = int(ds["n"].sel(l=l, n_r=n_r))
-                row = {"strength": float(z), "n": n, "l": int(l), "n_r": int(n_r), "state": state_name(n, int(l)),
-                       # Atomic-unit cubes keep every stored digit; others convert to bohr.
-                       "critical_screening_length_bohr": lc if units_m == BOHR_M else lc * units_m / BOHR_M}
-                if unit:
-                    row[f"critical_screening_length_{unit}"] = lc * factor
-                if isinstance(preset, (Plasma, Semiconductor)):
-                    t = preset.temperature_eV if isinstance(preset, Plasma) else preset.temperature_K
-                    density = float(loss_density(preset, lc * units_m, t)) if math.isfinite(lc) and lc > 0 else math.nan
-                    key = "loss_electron_density_cm-3" if isinstance(preset, Plasma) else "loss_carrier_density_cm-3"
-                    row[key] = convert(density, "m-3", "cm-3")
-                if isinstance(preset, Nuclear):
-                    g2 = float(preset.coupling_MeV_fm(z, float(ds.attrs.get("mass", 1.0))))
-                    row["coupling_MeV_fm"] = g2
-                    # 2μg²λ_c/ħ²: the one-scale threshold, 2/1.19061 for the Yukawa ground state.
-                    row["two_mu_g2_lambda_over_hbar2"] = 2 * float(preset.dimensionless(g2, lc * factor))
-                if flags is not None:
-                    row["flag"] = meanings[int(flags.sel(strength=z, l=l, n_r=n_r))]
-                rows.append(row)
-    return rows
-
-
-def write_critical_csv(ds, path, preset=None):
-    """Write ``critical_screening_lengths.csv`` (full float precision; inf where never bound)."""
-    rows = critical_rows(ds, preset)
-    with open(path, "w", newline="") as out:
-        writer = csv.DictWriter(out, fieldnames=list(rows[0]), lineterminator="\n")
-        writer.writeheader()
-        writer.writerows({k: repr(v) if isinstance(v, float) else v for k, v in row.items()} for row in rows)
-    return rows

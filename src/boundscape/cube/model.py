@@ -1,30 +1,26 @@
-"""The sweep cube: an xarray Dataset with CF-1.10 metadata and provenance, and its NetCDF files.
+"""The sweep cube's data model: an xarray Dataset with CF-1.10 metadata and provenance.
 
 Energies stay in hartree and lengths in bohr; the units say so as UDUNITS-2 scaled units
 built from :mod:`scipy.constants` (e.g. ``"5.29177210544e-11 m"``), so no number is converted.
-Every file is written to a temporary name in the same directory and renamed into place, so a
-killed job never leaves a partial file under a final name.
 """
 
 from __future__ import annotations
 
 import math
-import os
 from datetime import datetime, timezone
-from pathlib import Path
 
 import numpy as np
 
-from .tiles import CRITICAL_FLAGS, STATUS_FLAGS
-from .units import BOHR_M, BOHR_UDUNITS, HARTREE_EV, HARTREE_J, HARTREE_UDUNITS, udunits_scaled
+from ..engine import LEVEL_STATUS, family_info
+from ..physics.units import BOHR_M, BOHR_UDUNITS, HARTREE_EV, HARTREE_J, HARTREE_UDUNITS, udunits_scaled
+from ..sweep.tiles import CRITICAL_FLAGS
 
-__all__ = ["build_cube", "write_cube", "open_cube", "atomic_path", "replace_atomically", "chunk_shape",
-           "write_part", "read_part",
-           "CELL_DIMS", "LEVEL_DIMS", "CRITICAL_DIMS"]
+__all__ = ["build_cube", "chunk_shape", "CELL_DIMS", "LEVEL_DIMS", "CRITICAL_DIMS", "LEVEL_VARS"]
 
 CELL_DIMS = ("strength", "screening_length", "l")
 LEVEL_DIMS = CELL_DIMS + ("n_r",)
 CRITICAL_DIMS = ("strength", "l", "n_r")
+LEVEL_VARS = ("energy", "energy_error", "mean_radius")  # per level, along LEVEL_DIMS
 # Chunks of about 1 MiB: small enough to read one slice lazily, big enough for zlib to pay
 # (common practice, no source).
 CHUNK_BYTES = 1 << 20
@@ -34,13 +30,10 @@ MAX_LISTED = 2000  # flagged cells listed in an attribute; the tile logs hold th
 def _strength_units(family: str) -> tuple[str, str]:
     from scipy.constants import hbar
 
-    if family == "square_well":
-        return HARTREE_UDUNITS, "well depth"
-    if family == "harmonic":
-        return udunits_scaled(HARTREE_J / hbar, "s-1"), "oscillator angular frequency"
-    if family == "tabulated":
-        return "1", "scale factor on the tabulated potential"
-    return "1", "charge number Z of the screened Coulomb potential"
+    info = family_info(family)
+    units = {"1": "1", "energy": HARTREE_UDUNITS,
+             "angular_frequency": udunits_scaled(HARTREE_J / hbar, "s-1")}[info.strength_dimension]
+    return units, info.strength_long_name
 
 
 def chunk_shape(shape, itemsize, target=CHUNK_BYTES):
@@ -89,8 +82,7 @@ def build_cube(axes, levels, criticals, *, provenance):
         "strength": ("strength", np.asarray(axes["strength"], np.float64),
                      {"long_name": strength_name, "units": strength_units}),
         "screening_length": ("screening_length", np.asarray(axes["screening_length"], np.float64),
-                             {"long_name": "radius of the well" if family == "square_well"
-                              else "screening length", "units": BOHR_UDUNITS}),
+                             {"long_name": family_info(family).length_long_name, "units": BOHR_UDUNITS}),
         "l": ("l", l_values, {"long_name": "orbital angular momentum quantum number", "units": "1"}),
         "n_r": ("n_r", n_r, {"long_name": "radial quantum number (nodes of u(r) in 0 < r < inf)",
                              "units": "1"}),
@@ -116,8 +108,8 @@ def build_cube(axes, levels, criticals, *, provenance):
                        "many (a Coulomb tail or a confining potential)"}),
         "status": (CELL_DIMS, status, {
             "long_name": "solver status of the cell",
-            "flag_values": np.arange(len(STATUS_FLAGS), dtype=np.int8),
-            "flag_meanings": " ".join(STATUS_FLAGS),
+            "flag_values": np.arange(len(LEVEL_STATUS), dtype=np.int8),
+            "flag_meanings": " ".join(LEVEL_STATUS),
             "flagged_cell_count": np.int32(flagged),
             "flagged_cells": _listing(levels["reasons"]) or "none"}),
         "critical_screening_length": (CRITICAL_DIMS, criticals["critical_screening_length"], {
@@ -158,93 +150,3 @@ def build_cube(axes, levels, criticals, *, provenance):
         "date_created": now,
     }
     return xr.Dataset(data_vars, coords, attrs)
-
-
-def atomic_path(path) -> Path:
-    """The temporary name a file is written under before it is renamed to ``path``."""
-    path = Path(path)
-    return path.with_name(f".{path.name}.{os.getpid()}.partial")
-
-
-def replace_atomically(write, path):
-    """Call ``write(temp_path)``, then rename the result to ``path`` (same directory, so atomic)."""
-    path = Path(path)
-    path.parent.mkdir(parents=True, exist_ok=True)
-    for stale in path.parent.glob(f".{path.name}.*.partial"):  # left by a killed job
-        stale.unlink(missing_ok=True)
-    temp = atomic_path(path)
-    try:
-        write(temp)
-        os.replace(temp, path)
-    finally:
-        temp.unlink(missing_ok=True)
-
-
-def write_cube(ds, path):
-    """Write the cube compressed and chunked, atomically."""
-    encoding = {}
-    for name, var in ds.variables.items():
-        enc = {"_FillValue": None}
-        if name in ds.data_vars:
-            enc.update(zlib=True, complevel=4, shuffle=True,
-                       chunksizes=chunk_shape(var.shape, var.dtype.itemsize))
-            if var.dtype.kind == "f":
-                enc["_FillValue"] = np.nan
-        encoding[name] = enc
-    replace_atomically(lambda temp: ds.to_netcdf(temp, engine="netcdf4", format="NETCDF4",
-                                                 encoding=encoding), path)
-
-
-def open_cube(path):
-    """Open a cube lazily: arrays are read from disk only when indexed."""
-    import xarray as xr
-
-    path = Path(path)
-    if not path.is_file():
-        from .errors import InputError
-
-        raise InputError(f"cube {str(path)!r} does not exist")
-    return xr.open_dataset(path, engine="netcdf4")
-
-
-def write_part(path, arrays: dict, dims: dict, attrs: dict):
-    """Write a tile or a block of critical lengths (internal files, read back by :func:`read_part`).
-
-    Parameters
-    ----------
-    path : path
-        The final name; the file is written beside it and renamed into place.
-    arrays : dict of numpy.ndarray
-        The variables.
-    dims : dict of tuple of str
-        The dimension names of each variable.
-    attrs : dict
-        Global attributes (strings and numbers).
-
-    netCDF4 directly rather than xarray: a tile job then skips importing pandas, which is a
-    good part of a short job's start-up time.
-    """
-    import netCDF4
-
-    def write(temp):
-        with netCDF4.Dataset(temp, "w", format="NETCDF4") as nc:
-            for name, array in arrays.items():
-                for dim, size in zip(dims[name], array.shape):
-                    if dim not in nc.dimensions:
-                        nc.createDimension(dim, size)
-                var = nc.createVariable(name, array.dtype, dims[name], zlib=True, complevel=1)
-                var[...] = array
-            nc.setncatts(attrs)
-
-    replace_atomically(write, path)
-
-
-def read_part(path) -> tuple[dict, dict]:
-    """Arrays and attributes of a file written by :func:`write_part`."""
-    import netCDF4
-
-    with netCDF4.Dataset(path) as nc:
-        nc.set_auto_mask(False)
-        arrays = {name: var[...] for name, var in nc.variables.items()}
-        attrs = {name: nc.getncattr(name) for name in nc.ncattrs()}
-    return arrays, attrs

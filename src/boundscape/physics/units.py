@@ -15,13 +15,13 @@ A Coulomb-like coupling V = −Z·(energy unit)·(length unit)/r carries the str
 
 from __future__ import annotations
 
-import math
 from dataclasses import dataclass
 
 from scipy import constants as sc
 from scipy.constants import physical_constants as _pc
 
-from .errors import InputError
+from ..checks import positive
+from ..errors import InputError
 
 __all__ = [
     "HARTREE_J", "HARTREE_EV", "BOHR_M", "ELECTRON_MASS_KG", "ELECTRON_MASS_MEV", "HBAR_C_MEV_FM",
@@ -173,8 +173,8 @@ def effective_atomic_units(effective_mass: float, permittivity: float) -> UnitSy
     ----------
     Yu & Cardona, *Fundamentals of Semiconductors*, §4.2 (hydrogenic donors).
     """
-    _check_positive("effective_mass", effective_mass)
-    _check_positive("permittivity", permittivity)
+    positive("effective_mass", effective_mass)
+    positive("permittivity", permittivity)
     return UnitSystem("effective atomic", BOHR_M * permittivity / effective_mass, ELECTRON_MASS_KG * effective_mass)
 
 
@@ -184,15 +184,6 @@ def nuclear_units(reduced_mass_MeV: float, length_fm: float = 1.0) -> UnitSystem
     The energy unit is (ħc)²/(μc² b²) and the coupling unit (ħc)²/(μc² b), in MeV·fm when
     converted with :func:`convert`.
     """
-    _check_positive("reduced_mass_MeV", reduced_mass_MeV)
-    _check_positive("length_fm", length_fm)
+    positive("reduced_mass_MeV", reduced_mass_MeV)
+    positive("length_fm", length_fm)
     return UnitSystem("nuclear", length_fm * FM_M, reduced_mass_MeV * MEV_J / sc.c ** 2)
-
-
-def _check_positive(name, value):
-    try:
-        ok = math.isfinite(float(value)) and float(value) > 0
-    except (TypeError, ValueError):
-        ok = False
-    if not ok:
-        raise InputError(f"{name} must be a positive number, got {value!r}")

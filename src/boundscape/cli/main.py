@@ -12,12 +12,12 @@ import json
 import math
 import sys
 
-from . import __version__
-from .errors import ConvergenceError, InputError
-from .potentials import FAMILIES, potential
-from .radial import SPECTROSCOPIC, bound_levels
-from .threshold import critical_screening_length
-from .units import HARTREE_EV
+from . import convert
+from ..engine import FAMILIES, bound_levels, critical_screening_length, potential_from_spec
+from ..errors import ConvergenceError, InputError
+from ..labels import orbital_letter, state_label
+from ..physics.units import HARTREE_EV
+from ..version import VERSION
 
 
 def parse_l_values(text: str) -> list[int]:
@@ -41,12 +41,8 @@ def parse_l_values(text: str) -> list[int]:
     return sorted(set(out))
 
 
-def letter(l: int) -> str:
-    return SPECTROSCOPIC[l] if l < len(SPECTROSCOPIC) else f"[l={l}]"
-
-
 def _potential_args(p: argparse.ArgumentParser, needs_length: bool = True):
-    p.add_argument("--family", required=True, help=f"potential family: {', '.join(sorted(FAMILIES))}, tabulated")
+    p.add_argument("--family", required=True, help=f"potential family: {', '.join(sorted(FAMILIES))}")
     p.add_argument("--strength", type=float, default=1.0,
                    help="Z (charge number); depth in hartree (square_well); ω (harmonic); scale factor (tabulated)")
     if needs_length:
@@ -65,7 +61,7 @@ def build_parser() -> argparse.ArgumentParser:
     parser = argparse.ArgumentParser(
         prog="boundscape",
         description="Bound states of screened central potentials, in atomic units (hartree, bohr, electron masses).")
-    parser.add_argument("--version", action="version", version=f"boundscape {__version__}")
+    parser.add_argument("--version", action="version", version=f"boundscape {VERSION}")
     sub = parser.add_subparsers(dest="command", metavar="COMMAND", required=True)
 
     lv = sub.add_parser("levels", help="every bound level of one potential, per l",
@@ -81,18 +77,14 @@ def build_parser() -> argparse.ArgumentParser:
     cr.add_argument("--n-max", type=int, default=4, help="states with principal quantum number n ≤ N (default 4)")
     cr.set_defaults(func=run_critical)
 
-    try:
-        from . import cli_convert
-    except ImportError:  # presets not installed in this tree
-        cli_convert = None
-    if cli_convert is not None:
-        cli_convert.register(sub)
+    convert.register(sub)
     return parser
 
 
 def _make_potential(args, screening_length):
-    return potential(args.family, args.strength, screening_length, args.mass,
-                     table=args.table, screened=args.screened, coulomb_tail=args.coulomb_tail)
+    spec = {"family": args.family, "mass": args.mass, "table": args.table, "screened": args.screened,
+            "coulomb_tail": args.coulomb_tail}
+    return potential_from_spec(spec, args.strength, screening_length)
 
 
 def run_levels(args) -> int:
@@ -116,12 +108,12 @@ def run_levels(args) -> int:
     print(f"# {_title(pot)}")
     print(f"{'n':>3} {'l':>4} {'state':>6} {'E (hartree)':>22} {'E (eV)':>18} {'<r> (bohr)':>16} {'error (hartree)':>16}  status")
     for row in rows:
-        print(f"{row['n']:>3} {row['l']:>2} {letter(row['l']):>1} {row['state']:>6} {row['energy_hartree']:>22.15g} "
+        print(f"{row['n']:>3} {row['l']:>2} {orbital_letter(row['l']):>1} {row['state']:>6} {row['energy_hartree']:>22.15g} "
               f"{row['energy_eV']:>18.11g} {row['mean_radius_bohr']:>16.10g} {row['energy_error_hartree']:>16.3g}  "
               f"{row['status']}{' (' + row['reason'] + ')' if row['reason'] else ''}")
     for l, c in counts.items():
         text = "infinitely many" if c < 0 else str(c)
-        print(f"# l={l} ({letter(l)}): {text} bound states")
+        print(f"# l={l} ({orbital_letter(l)}): {text} bound states")
     return 0
 
 
@@ -134,9 +126,8 @@ def run_critical(args) -> int:
     for l in ls:
         for n in range(l + 1, args.n_max + 1):
             lam = critical_screening_length(args.family, args.strength, l, n - l - 1, args.mass,
-                                            table=args.table, screened=True,
-                                            coulomb_tail=args.coulomb_tail)
-            rows.append({"n": n, "l": l, "state": f"{n}{letter(l)}", "n_r": n - l - 1,
+                                            table=args.table, coulomb_tail=args.coulomb_tail)
+            rows.append({"n": n, "l": l, "state": state_label(n, l), "n_r": n - l - 1,
                          "critical_screening_length_bohr": lam,
                          "critical_inverse_length_per_bohr": 0.0 if math.isinf(lam) else 1.0 / lam})
     if args.format == "json":

@@ -1,0 +1,105 @@
+"""NetCDF files of a sweep: the cube and the parts (tiles, critical blocks) it is merged from.
+
+Every file is written to a temporary name in the same directory and renamed into place, so a
+killed job never leaves a partial file under a final name.
+"""
+
+from __future__ import annotations
+
+import os
+from pathlib import Path
+
+import numpy as np
+
+from ..errors import InputError
+from .model import chunk_shape
+
+__all__ = ["write_cube", "open_cube", "atomic_path", "replace_atomically", "write_part", "read_part"]
+
+
+def atomic_path(path) -> Path:
+    """The temporary name a file is written under before it is renamed to ``path``."""
+    path = Path(path)
+    return path.with_name(f".{path.name}.{os.getpid()}.partial")
+
+
+def replace_atomically(write, path):
+    """Call ``write(temp_path)``, then rename the result to ``path`` (same directory, so atomic)."""
+    path = Path(path)
+    path.parent.mkdir(parents=True, exist_ok=True)
+    for stale in path.parent.glob(f".{path.name}.*.partial"):  # left by a killed job
+        stale.unlink(missing_ok=True)
+    temp = atomic_path(path)
+    try:
+        write(temp)
+        os.replace(temp, path)
+    finally:
+        temp.unlink(missing_ok=True)
+
+
+def write_cube(ds, path):
+    """Write the cube compressed and chunked, atomically."""
+    encoding = {}
+    for name, var in ds.variables.items():
+        enc = {"_FillValue": None}
+        if name in ds.data_vars:
+            enc.update(zlib=True, complevel=4, shuffle=True,
+                       chunksizes=chunk_shape(var.shape, var.dtype.itemsize))
+            if var.dtype.kind == "f":
+                enc["_FillValue"] = np.nan
+        encoding[name] = enc
+    replace_atomically(lambda temp: ds.to_netcdf(temp, engine="netcdf4", format="NETCDF4",
+                                                 encoding=encoding), path)
+
+
+def open_cube(path):
+    """Open a cube lazily: arrays are read from disk only when indexed."""
+    import xarray as xr
+
+    path = Path(path)
+    if not path.is_file():
+        raise InputError(f"cube {str(path)!r} does not exist")
+    return xr.open_dataset(path, engine="netcdf4")
+
+
+def write_part(path, arrays: dict, dims: dict, attrs: dict):
+    """Write a tile or a block of critical lengths (internal files, read back by :func:`read_part`).
+
+    Parameters
+    ----------
+    path : path
+        The final name; the file is written beside it and renamed into place.
+    arrays : dict of numpy.ndarray
+        The variables.
+    dims : dict of tuple of str
+        The dimension names of each variable.
+    attrs : dict
+        Global attributes (strings and numbers).
+
+    netCDF4 directly rather than xarray: a tile job then skips importing pandas, which is a
+    good part of a short job's start-up time.
+    """
+    import netCDF4
+
+    def write(temp):
+        with netCDF4.Dataset(temp, "w", format="NETCDF4") as nc:
+            for name, array in arrays.items():
+                for dim, size in zip(dims[name], array.shape):
+                    if dim not in nc.dimensions:
+                        nc.createDimension(dim, size)
+                var = nc.createVariable(name, array.dtype, dims[name], zlib=True, complevel=1)
+                var[...] = array
+            nc.setncatts(attrs)
+
+    replace_atomically(write, path)
+
+
+def read_part(path) -> tuple[dict, dict]:
+    """Arrays and attributes of a file written by :func:`write_part`."""
+    import netCDF4
+
+    with netCDF4.Dataset(path) as nc:
+        nc.set_auto_mask(False)
+        arrays = {name: var[...] for name, var in nc.variables.items()}
+        attrs = {name: nc.getncattr(name) for name in nc.ncattrs()}
+    return arrays, attrs

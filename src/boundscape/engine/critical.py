@@ -1,0 +1,126 @@
+"""Critical parameters: the screening length or strength at which a state is lost.
+
+State k is lost where the k-th zero-energy eigenvalue μ_k (:mod:`.zero_energy`) crosses zero:
+a root in λ (or in the strength) found with ``scipy.optimize.brentq`` on the
+Richardson-extrapolated μ_k, not by interpolating energies.
+"""
+
+from __future__ import annotations
+
+import math
+from functools import lru_cache
+
+from scipy.optimize import brentq
+
+from ..checks import quantum_number
+from ..errors import InputError
+from .families import family_info
+from .potential import potential_from_spec
+from .zero_energy import zero_energy_problem
+
+__all__ = ["critical_screening_length", "critical_strength"]
+
+
+def _screened(family, strength, lam, mass, table, coulomb_tail=None):
+    # Critical lengths need the screening on: a table is always screened here.  ``table`` is a
+    # path or pair for the first (validating) build, then the Table it produced, which keeps
+    # its declared Coulomb tail.
+    spec = {"family": family, "mass": mass, "table": table, "screened": True, "coulomb_tail": coulomb_tail}
+    return potential_from_spec(spec, strength, lam)
+
+
+def _root_on(make, l: int, k: int, start: float, scale_up=2.0, span=1e12):
+    """Find the parameter p at which state k appears, μ_k(p) = 0, μ_k decreasing in p.
+
+    ``make(p)`` returns a Potential.  A bracket is grown geometrically from ``start`` on the
+    coarse count; the grid is then frozen (its size fixed at the bracket's upper end) so that
+    μ_k(p) is a smooth function of p for brentq."""
+    def bound(p):
+        return zero_energy_problem(make(p), l).coarse_count() > k
+
+    lo, hi = start, 2.0 * start
+    while not bound(hi):
+        lo, hi = hi, hi * scale_up
+        if hi > span * start:
+            return math.inf
+    while bound(lo):
+        hi, lo = lo, lo / scale_up
+        if lo < start / span:
+            return 0.0
+    m = zero_energy_problem(make(hi), l).grid.m
+
+    def mu(p):
+        return zero_energy_problem(make(p), l, m).extrapolated(k)
+
+    # the coarse bracket may be off by discretisation error: widen it on the extrapolated μ
+    while mu(lo) < 0:
+        lo /= scale_up
+    while mu(hi) > 0:
+        hi *= scale_up
+    return brentq(mu, lo, hi, xtol=1e-15 * hi, rtol=1e-15, maxiter=200)
+
+
+@lru_cache(maxsize=4096)
+def _critical_lambda(family, strength, l, n_r, mass, table):
+    start = family_info(family).critical_length_start(strength, mass)
+    return _root_on(lambda lam: _screened(family, strength, lam, mass, table), l, n_r, start)
+
+
+def critical_screening_length(family: str, strength: float, l: int, n_r: int, mass: float = 1.0,
+                              table=None, coulomb_tail: float | None = None) -> float:
+    """Screening length λ_c (bohr) below which the state (n_r, l) is not bound.
+
+    Parameters
+    ----------
+    family : str
+        A family that has a screening length (yukawa, ecsc, hulthen, square_well, tabulated).
+    strength, mass : float
+        Z (or depth) and reduced mass μ (electron masses).
+    l, n_r : int
+        Angular momentum and radial node count of the state.
+    table, coulomb_tail : optional
+        For ``tabulated``: the table (path or (r, V) pair) and a declared −Z/r tail beyond it;
+        a critical length always means the table is multiplied by exp(−r/λ).
+
+    Returns
+    -------
+    float
+        λ_c in bohr; ``math.inf`` if the state is never bound.
+
+    Notes
+    -----
+    For one-scale families λ_c(Z, μ) = λ_c(1, 1)/(Zμ), which is exact for V = Z f(r/λ)/r, so the
+    dimensionless root is computed once per (family, l, n_r) and cached.
+    """
+    l = quantum_number(l)
+    n_r = quantum_number(n_r, "n_r")
+    info = family_info(family)
+    if not info.uses_screening_length:
+        raise InputError(f"family {family!r} has no screening length; critical lengths need a screened family")
+    probe = _screened(family, strength, 1.0, mass, table, coulomb_tail)  # validates the parameters
+    if info.one_scale:
+        return _critical_lambda(family, 1.0, l, n_r, 1.0, None) / (probe.strength * probe.mass)
+    return _critical_lambda(family, probe.strength, l, n_r, probe.mass, probe.table)
+
+
+@lru_cache(maxsize=4096)
+def _critical_z(family, lam, l, n_r, mass, table):
+    start = family_info(family).critical_strength_start(lam, mass)
+    return _root_on(lambda z: _screened(family, z, lam, mass, table), l, n_r, start)
+
+
+def critical_strength(family: str, screening_length: float, l: int, n_r: int, mass: float = 1.0,
+                      table=None, coulomb_tail: float | None = None) -> float:
+    """Strength Z_c (or depth, hartree, for the square well) below which (n_r, l) is not bound.
+
+    For one-scale families Z_c = λ_c(1, 1)/(μλ).  Returns ``math.inf`` if never bound.
+    """
+    l = quantum_number(l)
+    n_r = quantum_number(n_r, "n_r")
+    info = family_info(family)
+    if not info.uses_screening_length:
+        raise InputError(f"family {family!r} binds at any strength; critical strengths need a screened family")
+    probe = _screened(family, 1.0, screening_length, mass, table, coulomb_tail)
+    if info.one_scale:
+        return _critical_lambda(family, 1.0, l, n_r, 1.0, None) / (probe.mass * probe.screening_length)
+    return _critical_z(family, probe.screening_length, l, n_r, probe.mass, probe.table)

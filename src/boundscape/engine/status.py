@@ -1,0 +1,10 @@
+"""Status codes of a solved level or cell, one home for the engine, the sweep and the cube.
+
+The code is the position in :data:`LEVEL_STATUS` (CF ``flag_values``); the names are the
+CF ``flag_meanings``.
+"""
+
+__all__ = ["LEVEL_STATUS", "OK", "NOT_CONVERGED", "INPUT_REJECTED"]
+
+LEVEL_STATUS = ("ok", "not_converged", "input_rejected")
+OK, NOT_CONVERGED, INPUT_REJECTED = range(len(LEVEL_STATUS))

@@ -1,0 +1,57 @@
+"""The loss table: every stored state's critical screening length, in bohr, in the preset's
+unit, and as the density at which it is lost (``critical_screening_lengths.csv``)."""
+
+from __future__ import annotations
+
+import csv
+import math
+
+from ..labels import state_label
+from ..physics.presets import Nuclear, Plasma, Semiconductor, loss_density
+from ..physics.units import BOHR_M, convert
+from .style import cube_unit_system, length_unit
+
+__all__ = ["critical_rows", "write_critical_csv"]
+
+
+def critical_rows(ds, preset=None):
+    """One row per stored (strength, l, n_r): λ_c in bohr, in the preset's unit, and its loss density."""
+    units_m = cube_unit_system(ds, preset).length_m
+    unit, factor = length_unit(ds, preset)
+    flags = ds["critical_screening_length_flag"] if "critical_screening_length_flag" in ds else None
+    meanings = flags.attrs["flag_meanings"].split() if flags is not None else []
+    rows = []
+    for z in ds["strength"].values:
+        for l in ds["l"].values:
+            for n_r in ds["n_r"].values:
+                lc = float(ds["critical_screening_length"].sel(strength=z, l=l, n_r=n_r))
+                n = int(ds["n"].sel(l=l, n_r=n_r))
+                row = {"strength": float(z), "n": n, "l": int(l), "n_r": int(n_r), "state": state_label(n, int(l)),
+                       # Atomic-unit cubes keep every stored digit; others convert to bohr.
+                       "critical_screening_length_bohr": lc if units_m == BOHR_M else lc * units_m / BOHR_M}
+                if unit:
+                    row[f"critical_screening_length_{unit}"] = lc * factor
+                if isinstance(preset, (Plasma, Semiconductor)):
+                    t = preset.temperature_eV if isinstance(preset, Plasma) else preset.temperature_K
+                    density = float(loss_density(preset, lc * units_m, t)) if math.isfinite(lc) and lc > 0 else math.nan
+                    key = "loss_electron_density_cm-3" if isinstance(preset, Plasma) else "loss_carrier_density_cm-3"
+                    row[key] = convert(density, "m-3", "cm-3")
+                if isinstance(preset, Nuclear):
+                    g2 = float(preset.coupling_MeV_fm(z, float(ds.attrs.get("mass", 1.0))))
+                    row["coupling_MeV_fm"] = g2
+                    # 2μg²λ_c/ħ²: the one-scale threshold, 2/1.19061 for the Yukawa ground state.
+                    row["two_mu_g2_lambda_over_hbar2"] = 2 * float(preset.dimensionless(g2, lc * factor))
+                if flags is not None:
+                    row["flag"] = meanings[int(flags.sel(strength=z, l=l, n_r=n_r))]
+                rows.append(row)
+    return rows
+
+
+def write_critical_csv(ds, path, preset=None):
+    """Write ``critical_screening_lengths.csv`` (full float precision; inf where never bound)."""
+    rows = critical_rows(ds, preset)
+    with open(path, "w", newline="") as out:
+        writer = csv.DictWriter(out, fieldnames=list(rows[0]), lineterminator="\n")
+        writer.writeheader()
+        writer.writerows({k: repr(v) if isinstance(v, float) else v for k, v in row.items()} for row in rows)
+    return rows

@@ -1,0 +1,35 @@
+"""Every figure and table of a cube, under one directory (the workflow's figures step)."""
+
+from __future__ import annotations
+
+from pathlib import Path
+
+import matplotlib
+
+from ..cube.physical import preset_of
+from .conditions import condition_map
+from .level_fan import level_fan
+from .loss_table import write_critical_csv
+from .style import RC, save
+from .threshold_map import threshold_map
+
+__all__ = ["render_all"]
+
+
+def render_all(ds, outdir):
+    """Every figure and the critical-lengths table of a cube, under ``outdir``; returns the paths."""
+    outdir = Path(outdir)
+    preset, settings = preset_of(ds)
+    written = []
+    with matplotlib.rc_context(RC):
+        for l in ds["l"].values:
+            written += save(threshold_map(ds, int(l), preset)[0], outdir / f"threshold_map_l{int(l)}")
+        written += save(level_fan(ds, preset=preset)[0], outdir / "level_fan")
+        fig, _ = condition_map(ds, preset, settings)
+        if fig is not None:
+            written += save(fig, outdir / "condition_map")
+    write_critical_csv(ds, outdir / "critical_screening_lengths.csv", preset)
+    # The configuration the cube was computed from, as stored in it, for the report.
+    config = outdir / "sweep_config.yaml"
+    config.write_text(f"# config_sha256: {ds.attrs.get('config_sha256', 'unknown')}\n{ds.attrs.get('config_yaml', '')}")
+    return written + [outdir / "critical_screening_lengths.csv", config]

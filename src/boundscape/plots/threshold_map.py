@@ -1,0 +1,97 @@
+"""Threshold maps: the (strength, λ) plane at one l, shaded by the exact bound-state count, with
+every state's loss curve λ_c(Z).  Drawn from a cube alone: every curve is a stored critical length."""
+
+from __future__ import annotations
+
+import numpy as np
+from matplotlib.figure import Figure
+
+from ..labels import state_label
+from ..physics.presets import Nuclear
+from .style import (HALO, cell_edges, count_colorbar, count_norm, length_unit, strength_label, unit_names,
+                    value_ticks)
+
+__all__ = ["threshold_map"]
+
+
+def threshold_map(ds, l, preset=None):
+    """(strength, λ) plane at one l, shaded by the exact bound-state count, with every loss curve.
+
+    Returns
+    -------
+    fig : matplotlib.figure.Figure
+    data : dict
+        ``count`` (strength × screening length, from ``num_bound``) and ``curves``, mapping a
+        state name to the (strength, λ_c) arrays drawn (the finite stored critical lengths).
+    """
+    z = ds["strength"].values
+    lam = ds["screening_length"].values
+    count = ds["num_bound"].sel(l=l).values.astype(float)
+    status = ds["status"].sel(l=l).values
+    # The count comes from the zero-energy solution, so it stands in flagged cells too (marked ×).
+    # The engine's −1 means infinitely many (Coulomb tail, confining well): the top shade.
+    # Shades stop at n_r_max ("n_r_max or more"): above that no loss curve is stored to explain them.
+    top = int(ds.sizes["n_r"])
+    infinite = count < 0
+    count = np.where(infinite, np.inf, count)
+    cmap, norm = count_norm(top)
+    fig = Figure(figsize=(6.4, 4.6), layout="constrained")
+    ax = fig.add_subplot()
+    mesh = ax.pcolormesh(cell_edges(z), cell_edges(lam), np.ma.masked_invalid(np.minimum(count, top)).T,
+                         cmap=cmap, norm=norm, rasterized=True)
+    ax.set(xscale="log", yscale="log", xlim=cell_edges(z)[[0, -1]], ylim=cell_edges(lam)[[0, -1]],
+           xlabel=strength_label(ds), ylabel=f"screening length λ ({unit_names(preset)[0]})",
+           title=f"{ds.attrs.get('family', '')} potential, l = {l}: bound states and where each is lost")
+    value_ticks(ax.xaxis, z)
+    count_colorbar(fig, mesh, ax, top, f"number of bound states with l = {l}", capped=True)
+    if (status != 0).any():
+        bad = np.argwhere(status != 0)
+        ax.plot(z[bad[:, 0]], lam[bad[:, 1]], "x", color="red", ms=5, label="solver flagged (see status)")
+        ax.legend(loc="lower left", fontsize=7)
+    curves = {}
+    if "critical_screening_length" in ds:
+        critical = ds["critical_screening_length"].sel(l=l)
+        n_of = ds["n"].sel(l=l).values
+        for k, n_r in enumerate(ds["n_r"].values):
+            lc = critical.sel(n_r=n_r).values
+            finite = np.isfinite(lc) & (lc > 0)
+            if not finite.any():
+                continue
+            name = state_label(int(n_of[k]), int(l))
+            curves[name] = (z[finite], lc[finite])
+            ax.plot(z[finite], lc[finite], "-", color="white", lw=1.4, path_effects=HALO, gid=f"loss:{name}")
+            spot = label_spot(z[finite], lc[finite], lam, (0.82, 0.55, 0.28)[k % 3])
+            if spot is not None:
+                ax.annotate(name, spot, ha="center", va="center", color="white", fontsize=7.5,
+                            path_effects=HALO, annotation_clip=True)
+    if infinite.all():
+        ax.text(0.5, 0.5, "infinitely many bound states in every cell\n(Coulomb tail or confining potential)",
+                transform=ax.transAxes, ha="center", va="center", color="black")
+    elif not curves and "critical_screening_length" in ds and np.isposinf(ds["critical_screening_length"].sel(l=l)).all():
+        ax.text(0.5, 0.5, f"no stored state with l = {l} is ever bound", transform=ax.transAxes,
+                ha="center", va="center", color="white", path_effects=HALO)
+    unit, factor = length_unit(ds, preset)
+    if unit:
+        ax.secondary_yaxis("right", functions=(lambda y: y * factor, lambda y: y / factor)).set_ylabel(
+            f"screening length ({unit})")
+    if isinstance(preset, Nuclear):
+        g2 = float(preset.coupling_MeV_fm(1.0, float(ds.attrs.get("mass", 1.0))))
+        coupling_axis = ax.secondary_xaxis("top", functions=(lambda x: x * g2, lambda x: x / g2))
+        coupling_axis.set_xlabel("coupling g² (MeV fm)")
+        value_ticks(coupling_axis.xaxis, z * g2, "{:.3g}")
+    return fig, {"count": count, "curves": curves}
+
+
+def label_spot(x, y, ylim, fraction):
+    """A point on the log–log polyline (x, y) inside ``ylim``, ``fraction`` of the way along it in log x.
+
+    Neighbouring states get different fractions, so their labels do not stack.
+    """
+    inside = (y >= ylim.min()) & (y <= ylim.max())
+    if not inside.any():
+        return None
+    lx, ly = np.log(x[inside]), np.log(y[inside])
+    if lx.size == 1:
+        return float(x[inside][0]), float(y[inside][0])
+    at = lx[0] + fraction * (lx[-1] - lx[0])
+    return float(np.exp(at)), float(np.exp(np.interp(at, lx, ly)))

@@ -1,0 +1,120 @@
+"""A validated sweep configuration turned into a plan: the grid axes and the tiles of cells, one job each.
+
+No physics here: this module only cuts the grid strength × screening_length × l into tiles
+(blocks of strengths × a share of the λ row × every l) and the strengths into blocks for the
+critical lengths. A tile is described by the values it covers (not by indices), so a tile's
+description changes exactly when the cells it computes change; the workflow passes it as the
+job's params.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+
+import numpy as np
+
+from ..engine import FAMILIES
+from ..version import VERSION
+from .config import axis_values, validate_config
+
+__all__ = ["Plan", "Tile", "plan"]
+
+# A critical length costs a root search over zero-energy solutions, taken here as about one
+# cell's levels (a planning weight for non-one-scale families, not a measured figure).
+CRITICAL_COST_IN_CELLS = 1
+
+
+@dataclass(frozen=True)
+class Tile:
+    """A block of cells: consecutive strengths × every k-th screening length × every l."""
+
+    index: int
+    strength: tuple[float, ...]
+    screening_length: tuple[float, ...]
+    strength_slice: tuple[int, int]
+    screening_length_index: tuple[int, ...]
+
+    @property
+    def name(self) -> str:
+        return f"{self.index:04d}"
+
+
+@dataclass(frozen=True)
+class Plan:
+    """The axes of a sweep, its engine settings, and its tiles."""
+
+    sweep: str
+    engine: dict
+    strength: np.ndarray
+    screening_length: np.ndarray
+    l: np.ndarray
+    n_r_max: int
+    tiles: tuple[Tile, ...]
+    critical_blocks: tuple[Tile, ...]
+
+    @property
+    def num_cells(self) -> int:
+        return self.strength.size * self.screening_length.size * self.l.size
+
+    def tile_spec(self, tile: Tile) -> dict:
+        """Everything a tile job needs, and nothing else: its params."""
+        return {**self.engine, "n_r_max": self.n_r_max, "strength": list(tile.strength),
+                "screening_length": list(tile.screening_length), "l": [int(v) for v in self.l],
+                "strength_slice": list(tile.strength_slice),
+                "screening_length_index": list(tile.screening_length_index)}
+
+    def critical_spec(self, block: Tile) -> dict:
+        spec = self.tile_spec(block)
+        # Critical lengths do not depend on the λ grid; only its ends decide the flags in collect.
+        spec.pop("screening_length"), spec.pop("screening_length_index")
+        return spec
+
+
+def _blocks(size: int, block: int) -> list[tuple[int, int]]:
+    return [(start, min(start + block, size)) for start in range(0, size, block)]
+
+
+def plan(config: dict) -> Plan:
+    """Cut a validated configuration into tiles of about ``tiles.cells`` cells.
+
+    Tiles keep every l (a potential is built once per strength and λ) and take whole λ rows
+    when they fit, so that adding strengths adds tiles without touching the existing ones.
+    A row too long for one tile is dealt out: tile r of R takes λ indices r, r+R, r+2R, ...,
+    because the cost of a cell grows with λ (more levels) and tiles should cost alike.
+    """
+    config = validate_config(config)
+    grid = config["grid"]
+    strength = axis_values(grid["strength"], "strength")
+    screening_length = axis_values(grid["screening_length"], "screening_length")
+    l_values = axis_values(grid["l"], "l")
+    n_r_max = int(grid["n_r_max"])
+    cells = int(config["tiles"]["cells"])
+
+    per_strength = screening_length.size * l_values.size
+    strength_block = max(1, cells // per_strength)
+    deal = -(-screening_length.size // max(1, cells // l_values.size)) if cells < per_strength else 1
+    tiles = []
+    for s0, s1 in _blocks(strength.size, strength_block):
+        for r in range(deal):
+            index = tuple(range(r, screening_length.size, deal))
+            tiles.append(Tile(len(tiles), tuple(strength[s0:s1].tolist()),
+                              tuple(screening_length[list(index)].tolist()), (s0, s1), index))
+
+    pot = config["potential"]
+    if FAMILIES[pot["family"]].one_scale:
+        # λ_c(Z, μ) = λ_c(1, 1)/(Zμ): the engine solves each (l, n_r) once per process and caches
+        # it, so one block is cheapest and more blocks would only repeat the same root searches.
+        critical_block = strength.size
+    else:
+        critical_block = max(1, cells // (CRITICAL_COST_IN_CELLS * l_values.size * n_r_max))
+    critical_blocks = tuple(
+        Tile(i, tuple(strength[s0:s1].tolist()), (), (s0, s1), ())
+        for i, (s0, s1) in enumerate(_blocks(strength.size, critical_block)))
+
+    engine = {"family": pot["family"], "mass": float(pot["mass"])}
+    if pot["family"] == "tabulated":
+        engine.update(table=pot["table"], screened=bool(pot["screened"]),
+                      coulomb_tail=pot.get("coulomb_tail"))
+    engine["engine"] = f"boundscape {VERSION}"
+    return Plan(config["sweep"], engine, strength, screening_length, l_values, n_r_max,
+                tuple(tiles), critical_blocks)

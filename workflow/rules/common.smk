@@ -1,0 +1,67 @@
+# Shared by the other .smk files: the validated config, the plan of tiles and the targets.
+# The plan is cheap and deterministic from the config, so it is computed at parse time:
+# the tile list is known before any job starts and no checkpoint is needed.
+import json
+import sys
+from pathlib import Path
+
+from snakemake.exceptions import WorkflowError
+from snakemake.utils import validate
+
+from boundscape.physics import presets as _presets
+from boundscape.errors import InputError
+from boundscape.sweep import SCHEMA_PATH, plan, schema_error
+
+# Before any job: unknown keys, wrong types and impossible values, each naming the key.
+try:
+    validate(config, str(SCHEMA_PATH))
+except WorkflowError:
+    # Snakemake's own message quotes the whole schema; one line naming the key says it all.
+    sys.exit(f"boundscape: {schema_error(config)}")
+
+try:
+    PLAN = plan(config)
+    # A preset that does not fit the sweep fails before any job starts, naming the key.
+    PRESET = _presets.from_config(config.get("preset"))
+    _presets.cube_units(PRESET, float(config["potential"].get("mass", 1.0)))
+except InputError as exc:
+    sys.exit(f"boundscape: {exc}")
+
+RESULTS = f"results/{PLAN.sweep}"
+FIGURES = f"{RESULTS}/figures"
+TILES = {tile.name: tile for tile in PLAN.tiles}
+CRITICAL_BLOCKS = {block.name: block for block in PLAN.critical_blocks}
+HAS_CONDITION_MAP = isinstance(PRESET, (_presets.Plasma, _presets.Semiconductor))
+# (stem, caption, report category, subcategory) of each figure: a PNG in the report, a PDF beside it.
+FIGURE_LIST = [(f"threshold_map_l{l}", "threshold_map.rst", "Threshold maps", f"l = {l}") for l in PLAN.l]
+FIGURE_LIST.append(("level_fan", "level_fan.rst", "Level fans", None))
+if HAS_CONDITION_MAP:
+    FIGURE_LIST.append(("condition_map", "condition_map.rst", "Physical conditions", None))
+TABLES = ("critical_screening_lengths.csv", "sweep_config.yaml")
+
+
+def all_targets():
+    """The cube, every figure (PNG and PDF), the tables and the report's run summary."""
+    figures = [f"{FIGURES}/{stem}.{ext}" for stem, *_ in FIGURE_LIST for ext in ("png", "pdf")]
+    return [f"{RESULTS}/levels.nc", *figures, *(f"{FIGURES}/{name}" for name in TABLES),
+            f"{RESULTS}/report/run_summary.txt"]
+
+
+def tile_spec(wildcards):
+    """The cells and engine settings of one tile: a changed tile reruns through params."""
+    return json.dumps(PLAN.tile_spec(TILES[wildcards.tile]))
+
+
+def critical_spec(wildcards):
+    return json.dumps(PLAN.critical_spec(CRITICAL_BLOCKS[wildcards.block]))
+
+
+def engine_inputs(wildcards):
+    """A tabulated potential's table is an input, so editing the table reruns the tiles."""
+    return [PLAN.engine["table"]] if "table" in PLAN.engine else []
+
+
+def print_summary():
+    summary = Path(RESULTS) / "summary.txt"
+    if summary.exists():
+        print(summary.read_text(), end="")
