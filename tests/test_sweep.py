@@ -143,3 +143,189 @@ def test_plan_step_prints_the_plan_and_errors_in_one_line(tmp_path):
                          capture_output=True, text=True)
     assert run.returncode == 2 and run.stdout == ""
     assert run.stderr.count("\n") == 1 and "potential.family" in run.stderr and "Traceback" not in run.stderr
+
+
+# ---------------------------------------------------------------------------------------------
+# Wrong types: one line naming the key and the bad value, also through Snakemake.
+
+WRONG_TYPES = [
+    ("strength", "abc", "grid.strength", "'abc'"),
+    ("screening_length", [1, -2, 3], "grid.screening_length.1", "-2"),
+    ("strength", [1, 0], "grid.strength.1", "0"),
+    ("strength", [1, "two"], "grid.strength.1", "'two'"),
+    ("l", "zero", "grid.l", "'zero'"),
+    ("n_r_max", [3], "grid.n_r_max", "[3]"),
+]
+
+
+@pytest.mark.parametrize("name, value, key, shown", WRONG_TYPES)
+def test_wrong_type_names_the_key_and_the_value(name, value, key, shown):
+    with pytest.raises(InputError) as info:
+        sweep.validate_config(mutated(lambda c: c["grid"].update({name: value})))
+    message = str(info.value)
+    assert "\n" not in message and f"config key {key}:" in message and shown in message, message
+
+
+def test_wrong_types_stop_snakemake_with_one_line(tmp_path):
+    import shutil
+    import subprocess
+    import sys
+
+    shutil.copytree(REPO / "workflow", tmp_path / "workflow")
+    (tmp_path / "config").mkdir()
+    for name, value, key, shown in WRONG_TYPES[:4]:
+        (tmp_path / "config" / "config.yaml").write_text(yaml.safe_dump(mutated(lambda c: c["grid"].update({name: value}))))
+        run = subprocess.run([sys.executable, "-m", "snakemake", "-n"], cwd=tmp_path, capture_output=True, text=True,
+                             timeout=120)
+        assert run.returncode != 0
+        lines = [line for line in run.stderr.splitlines() if line.startswith("boundscape:")]
+        assert len(lines) == 1 and f"config key {key}:" in lines[0] and shown in lines[0], run.stderr[-800:]
+        assert "Error" not in run.stderr.replace(lines[0], ""), run.stderr[-800:]
+
+
+# ---------------------------------------------------------------------------------------------
+# A bad potential table stops the sweep at validation, naming the file and the line.
+
+def _table_config(path, **pot):
+    config = mutated(lambda c: c["potential"].update(family="tabulated", table=str(path), screened=True, **pot))
+    config.pop("preset")
+    return config
+
+
+def _yukawa_rows(points=40):
+    r = np.geomspace(0.01, 60.0, points)
+    return r, -np.exp(-r / 2.0) / r
+
+
+def _write_table(path, r, v, header=True):
+    lines = (["# a screened well", "r,V"] if header else []) + [f"{float(a)!r},{float(b)!r}" for a, b in zip(r, v)]
+    path.write_text("\n".join(lines) + "\n")
+    return 3 if header else 1  # file line of the first point
+
+
+@pytest.mark.parametrize("defect, point, words", [
+    ("nan", 7, "NaN"),
+    ("decreasing", 12, "sorted ascending"),
+    ("repeated", 20, "repeated radius"),
+    ("short_tail", 39, "tail"),
+])
+def test_bad_table_is_rejected_at_validation_naming_file_and_line(tmp_path, defect, point, words):
+    r, v = _yukawa_rows()
+    if defect == "nan":
+        v[point] = np.nan
+    elif defect == "decreasing":
+        r[point] = r[point - 1] * 0.9
+    elif defect == "repeated":
+        r[point] = r[point - 1]
+    else:
+        r = np.geomspace(0.01, 5.0, 40)  # cut where |V| r² is still large
+        v = -np.exp(-r / 2.0) / r
+    path = tmp_path / "well.csv"
+    first = _write_table(path, r, v)
+    with pytest.raises(InputError) as info:
+        sweep.plan(_table_config(path))
+    message = str(info.value)
+    assert "\n" not in message and "config key potential.table" in message
+    assert f"{path}, line {first + point}" in message and words in message, message
+
+
+def test_empty_table_gives_the_message_alone(tmp_path):
+    import warnings
+
+    for text in ("", "# r,V\n", "r,V\n"):
+        path = tmp_path / "empty.csv"
+        path.write_text(text)
+        with warnings.catch_warnings():
+            warnings.simplefilter("error")  # numpy's "input contained no data" must not appear
+            with pytest.raises(InputError, match="empty.csv: no data"):
+                sweep.plan(_table_config(path))
+
+
+def test_good_table_passes_validation(tmp_path):
+    r, v = _yukawa_rows(200)
+    path = tmp_path / "well.csv"
+    _write_table(path, r, v, header=False)
+    assert sweep.plan(_table_config(path)).num_cells > 0
+
+
+def test_bad_table_stops_snakemake_before_any_job(tmp_path):
+    import shutil
+    import subprocess
+    import sys
+
+    r, v = _yukawa_rows()
+    v[5] = np.nan
+    _write_table(tmp_path / "well.csv", r, v)
+    shutil.copytree(REPO / "workflow", tmp_path / "workflow")
+    (tmp_path / "config").mkdir()
+    (tmp_path / "config" / "config.yaml").write_text(yaml.safe_dump(_table_config(tmp_path / "well.csv")))
+    run = subprocess.run([sys.executable, "-m", "snakemake", "--cores", "1"], cwd=tmp_path, capture_output=True,
+                         text=True, timeout=120)
+    assert run.returncode != 0 and not (tmp_path / "results").exists()
+    lines = [line for line in run.stderr.splitlines() if line.startswith("boundscape:")]
+    assert len(lines) == 1 and "well.csv, line 8" in lines[0], run.stderr[-800:]
+
+
+# ---------------------------------------------------------------------------------------------
+# Families without a screening length: the axis is not required, and not accepted.
+
+@pytest.mark.parametrize("family", ["coulomb", "harmonic"])
+def test_families_without_a_screening_length_need_no_axis(family):
+    config = mutated(lambda c: (c["potential"].update(family=family), c["grid"].pop("screening_length")))
+    config.pop("preset")
+    plan = sweep.plan(config)
+    assert plan.screening_length.tolist() == [float("inf")]
+    assert plan.num_cells == plan.strength.size * plan.l.size
+    with pytest.raises(InputError, match="config key grid.screening_length: family .* has no screening length"):
+        sweep.plan(mutated(lambda c: c["potential"].update(family=family)))
+
+
+def test_families_with_a_screening_length_still_need_the_axis():
+    with pytest.raises(InputError, match="config key grid.screening_length: family yukawa needs"):
+        sweep.plan(mutated(lambda c: c["grid"].pop("screening_length")))
+
+
+# ---------------------------------------------------------------------------------------------
+# The reduced mass: from the preset where it says so, never applied twice.
+
+def test_plasma_reduced_mass_reaches_the_engine():
+    config = mutated(lambda c: (c["potential"].pop("mass"), c["preset"].update(reduced_mass=0.9994557)))
+    plan = sweep.plan(config)
+    assert plan.engine["mass"] == 0.9994557
+    assert all(plan.tile_spec(t)["mass"] == 0.9994557 for t in plan.tiles)
+    with pytest.raises(InputError, match="config key potential.mass: 1 differs from preset.reduced_mass"):
+        sweep.plan(mutated(lambda c: c["preset"].update(reduced_mass=0.9994557)))
+
+
+SEMI = {"kind": "semiconductor", "effective_mass": 0.067, "permittivity": 12.9}
+
+
+def test_effective_units_refuse_a_second_effective_mass():
+    with pytest.raises(InputError, match="config key potential.mass: .*μ\\* would count twice"):
+        sweep.plan(mutated(lambda c: (c.update(preset=dict(SEMI)), c["potential"].update(mass=0.067))))
+    plan = sweep.plan(mutated(lambda c: (c.update(preset=dict(SEMI)), c["potential"].pop("mass"))))
+    assert plan.engine["mass"] == 1.0
+
+
+def test_atomic_units_take_mu_star_from_the_preset():
+    # Exciton reduced mass μ = m_e m_h/(m_e + m_h) (Yu & Cardona, §6.3): GaAs-like 0.067, 0.5.
+    preset = {**SEMI, "units": "atomic", "hole_mass": 0.5}
+    plan = sweep.plan(mutated(lambda c: (c.update(preset=preset), c["potential"].pop("mass"))))
+    assert plan.engine["mass"] == pytest.approx(0.067 * 0.5 / 0.567, rel=1e-14)
+
+
+def test_nuclear_couplings_in_MeV_fm():
+    # Engine strength of a coupling g²: g² μc² b/(ħc)² (mass 1, b = 1 fm), ħc from CODATA via scipy.
+    from scipy.constants import physical_constants
+
+    hbar_c = physical_constants["reduced Planck constant times c in MeV fm"][0]
+    config = mutated(lambda c: (c.update(preset={"kind": "nuclear", "reduced_mass_MeV": 469.4591}),
+                                c["grid"].pop("strength"), c["grid"].update(coupling_MeV_fm=[40.0, 60.0])))
+    plan = sweep.plan(config)
+    np.testing.assert_allclose(plan.strength, np.array([40.0, 60.0]) * 469.4591 / hbar_c ** 2, rtol=1e-12)
+    with pytest.raises(InputError, match="exactly one of strength and coupling_MeV_fm"):
+        sweep.plan(mutated(lambda c: (c.update(preset={"kind": "nuclear"}), c["grid"].update(coupling_MeV_fm=[1.0]))))
+    with pytest.raises(InputError, match="needs preset kind nuclear"):
+        sweep.plan(mutated(lambda c: (c["grid"].pop("strength"), c["grid"].update(coupling_MeV_fm=[1.0]))))
+    with pytest.raises(InputError, match="leave potential.mass at 1"):
+        sweep.plan(mutated(lambda c: (c.update(preset={"kind": "nuclear"}), c["potential"].update(mass=2.0))))

@@ -12,11 +12,14 @@ from boundscape.physics import presets as _presets
 from boundscape.errors import InputError
 from boundscape.sweep import SCHEMA_PATH, plan, schema_error
 
-# Before any job: unknown keys, wrong types and impossible values, each naming the key.
+# Before any job: unknown keys, wrong types and impossible values, each naming the key and
+# the value. The package's check runs first: Snakemake's own quotes the whole schema, and on
+# a wrong type (a string where a list belongs) it stops in its default-filling instead.
+if (_message := schema_error(config)) is not None:
+    sys.exit(f"boundscape: {_message}")
 try:
     validate(config, str(SCHEMA_PATH))
 except WorkflowError:
-    # Snakemake's own message quotes the whole schema; one line naming the key says it all.
     sys.exit(f"boundscape: {schema_error(config)}")
 
 try:

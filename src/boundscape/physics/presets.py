@@ -104,20 +104,31 @@ class Plasma:
 
 @dataclass(frozen=True)
 class Semiconductor:
-    """A hydrogenic donor screened by free carriers of density n.
+    """A hydrogenic donor, or a Wannier–Mott exciton, screened by free carriers of density n.
 
     Parameters
     ----------
     effective_mass, permittivity : float
-        μ* (electron masses) and ε_r.
+        The electrons' (the screening carriers') effective mass m_e* (electron masses) and ε_r.
+        For a donor the bound electron has this mass: μ* = m_e*.
+    hole_mass : float, optional
+        An exciton's hole mass m_h* (electron masses): the bound pair then has the two-body
+        reduced mass μ* = m_e* m_h*/(m_e* + m_h*), which sets a* and Ry*; the carriers that
+        screen are still electrons of mass m_e*.
     screening : {"thomas_fermi", "debye"}
-        Degenerate carriers: Thomas–Fermi, q_TF² = 3e²n/(2εE_F), E_F = ħ²(3π²n)^{2/3}/(2μ*mₑ)
+        Degenerate carriers: Thomas–Fermi, q_TF² = 3e²n/(2εE_F), E_F = ħ²(3π²n)^{2/3}/(2m_e*mₑ)
         (Ashcroft & Mermin, *Solid State Physics*, ch. 17).  Non-degenerate carriers: Debye,
         λ² = ε k_B T/(n e²) (Yu & Cardona, §6.3).
     temperature_K : float
-        Carrier temperature for Debye screening.
+        Carrier temperature for Debye screening, and where Thomas–Fermi's degenerate-gas
+        assumption (k_B T < E_F) holds.
     units : {"effective", "atomic"}
         How a cube's numbers are read (see the module docstring).
+
+    References
+    ----------
+    Yu & Cardona, *Fundamentals of Semiconductors*, §4.2 (donors) and §6.3 (Wannier excitons,
+    μ = m_e m_h/(m_e + m_h)).
     """
 
     effective_mass: float = 0.067
@@ -125,6 +136,7 @@ class Semiconductor:
     screening: str = "thomas_fermi"
     temperature_K: float = 300.0
     units_choice: str = "effective"
+    hole_mass: float | None = None
 
     def __post_init__(self):
         if self.screening not in ("thomas_fermi", "debye"):
@@ -133,12 +145,32 @@ class Semiconductor:
             raise InputError(f"semiconductor units must be 'effective' or 'atomic', got {self.units_choice!r}")
         for name in ("effective_mass", "permittivity", "temperature_K"):
             positive(f"semiconductor {name}", getattr(self, name))
+        if self.hole_mass is not None:
+            positive("semiconductor hole_mass", self.hole_mass)
 
     length_unit = "nm"
 
     @property
+    def is_exciton(self) -> bool:
+        return self.hole_mass is not None
+
+    @property
+    def reduced_mass(self) -> float:
+        """μ* of the bound problem: m_e* for a donor, m_e* m_h*/(m_e* + m_h*) for an exciton."""
+        if self.hole_mass is None:
+            return float(self.effective_mass)
+        return self.effective_mass * self.hole_mass / (self.effective_mass + self.hole_mass)
+
+    @property
     def effective(self) -> UnitSystem:
-        return effective_atomic_units(self.effective_mass, self.permittivity)
+        return effective_atomic_units(self.reduced_mass, self.permittivity)
+
+    def degenerate_density(self, temperature_K=None):
+        """Carrier density (m⁻³) at which E_F = k_B T: Thomas–Fermi screening assumes n well above it.
+
+        From E_F = ħ²(3π²n)^{2/3}/(2m_e*mₑ): n = (2m_e*mₑ k_B T)^{3/2}/(3π²ħ³)."""
+        t = self.temperature_K if temperature_K is None else temperature_K
+        return (2 * self.effective_mass * ELECTRON_MASS_KG * sc.k * t) ** 1.5 / (3 * math.pi ** 2 * sc.hbar ** 3)
 
     @property
     def units(self) -> UnitSystem:
@@ -172,7 +204,7 @@ class Semiconductor:
         lam_m = self.screening_length(carrier_density)
         if units == "effective":
             return EngineParameters(float(donor_charge), lam_m / self.effective.length_m, 1.0, self.effective)
-        return EngineParameters(float(donor_charge) / self.permittivity, lam_m / BOHR_M, self.effective_mass, ATOMIC)
+        return EngineParameters(float(donor_charge) / self.permittivity, lam_m / BOHR_M, self.reduced_mass, ATOMIC)
 
     def donor_charge(self, strength):
         """The donor charge a cube's strength axis stands for."""
@@ -214,6 +246,11 @@ class Nuclear:
         units = self.units
         return EngineParameters(g2 * MEV_J * FM_M / units.coupling_J_m, lam * FM_M / units.length_m, 1.0, units)
 
+    def strength_for(self, coupling_MeV_fm):
+        """The engine strength (mass 1) of a coupling g² in MeV·fm: g²·μc²·b/(ħc)²."""
+        g2 = positive("coupling g²", coupling_MeV_fm)
+        return g2 * MEV_J * FM_M / self.units.coupling_J_m
+
     def coupling_MeV_fm(self, strength, cube_mass: float = 1.0):
         return np.asarray(strength, dtype=float) * self.system(cube_mass).coupling_J_m / (MEV_J * FM_M)
 
@@ -245,9 +282,12 @@ def cube_units(preset, cube_mass: float = 1.0) -> UnitSystem:
     if isinstance(preset, Nuclear):
         return preset.system(cube_mass)
     if isinstance(preset, Semiconductor) and preset.units_choice == "atomic" and not math.isclose(
-            cube_mass, preset.effective_mass):
-        raise InputError(f"preset semiconductor (units: atomic) needs potential.mass = effective_mass "
-                         f"{preset.effective_mass:g}, the cube has mass {cube_mass:g}")
+            cube_mass, preset.reduced_mass):
+        raise InputError(f"preset semiconductor (units: atomic) needs potential.mass = μ* "
+                         f"{preset.reduced_mass:g}, the cube has mass {cube_mass:g}")
+    if isinstance(preset, Semiconductor) and preset.units_choice == "effective" and not math.isclose(cube_mass, 1.0):
+        raise InputError(f"preset semiconductor (units: effective) needs potential.mass = 1 (μ* is the mass unit), "
+                         f"the cube has mass {cube_mass:g}")
     return preset.units
 
 

@@ -8,14 +8,16 @@ from __future__ import annotations
 
 import hashlib
 import json
+import math
 from importlib import resources
 from pathlib import Path
 
 import numpy as np
 import yaml
 
-from ..engine import FAMILIES
+from ..engine import FAMILIES, load_table
 from ..errors import InputError
+from ..physics.presets import Nuclear, Plasma, Semiconductor, from_config
 
 __all__ = ["SCHEMA_PATH", "load_config", "schema_error", "validate_config", "config_text", "axis_values",
            "DEFAULT_CELLS_PER_TILE"]
@@ -25,19 +27,36 @@ SCHEMA_PATH = Path(str(resources.files(__package__).joinpath("schema.yaml")))
 DEFAULT_CELLS_PER_TILE = 2048
 
 
+_TYPE_WORDS = {"object": "a mapping of keys", "array": "a list", "number": "a number", "integer": "an integer",
+               "string": "a string", "boolean": "true or false"}
+
+
 def _where(error) -> str:
     path = ".".join(str(p) for p in error.absolute_path)
     return f"config key {path}" if path else "config"
 
 
+def _shown(value) -> str:
+    text = repr(value)
+    return text if len(text) <= 60 else text[:57] + "..."
+
+
 def schema_error(config) -> str | None:
-    """The first schema violation of ``config`` as one line naming the key, or None."""
+    """The first schema violation of ``config`` as one line naming the key and the bad value, or None."""
     import jsonschema
 
     schema = yaml.safe_load(SCHEMA_PATH.read_text())
     validator = jsonschema.Draft202012Validator(schema)
     error = jsonschema.exceptions.best_match(validator.iter_errors(config))
-    return None if error is None else f"{_where(error)}: {error.message}"
+    if error is None:
+        return None
+    if error.validator in ("oneOf", "anyOf") and error.schema.get("description"):
+        text = f"got {_shown(error.instance)}; expected {error.schema['description']}"
+    elif error.validator == "type" and isinstance(error.validator_value, str):
+        text = f"got {_shown(error.instance)}; expected {_TYPE_WORDS.get(error.validator_value, error.validator_value)}"
+    else:
+        text = error.message if len(error.message) <= 200 else error.message[:197] + "..."
+    return f"{_where(error)}: {text}"
 
 
 def validate_config(config: dict) -> dict:
@@ -50,7 +69,6 @@ def validate_config(config: dict) -> dict:
         raise InputError(message)
     config = json.loads(json.dumps(config))
     pot = config["potential"]
-    pot.setdefault("mass", 1.0)
     pot.setdefault("screened", False)
     config.setdefault("tiles", {}).setdefault("cells", DEFAULT_CELLS_PER_TILE)
 
@@ -59,28 +77,89 @@ def validate_config(config: dict) -> dict:
         known = ", ".join(sorted(FAMILIES))
         raise InputError(f"config key potential.family: unknown family {family!r}; known families: {known}")
     if family == "tabulated":
-        if "table" not in pot:
-            raise InputError("config key potential.table: the tabulated family needs a table file")
-        if not Path(pot["table"]).is_file():
-            raise InputError(f"config key potential.table: file {pot['table']!r} does not exist")
+        _check_table(pot)
     else:
         for key in ("table", "screened", "coulomb_tail"):
             if key in pot and (key != "screened" or pot[key]):
                 raise InputError(f"config key potential.{key}: only the tabulated family takes a table")
-    for name in ("strength", "screening_length"):
-        axis = config["grid"][name]
+    grid = config["grid"]
+    uses_length = pot["screened"] if family == "tabulated" else FAMILIES[family].uses_screening_length
+    if uses_length and "screening_length" not in grid:
+        raise InputError(f"config key grid.screening_length: family {family} needs a screening length axis")
+    if not uses_length and "screening_length" in grid:
+        why = "an unscreened table" if family == "tabulated" else f"family {family}"
+        raise InputError(f"config key grid.screening_length: {why} has no screening length, so every value "
+                         "would give the same cells; remove the key")
+    try:
+        preset = from_config(config.get("preset"))
+    except InputError as exc:
+        raise InputError(f"config key preset: {exc}") from None
+    _check_strength_axis(grid, preset)
+    pot["mass"] = _sweep_mass(pot.get("mass"), config.get("preset") or {}, preset)
+    for name in ("strength", "coupling_MeV_fm", "screening_length"):
+        if name not in grid:
+            continue
+        axis = grid[name]
         if isinstance(axis, dict) and axis.get("num", 1) > 1 and axis["start"] == axis["stop"]:
             raise InputError(f"config key grid.{name}: start equals stop but num is {axis['num']}")
     lgrid = config["grid"]["l"]
     if isinstance(lgrid, dict) and lgrid["stop"] < lgrid["start"]:
         raise InputError("config key grid.l: stop is below start")
-    for name in ("strength", "screening_length", "l"):
-        values = axis_values(config["grid"][name], name)
+    for name in ("strength", "coupling_MeV_fm", "screening_length", "l"):
+        if name not in grid:
+            continue
+        values = axis_values(grid[name], name)
         if not np.all(np.isfinite(values)):
             raise InputError(f"config key grid.{name}: values must be finite")
         if np.unique(values).size != values.size:
             raise InputError(f"config key grid.{name}: repeated values")
     return config
+
+
+def _check_table(pot):
+    # The table is read and checked here, before any job, so that a bad file stops the sweep
+    # with its file and line named rather than flagging every cell.
+    if "table" not in pot:
+        raise InputError("config key potential.table: the tabulated family needs a table file")
+    if not Path(pot["table"]).is_file():
+        raise InputError(f"config key potential.table: file {pot['table']!r} does not exist")
+    try:
+        load_table(pot["table"], coulomb_tail=pot.get("coulomb_tail"))
+    except InputError as exc:
+        raise InputError(f"config key potential.table: {exc}") from None
+
+
+def _check_strength_axis(grid, preset):
+    if ("strength" in grid) == ("coupling_MeV_fm" in grid):
+        raise InputError("config key grid: give exactly one of strength and coupling_MeV_fm")
+    if "coupling_MeV_fm" in grid and not isinstance(preset, Nuclear):
+        raise InputError("config key grid.coupling_MeV_fm: a coupling g² in MeV fm needs preset kind nuclear; "
+                         "use grid.strength otherwise")
+
+
+def _sweep_mass(mass, section: dict, preset) -> float:
+    """The engine's reduced mass under the preset: given once, never applied twice."""
+    if isinstance(preset, Plasma) and "reduced_mass" in section:
+        if mass is not None and not math.isclose(mass, preset.reduced_mass):
+            raise InputError(f"config key potential.mass: {mass:g} differs from preset.reduced_mass "
+                             f"{preset.reduced_mass:g}; give the reduced mass once")
+        return float(preset.reduced_mass)
+    if isinstance(preset, Semiconductor) and preset.units_choice == "effective":
+        if mass is not None and not math.isclose(mass, 1.0):
+            raise InputError(f"config key potential.mass: in effective atomic units (preset semiconductor, units: "
+                             f"effective) μ* is the mass unit, so the mass is 1, got {mass:g}; μ* would count twice")
+        return 1.0
+    if isinstance(preset, Semiconductor):
+        if mass is not None and not math.isclose(mass, preset.reduced_mass):
+            raise InputError(f"config key potential.mass: preset semiconductor (units: atomic) needs potential.mass "
+                             f"= μ* = {preset.reduced_mass:g}, got {mass:g}")
+        return float(preset.reduced_mass)
+    if isinstance(preset, Nuclear):
+        if mass is not None and not math.isclose(mass, 1.0):
+            raise InputError(f"config key potential.mass: the nuclear preset's reduced mass is "
+                             f"preset.reduced_mass_MeV; leave potential.mass at 1, got {mass:g}")
+        return 1.0
+    return 1.0 if mass is None else float(mass)
 
 
 def load_config(path) -> dict:
@@ -104,7 +183,11 @@ def config_text(config: dict) -> tuple[str, str]:
 
 
 def axis_values(spec, name) -> np.ndarray:
-    """The sorted values of one grid axis (a list, or {start, stop, num, spacing}; l: {start, stop})."""
+    """The sorted values of one grid axis (a list, or {start, stop, num, spacing}; l: {start, stop}).
+
+    A missing screening-length axis (families without one) is the single value +inf: unscreened."""
+    if spec is None and name == "screening_length":
+        return np.array([math.inf])
     if name == "l":
         values = np.arange(spec["start"], spec["stop"] + 1) if isinstance(spec, dict) else np.asarray(spec)
         return np.sort(values.astype(np.int32))

@@ -14,6 +14,7 @@ from dataclasses import dataclass
 import numpy as np
 
 from ..engine import FAMILIES
+from ..physics.presets import from_config
 from ..version import VERSION
 from .config import axis_values, validate_config
 
@@ -84,8 +85,12 @@ def plan(config: dict) -> Plan:
     """
     config = validate_config(config)
     grid = config["grid"]
-    strength = axis_values(grid["strength"], "strength")
-    screening_length = axis_values(grid["screening_length"], "screening_length")
+    if "strength" in grid:
+        strength = axis_values(grid["strength"], "strength")
+    else:  # a nuclear preset's couplings g² (MeV fm), as engine strengths
+        strength = np.asarray(from_config(config["preset"]).strength_for(
+            axis_values(grid["coupling_MeV_fm"], "coupling_MeV_fm")), dtype=np.float64)
+    screening_length = axis_values(grid.get("screening_length"), "screening_length")
     l_values = axis_values(grid["l"], "l")
     n_r_max = int(grid["n_r_max"])
     cells = int(config["tiles"]["cells"])
