@@ -1,8 +1,13 @@
-"""Spectroscopic labels of states: ``state_label(2, 1) == "2p"``."""
+"""Spectroscopic labels of states (``state_label(2, 1) == "2p"``) and the names of the families."""
 
 from __future__ import annotations
 
-__all__ = ["LETTERS", "orbital_letter", "state_label"]
+__all__ = ["LETTERS", "FAMILY_NAMES", "orbital_letter", "state_label"]
+
+# How titles and the cube name each engine family (the config keys are identifiers, not names).
+FAMILY_NAMES = {"coulomb": "Coulomb", "yukawa": "Yukawa", "ecsc": "exponential-cosine-screened Coulomb",
+                "hulthen": "Hulthén", "square_well": "square well", "harmonic": "harmonic oscillator",
+                "tabulated": "tabulated"}
 
 # j is skipped by convention (common practice, no source).
 LETTERS = "spdfghiklmnoqrtuvwxyz"

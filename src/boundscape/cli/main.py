@@ -2,20 +2,25 @@
 
     boundscape levels   --family yukawa --strength 1 --screening-length 10 --l 0-3
     boundscape critical --family yukawa --strength 1 --l 0-2
+    boundscape levels   --family yukawa --preset nuclear --reduced-mass 469.459 --coupling 50 \
+                        --screening-length 1.4 --length-unit fm
     boundscape convert  ...        (physical conditions <-> engine inputs)
 """
 
 from __future__ import annotations
 
 import argparse
+import difflib
 import json
 import math
+import os
 import sys
 
 from . import convert
+from .readings import add_preset_arguments, engine_strength, reading_of, significant
 from ..engine import FAMILIES, bound_levels, critical_screening_length, potential_from_spec
 from ..errors import ConvergenceError, InputError
-from ..labels import orbital_letter, state_label
+from ..labels import FAMILY_NAMES, orbital_letter, state_label
 from ..physics.units import HARTREE_EV
 from ..version import VERSION
 
@@ -41,75 +46,117 @@ def parse_l_values(text: str) -> list[int]:
     return sorted(set(out))
 
 
-def _potential_args(p: argparse.ArgumentParser, needs_length: bool = True):
+def _potential_args(p: argparse.ArgumentParser, *, levels: bool):
     p.add_argument("--family", required=True, help=f"potential family: {', '.join(sorted(FAMILIES))}")
-    p.add_argument("--strength", type=float, default=1.0,
-                   help="Z (charge number); depth in hartree (square_well); ω (harmonic); scale factor (tabulated)")
-    if needs_length:
+    p.add_argument("--strength", type=float, default=None,
+                   help="required: Z (charge number; for an ion, its nuclear charge); depth in hartree "
+                        "(square_well); ω in hartree/ħ (harmonic); scale factor (tabulated, default 1)")
+    if levels:
         p.add_argument("--screening-length", type=float, default=None,
-                       help="λ in bohr (radius for square_well); not used by coulomb and harmonic")
-    p.add_argument("--mass", type=float, default=1.0, help="reduced mass μ in electron masses (default 1)")
+                       help="λ in --length-unit, bohr by default (the radius for square_well); "
+                            "not used by coulomb and harmonic")
+    p.add_argument("--mass", type=float, default=None, help="reduced mass μ in electron masses (default 1)")
     p.add_argument("--l", default="0", help="angular momenta: 0-3, 0,2,5 or 1 (default 0)")
     p.add_argument("--table", default=None, help="tabulated family: CSV (r,V in bohr,hartree) or NetCDF with r, V")
-    p.add_argument("--screened", action="store_true", help="tabulated family: multiply the table by exp(-r/λ)")
+    if levels:
+        p.add_argument("--screened", action="store_true", help="tabulated family: multiply the table by exp(-r/λ)")
     p.add_argument("--coulomb-tail", type=float, default=None,
                    help="tabulated family: declare a -Z/r tail beyond the table with this Z")
     p.add_argument("--format", choices=("table", "json"), default="table", help="output format (default table)")
+    add_preset_arguments(p)
+
+
+LEVELS_DESCRIPTION = (
+    "Every bound level of one potential for each l, ascending. Where V vanishes far out, the bound "
+    "levels are those with E < 0. A Coulomb tail has infinitely many, and a confining family "
+    "(harmonic) binds every level, all with E > 0: for those the lowest --n-r-max levels (default 20) "
+    "are listed.")
 
 
 def build_parser() -> argparse.ArgumentParser:
     parser = argparse.ArgumentParser(
         prog="boundscape",
-        description="Bound states of screened central potentials, in atomic units (hartree, bohr, electron masses).")
+        description="Bound states of screened central potentials, in atomic units (hartree, bohr, electron masses) "
+                    "or a preset's (plasma, semiconductor, nuclear).")
     parser.add_argument("--version", action="version", version=f"boundscape {VERSION}")
     sub = parser.add_subparsers(dest="command", metavar="COMMAND", required=True)
 
-    lv = sub.add_parser("levels", help="every bound level of one potential, per l",
-                        description="Every bound level (E < 0) of one potential for each l, ascending.")
-    _potential_args(lv)
+    lv = sub.add_parser("levels", help="every bound level of one potential, per l", description=LEVELS_DESCRIPTION)
+    _potential_args(lv, levels=True)
     lv.add_argument("--n-r-max", type=int, default=None,
                     help="keep levels n_r < N (default: all; 20 for coulomb and harmonic)")
-    lv.set_defaults(func=run_levels)
+    lv.set_defaults(func=run_levels, parser=lv)
 
     cr = sub.add_parser("critical", help="critical screening length of each state",
-                        description="The screening length λ_c (bohr) below which each state (n, l) is not bound.")
-    _potential_args(cr, needs_length=False)
+                        description="The screening length λ_c below which each state (n, l) is not bound "
+                                    "(a table is always screened by exp(-r/λ) here).")
+    _potential_args(cr, levels=False)
     cr.add_argument("--n-max", type=int, default=4, help="states with principal quantum number n ≤ N (default 4)")
-    cr.set_defaults(func=run_critical)
+    cr.set_defaults(func=run_critical, parser=cr)
 
     convert.register(sub)
     return parser
 
 
-def _make_potential(args, screening_length):
-    spec = {"family": args.family, "mass": args.mass, "table": args.table, "screened": args.screened,
-            "coulomb_tail": args.coulomb_tail}
-    return potential_from_spec(spec, args.strength, screening_length)
+def _make_potential(args, strength, screening_length):
+    spec = {"family": args.family, "mass": 1.0 if args.mass is None else args.mass, "table": args.table,
+            "screened": getattr(args, "screened", False), "coulomb_tail": args.coulomb_tail}
+    return potential_from_spec(spec, strength, screening_length)
+
+
+def _note(pot, n_r_max):
+    if pot.tail == "confining":
+        return (f"{pot.family} is confining: every level is bound and E > 0; the lowest {n_r_max or 20} per l "
+                "are listed (--n-r-max)")
+    if pot.tail == "coulomb":
+        return f"a Coulomb tail binds infinitely many levels; the lowest {n_r_max or 20} per l are listed (--n-r-max)"
+    return None
 
 
 def run_levels(args) -> int:
     ls = parse_l_values(args.l)
-    pot = _make_potential(args, args.screening_length)
+    reading = reading_of(args)
+    strength, strength_text = engine_strength(args, reading)
+    lam = None if args.screening_length is None else reading.engine_length(args.screening_length, args.length_unit)
+    pot = _make_potential(args, strength, lam)
+    e_unit, r_unit = reading.energy_unit, reading.length_unit
     rows, counts = [], {}
     for l in ls:
         res = bound_levels(pot, l, n_r_max=args.n_r_max)
         counts[l] = res.num_bound
         for i in range(len(res.energy)):
-            rows.append({
-                "n": int(res.n[i]), "l": l, "state": res.labels[i], "n_r": int(res.n_r[i]),
-                "energy_hartree": float(res.energy[i]), "energy_eV": float(res.energy[i] * HARTREE_EV),
-                "mean_radius_bohr": float(res.mean_radius[i]), "energy_error_hartree": float(res.energy_error[i]),
-                "status": "ok" if res.status[i] == 0 else "not_converged", "reason": res.reason[i],
-            })
+            row = {"n": int(res.n[i]), "l": l, "state": res.labels[i], "n_r": int(res.n_r[i])}
+            if reading.preset is None and e_unit == "hartree":  # the atomic shape scripts rely on
+                row.update(energy_hartree=float(res.energy[i]), energy_eV=float(res.energy[i] * HARTREE_EV),
+                           mean_radius_bohr=float(res.mean_radius[i]),
+                           energy_error_hartree=float(res.energy_error[i]))
+            else:
+                row.update({f"energy_{e_unit}": significant(float(res.energy[i] * reading.energy_factor), 15),
+                            f"mean_radius_{r_unit}": significant(float(res.mean_radius[i] * reading.length_factor), 12),
+                            f"energy_error_{e_unit}": significant(float(res.energy_error[i] * reading.energy_factor), 3)})
+            row.update(status="ok" if res.status[i] == 0 else "not_converged", reason=res.reason[i])
+            rows.append(row)
+    note = _note(pot, args.n_r_max)
     if args.format == "json":
-        print(json.dumps({"potential": _describe(pot), "num_bound": {str(k): v for k, v in counts.items()},
-                          "levels": rows}, indent=2, allow_nan=True))
+        out = {"potential": _describe(pot, reading, strength_text), "num_bound": {str(k): v for k, v in counts.items()},
+               "levels": rows}
+        if note:
+            out["note"] = note
+        print(json.dumps(out, indent=2, allow_nan=True))
         return 0
-    print(f"# {_title(pot)}")
-    print(f"{'n':>3} {'l':>4} {'state':>6} {'E (hartree)':>22} {'E (eV)':>18} {'<r> (bohr)':>16} {'error (hartree)':>16}  status")
+    print(f"# {_title(pot, reading, strength_text)}")
+    if note:
+        print(f"# {note}")
+    if reading.preset is None and e_unit == "hartree":
+        columns = [("E (hartree)", "energy_hartree", 22, ".15g"), ("E (eV)", "energy_eV", 18, ".11g"),
+                   ("<r> (bohr)", "mean_radius_bohr", 16, ".10g"), ("error (hartree)", "energy_error_hartree", 16, ".3g")]
+    else:
+        columns = [(f"E ({e_unit})", f"energy_{e_unit}", 22, ".13g"), (f"<r> ({r_unit})", f"mean_radius_{r_unit}", 16, ".10g"),
+                   (f"error ({e_unit})", f"energy_error_{e_unit}", 16, ".3g")]
+    print(f"{'n':>3} {'l':>4} {'state':>6} " + " ".join(f"{name:>{width}}" for name, _, width, _ in columns) + "  status")
     for row in rows:
-        print(f"{row['n']:>3} {row['l']:>2} {orbital_letter(row['l']):>1} {row['state']:>6} {row['energy_hartree']:>22.15g} "
-              f"{row['energy_eV']:>18.11g} {row['mean_radius_bohr']:>16.10g} {row['energy_error_hartree']:>16.3g}  "
+        values = " ".join(f"{row[key]:>{width}{fmt}}" for _, key, width, fmt in columns)
+        print(f"{row['n']:>3} {row['l']:>2} {orbital_letter(row['l']):>1} {row['state']:>6} {values}  "
               f"{row['status']}{' (' + row['reason'] + ')' if row['reason'] else ''}")
     for l, c in counts.items():
         text = "infinitely many" if c < 0 else str(c)
@@ -121,48 +168,96 @@ def run_critical(args) -> int:
     ls = parse_l_values(args.l)
     if args.n_max < 1:
         raise InputError(f"--n-max must be at least 1, got {args.n_max}")
-    pot = _make_potential(args, 1.0)  # validates family and parameters
+    reading = reading_of(args)
+    strength, strength_text = engine_strength(args, reading)
+    if not FAMILIES[args.family].uses_screening_length:
+        raise InputError(f"family {args.family!r} has no screening length, so no state is ever lost; "
+                         "critical lengths need a screened family")
+    pot = _make_potential(args, strength, 1.0)  # validates family and parameters
+    unit, factor = reading.length_unit, reading.length_factor
     rows = []
     for l in ls:
         for n in range(l + 1, args.n_max + 1):
-            lam = critical_screening_length(args.family, args.strength, l, n - l - 1, args.mass,
+            lam = critical_screening_length(args.family, strength, l, n - l - 1, pot.mass,
                                             table=args.table, coulomb_tail=args.coulomb_tail)
-            rows.append({"n": n, "l": l, "state": state_label(n, l), "n_r": n - l - 1,
-                         "critical_screening_length_bohr": lam,
-                         "critical_inverse_length_per_bohr": 0.0 if math.isinf(lam) else 1.0 / lam})
+            row = {"n": n, "l": l, "state": state_label(n, l), "n_r": n - l - 1}
+            if unit == "bohr":
+                row.update(critical_screening_length_bohr=lam,
+                           critical_inverse_length_per_bohr=0.0 if math.isinf(lam) else 1.0 / lam)
+            else:
+                shown = significant(lam * factor, 13)
+                row.update({f"critical_screening_length_{unit}": shown,
+                            f"critical_inverse_length_per_{unit}": 0.0 if math.isinf(lam) else significant(1.0 / shown, 13)})
+            rows.append(row)
     if args.format == "json":
-        print(json.dumps({"potential": _describe(pot, with_length=False), "states": rows}, indent=2))
+        print(json.dumps({"potential": _describe(pot, reading, strength_text, with_length=False), "states": rows},
+                         indent=2))
         return 0
-    print(f"# critical screening lengths, {args.family}, strength {args.strength:g}, mass {args.mass:g}")
-    print(f"{'n':>3} {'l':>2} {'state':>6} {'lambda_c (bohr)':>22} {'1/lambda_c (1/bohr)':>22}")
+    print(f"# critical screening lengths, {_title(pot, reading, strength_text, with_length=False)}")
+    print(f"{'n':>3} {'l':>2} {'state':>6} {f'lambda_c ({unit})':>22} {f'1/lambda_c (1/{unit})':>22}")
     for row in rows:
-        print(f"{row['n']:>3} {row['l']:>2} {row['state']:>6} {row['critical_screening_length_bohr']:>22.13g} "
-              f"{row['critical_inverse_length_per_bohr']:>22.13g}")
+        print(f"{row['n']:>3} {row['l']:>2} {row['state']:>6} {row[f'critical_screening_length_{unit}']:>22.13g} "
+              f"{row[f'critical_inverse_length_per_{unit}']:>22.13g}")
     if not rows:
         print("# no states with n ≤ --n-max for these l")
     return 0
 
 
-def _describe(pot, with_length=True):
+def _describe(pot, reading, strength_text, with_length=True):
     d = {"family": pot.family, "strength": pot.strength, "mass": pot.mass}
+    if reading.preset is not None or reading.length_unit != "bohr":
+        d.update(units=reading.description, input=strength_text)
     if with_length and math.isfinite(pot.screening_length):
-        d["screening_length_bohr"] = pot.screening_length
+        if reading.length_unit == "bohr":
+            d["screening_length_bohr"] = pot.screening_length
+        else:
+            d[f"screening_length_{reading.length_unit}"] = significant(pot.screening_length * reading.length_factor)
     return d
 
 
-def _title(pot):
-    lam = f", λ = {pot.screening_length:g} bohr" if math.isfinite(pot.screening_length) else ""
-    return f"{pot.family}, strength {pot.strength:g}{lam}, mass {pot.mass:g} m_e (atomic units)"
+def _title(pot, reading, strength_text, with_length=True):
+    lam = ""
+    if with_length and math.isfinite(pot.screening_length):
+        shown = pot.screening_length * reading.length_factor
+        lam = f", λ = {shown:.10g} {reading.length_unit}"
+    mass = f", mass {pot.mass:g} m_e" if reading.preset is None else ""
+    return f"{FAMILY_NAMES.get(pot.family, pot.family)}, {strength_text}{lam}{mass} ({reading.description})"
+
+
+# Flags that were split because they had two meanings: say what replaced them.
+RETIRED = {"--ion-charge": "--nuclear-charge (the screened ion's nucleus) or --screening-ion-charge "
+                           "(the plasma's screening ions)"}
+
+
+def _parse(parser, argv):
+    args, extra = parser.parse_known_args(argv)
+    if extra:
+        # The subcommand's own usage, and the nearest flag it knows, rather than the top level's.
+        sub = getattr(args, "parser", parser)
+        known = [flag for action in sub._actions for flag in action.option_strings]
+        flags = [word.split("=")[0] for word in extra if word.startswith("-")]
+        hint = RETIRED.get(flags[0]) if flags else None
+        if hint is None and flags:
+            hint = next(iter(difflib.get_close_matches(flags[0], known, n=1)), None)
+        sub.error(f"unrecognized arguments: {' '.join(extra)}" + (f" (did you mean {hint}?)" if hint else ""))
+    return args
 
 
 def main(argv=None) -> int:
     parser = build_parser()
-    args = parser.parse_args(argv)
+    args = _parse(parser, argv)
     try:
-        return int(args.func(args) or 0)
+        status = int(args.func(args) or 0)
+        sys.stdout.flush()
+        return status
     except (InputError, ConvergenceError) as exc:
         print(f"boundscape: error: {exc}", file=sys.stderr)
         return 2
+    except BrokenPipeError:
+        # The reader (head, less) stopped reading: no traceback; further writes go nowhere.
+        devnull = os.open(os.devnull, os.O_WRONLY)
+        os.dup2(devnull, sys.stdout.fileno())
+        return 141
     except KeyboardInterrupt:
         print("boundscape: interrupted", file=sys.stderr)
         return 130
