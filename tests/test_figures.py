@@ -5,6 +5,7 @@ process; one test runs Snakemake end to end on a tiny sweep and builds the HTML 
 """
 
 import csv
+import math
 import json
 import shutil
 import subprocess
@@ -160,7 +161,9 @@ def test_critical_table_equals_the_cube(yukawa_cube, tmp_path):
         stored = float(ds["critical_screening_length"].sel(strength=float(row["strength"]), l=int(row["l"]),
                                                            n_r=int(row["n_r"])))
         assert float(row["critical_screening_length_bohr"]) == stored
-        assert float(row["critical_screening_length_nm"]) == pytest.approx(stored * BOHR * 1e9, rel=1e-14)
+        # Derived columns carry 13 significant digits.
+        assert float(row["critical_screening_length_nm"]) == pytest.approx(stored * BOHR * 1e9, rel=1e-12)
+        assert len(row["critical_screening_length_nm"].replace("-", "").replace(".", "").split("e")[0].strip("0")) <= 13
         assert int(row["n"]) == int(row["n_r"]) + int(row["l"]) + 1
         # The loss density gives back λ_c through the NRL-checked Debye length.
         lam = plasma.debye_length(float(row["loss_electron_density_cm-3"]) * 1e6, 10.0)
@@ -260,3 +263,224 @@ def test_nuclear_table_shows_the_one_scale_threshold(yukawa_cube):
     for row in ground:
         assert row["two_mu_g2_lambda_over_hbar2"] == pytest.approx(2 / 1.19061, rel=5e-6)
         assert f"{row['two_mu_g2_lambda_over_hbar2']:.5g}" == "1.6798"
+
+
+# ---------------------------------------------------------------------------------------------
+# Legibility: nothing dropped, nothing overlapping, the trade's units on the axes.
+
+def synthetic_cube(family="yukawa", strength=(1.0, 2.0, 3.0), lam=None, l=(0,), n_r_max=3, preset=None,
+                   config_yaml="sweep: synthetic\n", status=None):
+    """A cube with hydrogen-like levels, bound where λ > λ_c = n²/Z (a stand-in rule: the figures
+    are checked against the cube, not against physics), built with the cube's own model."""
+    from boundscape.cube import add_physical_coordinates, build_cube
+
+    strength = np.asarray(strength, float)
+    lam = np.geomspace(0.5, 100.0, 12) if lam is None else np.asarray(lam, float)
+    l = np.asarray(l, np.int32)
+    n = l[None, None, :, None] + np.arange(n_r_max) + 1
+    shape = (strength.size, lam.size, l.size, n_r_max)
+    lam_c = (n[0, 0][None] ** 2 / strength[:, None, None]) * np.ones((strength.size, l.size, n_r_max))
+    energy = np.broadcast_to(-(strength[:, None, None, None] ** 2) / (2.0 * n ** 2), shape).copy()
+    energy[~(lam[None, :, None, None] > lam_c[:, None, :, :])] = np.nan
+    status = np.zeros(shape[:3], np.int8) if status is None else status
+    levels = {"energy": energy, "energy_error": np.abs(energy) * 1e-12, "mean_radius": -1.0 / energy,
+              "num_bound": np.isfinite(energy).sum(axis=-1).astype(np.int32), "status": status, "reasons": []}
+    if not np.isfinite(lam).all():
+        lam_c[...] = np.nan
+    criticals = {"critical_screening_length": lam_c, "critical_flag": np.zeros(lam_c.shape, np.int8), "reasons": []}
+    provenance = {"sweep": "synthetic", "family": family, "mass": 1.0, "config_yaml": config_yaml,
+                  "config_sha256": "0" * 64, "version": "0", "git_commit": None, "history": "test"}
+    ds = build_cube({"strength": strength, "screening_length": lam, "l": l, "n_r_max": n_r_max}, levels, criticals,
+                    provenance=provenance)
+    return add_physical_coordinates(ds, preset)
+
+
+def _boxes(fig, artists):
+    fig.canvas.draw()
+    renderer = fig.canvas.get_renderer()
+    return [a.get_window_extent(renderer) for a in artists if a.get_visible() and a.get_text()]
+
+
+def _overlaps(boxes):
+    return [(a, b) for i, a in enumerate(boxes) for b in boxes[i + 1:] if a.overlaps(b)]
+
+
+def _tick_label_overlaps(fig):
+    from matplotlib.backends.backend_agg import FigureCanvasAgg
+
+    FigureCanvasAgg(fig)
+    found = []
+    for ax in fig.axes:
+        for axis in (ax.xaxis, ax.yaxis):
+            labels = [t for t in axis.get_ticklabels(which="both") if t.get_text()]
+            found += _overlaps(_boxes(fig, labels))
+    return found
+
+
+def test_level_fan_labels_every_critical_length_without_overlap(yukawa_cube):
+    from matplotlib.backends.backend_agg import FigureCanvasAgg
+
+    # Many states close together: 8 levels per l between λ = 1 and 100 (synthetic, λ_c = n²/Z).
+    for ds in (yukawa_cube, synthetic_cube(l=(0, 3), n_r_max=8, lam=np.geomspace(1, 100, 30))):
+        fig, data = plots.level_fan(ds)
+        FigureCanvasAgg(fig)
+        for ax in fig.axes:
+            labels = [t for t in ax.texts if (t.get_gid() or "").startswith("label:")]
+            marks = [line for line in ax.get_lines() if (line.get_gid() or "").startswith("critical:")]
+            assert sorted(t.get_gid()[6:] for t in labels) == sorted(m.get_gid()[9:] for m in marks)
+            assert _overlaps(_boxes(fig, labels)) == []
+            # Labels sit above the curves on an opaque patch: no curve runs over a label.
+            top_line = max((line.get_zorder() for line in ax.get_lines()), default=0)
+            for t in labels:
+                assert t.get_zorder() > top_line and t.get_bbox_patch().get_alpha() >= 0.8
+        assert len([t for ax in fig.axes for t in ax.texts if (t.get_gid() or "").startswith("label:")]) == \
+            len(data["critical"])
+
+
+def test_level_fan_curves_reach_their_critical_length(yukawa_cube):
+    fig, data = plots.level_fan(yukawa_cube)
+    for ax in fig.axes:
+        bottom = ax.get_ylim()[0]
+        for line in ax.get_lines():
+            gid = line.get_gid() or ""
+            if not gid.startswith("connector:"):
+                continue
+            name = gid[10:]
+            (x0, x1), (y0, y1) = line.get_data()
+            curve = next(c for c in ax.get_lines() if c.get_gid() == f"level:{name}")
+            assert (x0, y0) == (curve.get_xdata()[0], curve.get_ydata()[0])  # from the last stored point
+            marker = next(c for c in ax.get_lines() if c.get_gid() == f"critical:{name}")
+            assert (x1, y1) == (marker.get_xdata()[0], bottom)  # to the λ_c triangle
+
+
+def test_short_log_axes_do_not_collide():
+    from matplotlib.figure import Figure
+
+    from boundscape.plots.style import value_ticks
+
+    fig = Figure(figsize=(6.4, 4.6))
+    ax = fig.add_subplot(xscale="log")
+    values = np.array([74.6, 82.9, 91.2, 99.5])  # close couplings: every one a tick would collide
+    ax.set_xlim(70, 105)
+    value_ticks(ax.xaxis, values)
+    assert _tick_label_overlaps(fig) == []
+    assert all("×" not in t.get_text() and "10^" not in t.get_text() for t in ax.xaxis.get_ticklabels(which="both"))
+
+
+def test_nuclear_figures_are_legible_and_show_MeV(yukawa_cube):
+    # Energy unit (ħc)²/(μc² fm²) in MeV (ħc from CODATA via scipy).
+    hbar_c = pc["reduced Planck constant times c in MeV fm"][0]
+    nuclear = Nuclear(reduced_mass_MeV=469.4591)
+    ds = synthetic_cube(strength=np.linspace(1.5, 2.0, 6), lam=np.geomspace(1.0, 5.0, 15), preset=nuclear)
+    for fig in (plots.threshold_map(ds, 0, nuclear)[0], plots.level_fan(ds, preset=nuclear)[0]):
+        assert _tick_label_overlaps(fig) == []
+    fig, _ = plots.threshold_map(ds, 0, nuclear)
+    assert fig.axes[0].get_xlabel() == "coupling g² (MeV fm)"
+    fig, _ = plots.level_fan(ds, preset=nuclear)
+    _tick_label_overlaps(fig)  # draws
+    pairs = [(ax, child) for ax in fig.axes for child in ax.child_axes if child.get_ylabel() == "−E (MeV)"]
+    assert pairs
+    unit_MeV = hbar_c ** 2 / 469.4591
+    for ax, right in pairs:
+        np.testing.assert_allclose(right.get_ylim(), np.array(ax.get_ylim()) * unit_MeV, rtol=1e-9)
+
+
+def test_condition_map_shows_every_stored_strength_and_distinct_bands():
+    from matplotlib.colors import to_rgb
+
+    from boundscape.plots.style import count_norm
+
+    plasma = Plasma(temperature_eV=10.0)
+    ds = synthetic_cube(strength=[1.0, 2.0, 3.0, 4.0, 5.0, 6.0], l=(0, 1, 2, 3), n_r_max=8, preset=plasma)
+    fig, data = plots.condition_map(ds, plasma)
+    titles = [ax.get_title() for ax in fig.axes if ax.get_visible() and ax.get_title()]
+    assert [t for t in titles if t.startswith("nuclear charge Z = ")] == [f"nuclear charge Z = {z}" for z in range(1, 7)]
+    # 0, 1, 2 and 3 surviving states: clearly different shades (sRGB distance), even with 32 in the map.
+    cmap, norm = count_norm(32)
+    shades = [np.array(to_rgb(cmap(norm(k)))) for k in range(4)]
+    assert min(np.linalg.norm(a - b) for i, a in enumerate(shades) for b in shades[i + 1:]) > 0.1
+
+
+def test_thomas_fermi_map_marks_where_the_gas_is_not_degenerate():
+    # E_F = ħ²k_F²/(2m*) with k_F = (3π²n)^{1/3} (Ashcroft & Mermin, ch. 2): E_F = k_B T at
+    # n = (2m* k_B T)^{3/2}/(3π² ħ³).
+    from scipy import constants as sc
+
+    semi = Semiconductor(effective_mass=0.067, permittivity=12.9, temperature_K=77.0)
+    ds = synthetic_cube(preset=semi)
+    fig, _ = plots.condition_map(ds, semi, {"density_cm3": {"start": 1e10, "stop": 1e20, "num": 50}})
+    k_F = math.sqrt(2 * 0.067 * sc.m_e * sc.k * 77.0) / sc.hbar
+    n_cm3 = k_F ** 3 / (3 * math.pi ** 2) / 1e6
+    spans = [p for ax in fig.axes for p in ax.patches if p.get_gid() == "degenerate"]
+    assert spans
+    for span in spans:
+        x = np.array([span.get_x(), span.get_x() + span.get_width()])
+        assert x.max() == pytest.approx(n_cm3, rel=1e-9) and x.min() == pytest.approx(1e10)
+
+
+def test_family_names_and_the_square_well_radius():
+    ds = synthetic_cube(family="ecsc")
+    assert "exponential-cosine-screened Coulomb" in plots.threshold_map(ds, 0)[0].axes[0].get_title()
+    well = synthetic_cube(family="square_well")
+    fig, _ = plots.threshold_map(well, 0)
+    assert fig.axes[0].get_ylabel() == "radius of the well R (bohr)"
+    assert "square well" in fig.axes[0].get_title()
+    fig, _ = plots.level_fan(well)
+    assert fig.get_supxlabel() == "radius of the well R (bohr)"
+
+
+def test_rejected_cells_are_not_shaded_as_zero_states():
+    from boundscape.engine import INPUT_REJECTED
+
+    status = np.zeros((3, 12, 1), np.int8)
+    status[1, 4, 0] = INPUT_REJECTED
+    _, data = plots.threshold_map(synthetic_cube(status=status), 0)
+    assert np.isnan(data["count"][1, 4]) and np.isfinite(np.delete(data["count"].ravel(), 1 * 12 + 4)).all()
+
+
+@pytest.mark.parametrize("family", ["coulomb", "harmonic"])
+def test_families_without_a_screening_length_render(family, tmp_path):
+    ds = synthetic_cube(family=family, lam=[np.inf], l=(0, 1))
+    ds["num_bound"][:] = -1
+    written = plots.render_all(ds, tmp_path)
+    assert all(path.stat().st_size > 0 for path in written)
+    assert "no screening length" in plots.threshold_map(ds, 0)[0].axes[0].get_title()
+
+
+def test_the_readme_xarray_snippet_labels_itself_legibly(yukawa_cube, tmp_path, monkeypatch):
+    import re
+
+    import matplotlib
+
+    matplotlib.use("Agg")
+    import matplotlib.pyplot as plt
+
+    from boundscape.cube import write_cube
+
+    write_cube(yukawa_cube, tmp_path / "levels.nc")
+    readme = (ROOT / "README.md").read_text()
+    code = re.search(r"```python\n(.*?)```", readme, re.S).group(1)
+    assert "results/demo/levels.nc" in code
+    monkeypatch.chdir(tmp_path)
+    code = code.replace("results/demo/levels.nc", str(tmp_path / "levels.nc")).replace("strength=2", "strength=2.0")
+    exec(compile(code, "README.md", "exec"), {})
+    ax = plt.gcf().axes[0]
+    assert ax.get_ylabel() == "binding energy −E [hartree]"
+    assert ax.get_xlabel() == "screening length [bohr]"
+    assert ax.get_legend().get_title().get_text() == "radial quantum number n_r"
+    plt.close("all")
+
+
+def test_readable_units_follow_the_preset(yukawa_cube):
+    from boundscape.cube import readable
+
+    # The fixture's cube names a plasma preset: eV and nm (CODATA via scipy).
+    shown = readable(yukawa_cube, "preset")
+    assert shown["energy"].attrs["units"] == "eV" and shown["screening_length"].attrs["units"] == "nm"
+    np.testing.assert_allclose(shown["energy"].values, yukawa_cube["energy"].values * pc["Hartree energy in eV"][0],
+                               rtol=1e-14)
+    np.testing.assert_allclose(shown["screening_length"].values, yukawa_cube["screening_length"].values * BOHR * 1e9,
+                               rtol=1e-14)
+    atomic = readable(yukawa_cube)
+    np.testing.assert_array_equal(atomic["binding_energy"].values, -yukawa_cube["energy"].values)
+    assert "units" not in atomic["n_r"].attrs

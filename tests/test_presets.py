@@ -189,3 +189,62 @@ def test_convert_command_table(capsys):
     assert "effective Bohr radius a*" in out and "atomic units: strength" in out
     with pytest.raises(InputError, match="--density must be positive"):
         _convert("plasma", "--density", "-1", "--temperature", "1")
+
+
+def _cube_with(preset, mass=1.0, config_yaml="sweep: unit\n"):
+    # A real cube model (boundscape.cube.build_cube) with one level, read under a preset.
+    from boundscape.cube import build_cube
+
+    shape = (1, 2, 1, 1)
+    levels = {"energy": np.full(shape, -0.5), "energy_error": np.full(shape, 1e-12), "mean_radius": np.full(shape, 1.5),
+              "num_bound": np.ones(shape[:3], np.int32), "status": np.zeros(shape[:3], np.int8), "reasons": []}
+    criticals = {"critical_screening_length": np.full((1, 1, 1), 0.84), "critical_flag": np.zeros((1, 1, 1), np.int8),
+                 "reasons": []}
+    provenance = {"sweep": "unit", "family": "yukawa", "mass": mass, "config_yaml": config_yaml,
+                  "config_sha256": "0" * 64, "version": "0", "git_commit": None, "history": "test"}
+    ds = build_cube({"strength": [1.0], "screening_length": [10.0, 20.0], "l": [0], "n_r_max": 1}, levels, criticals,
+                    provenance=provenance)
+    return add_physical_coordinates(ds, preset)
+
+
+def _all_attrs(ds):
+    return {**ds.attrs, **{f"{name}:{key}": value for name, var in ds.variables.items()
+                           for key, value in var.attrs.items()}}
+
+
+@pytest.mark.parametrize("preset", [Semiconductor(effective_mass=0.067, permittivity=12.9),
+                                    Nuclear(reduced_mass_MeV=469.4591)], ids=["semiconductor", "nuclear"])
+def test_metadata_describes_the_units_stored(preset):
+    ds = _cube_with(preset)
+    attrs = _all_attrs(ds)
+    # Nothing left that claims hartree, bohr or electron masses.
+    for key, value in attrs.items():
+        assert not key.split(":")[-1].startswith(("hartree", "bohr")), key
+        if isinstance(value, str) and key.split(":")[-1] in ("comment", "mass_units", "long_name"):
+            assert "atomic units: energies in hartree" not in value and value != "electron masses", key
+    if isinstance(preset, Semiconductor):
+        # 2Ry* = (μ*/ε_r²) hartree, a* = (ε_r/μ*) a₀ (Yu & Cardona, §4.2): ~10.96 meV and ~10.19 nm for GaAs.
+        energy_eV = 0.067 / 12.9 ** 2 * pc["Hartree energy in eV"][0]
+        length_m = 12.9 / 0.067 * BOHR
+        assert ds.attrs["mass_units"].startswith("mu* = 0.067")
+        assert "charge number" in ds.strength.attrs["long_name"] or "donor" in ds.strength.attrs["long_name"]
+    else:
+        energy_eV = HBAR_C ** 2 / 469.4591 * 1e6
+        length_m = 1e-15
+        assert "charge number" not in ds.strength.attrs["long_name"] and "g^2" in ds.strength.attrs["long_name"]
+    for name in ("energy", "energy_error"):
+        assert ds[name].attrs["energy_unit_in_eV"] == pytest.approx(energy_eV, rel=1e-9)
+        assert float(ds[name].attrs["units"].split()[0]) == pytest.approx(energy_eV * sc.e, rel=1e-9)
+    for name in ("mean_radius", "screening_length", "critical_screening_length"):
+        assert ds[name].attrs["length_unit_in_m"] == pytest.approx(length_m, rel=1e-12)
+    # A ~5 meV donor level read with the cube's own factor is ~5 meV, not ~13 eV.
+    assert ds.attrs["energy_unit_in_eV"] == pytest.approx(energy_eV, rel=1e-9)
+
+
+def test_plasma_strength_is_the_nuclear_charge_and_institution_comes_from_config():
+    ds = _cube_with(Plasma())
+    assert ds.strength.attrs["long_name"] == "nuclear charge Z of the hydrogen-like ion"
+    assert ds.energy.attrs["hartree_in_eV"] == pc["Hartree energy in eV"][0]  # atomic units: still true
+    assert "institution" not in ds.attrs
+    named = _cube_with(None, config_yaml="sweep: unit\ninstitution: Example Plasma Laboratory\n")
+    assert named.attrs["institution"] == "Example Plasma Laboratory"

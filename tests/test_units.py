@@ -91,3 +91,12 @@ def test_bad_effective_parameters():
     with pytest.raises(InputError, match="reduced_mass_MeV"):
         nuclear_units(float("nan"))
     assert quantity_of("MeV") == "energy"
+
+
+def test_udunits_converts_the_hartree_with_an_older_electron_volt():
+    # What the README says beside the cube's units: UDUNITS-2 (through cf-units) turns the
+    # hartree's CODATA 2022 joules into 27.2113744 eV, not CODATA's 27.211386246 eV.
+    cf_units = pytest.importorskip("cf_units")
+    udunits_eV = cf_units.Unit(HARTREE_UDUNITS).convert(1.0, cf_units.Unit("eV"))
+    assert f"{udunits_eV:.9g}" == "27.2113744"
+    assert pc["Hartree energy in eV"][0] == pytest.approx(27.211386246, rel=1e-11)

@@ -2,6 +2,7 @@
 
 Energies stay in hartree and lengths in bohr; the units say so as UDUNITS-2 scaled units
 built from :mod:`scipy.constants` (e.g. ``"5.29177210544e-11 m"``), so no number is converted.
+A preset that reads the cube in other units rewrites every unit attribute (:mod:`.physical`).
 """
 
 from __future__ import annotations
@@ -10,8 +11,10 @@ import math
 from datetime import datetime, timezone
 
 import numpy as np
+import yaml
 
 from ..engine import LEVEL_STATUS, family_info
+from ..labels import FAMILY_NAMES
 from ..physics.units import BOHR_M, BOHR_UDUNITS, HARTREE_EV, HARTREE_J, HARTREE_UDUNITS, udunits_scaled
 from ..sweep.tiles import CRITICAL_FLAGS
 
@@ -83,24 +86,29 @@ def build_cube(axes, levels, criticals, *, provenance):
                      {"long_name": strength_name, "units": strength_units}),
         "screening_length": ("screening_length", np.asarray(axes["screening_length"], np.float64),
                              {"long_name": family_info(family).length_long_name, "units": BOHR_UDUNITS}),
-        "l": ("l", l_values, {"long_name": "orbital angular momentum quantum number", "units": "1"}),
-        "n_r": ("n_r", n_r, {"long_name": "radial quantum number (nodes of u(r) in 0 < r < inf)",
-                             "units": "1"}),
+        "l": ("l", l_values, {"long_name": "angular momentum l", "units": "1"}),
+        "n_r": ("n_r", n_r, {"long_name": "radial quantum number n_r", "units": "1",
+                             "comment": "nodes of u(r) in 0 < r < inf"}),
         "n": (("l", "n_r"), (l_values[:, None] + n_r[None, :] + 1).astype(np.int32),
-              {"long_name": "principal quantum number n = n_r + l + 1", "units": "1"}),
+              {"long_name": "principal quantum number n", "units": "1", "comment": "n = n_r + l + 1"}),
     }
-    energy_attrs = {"units": HARTREE_UDUNITS, "hartree_in_eV": HARTREE_EV, "hartree_in_J": HARTREE_J}
+    # The unit each number is in, as plain factors: a script converts with these, whatever the
+    # preset (a preset that reads the cube in other units rewrites them, see physical.py).
+    energy_attrs = {"units": HARTREE_UDUNITS, "energy_unit_in_J": HARTREE_J, "energy_unit_in_eV": HARTREE_EV,
+                    "hartree_in_eV": HARTREE_EV, "hartree_in_J": HARTREE_J}
+    length_attrs = {"units": BOHR_UDUNITS, "length_unit_in_m": BOHR_M}
+    coords["screening_length"][2].update(length_attrs)
     status = levels["status"].astype(np.int8)
     flagged = int(np.count_nonzero(status))
     data_vars = {
         "energy": (LEVEL_DIMS, levels["energy"], {
-            "long_name": "bound-state energy", **energy_attrs,
-            "comment": "NaN where the state (n_r, l) is not bound, or where status is not ok"}),
+            "long_name": "energy", **energy_attrs,
+            "comment": "energy of the bound state (n_r, l); NaN where it is not bound, or where status is not ok"}),
         "energy_error": (LEVEL_DIMS, levels["energy_error"], {
-            "long_name": "absolute error estimate of the bound-state energy", **energy_attrs}),
+            "long_name": "energy error estimate", **energy_attrs,
+            "comment": "absolute error estimate of the energy"}),
         "mean_radius": (LEVEL_DIMS, levels["mean_radius"], {
-            "long_name": "mean radius <r> of the bound state", "units": BOHR_UDUNITS,
-            "bohr_in_m": BOHR_M}),
+            "long_name": "mean radius <r>", **length_attrs, "bohr_in_m": BOHR_M}),
         "num_bound": (CELL_DIMS, levels["num_bound"].astype(np.int32), {
             "long_name": "number of bound states of this l", "units": "1",
             "comment": "exact count from the nodes of the zero-energy solution; levels with "
@@ -113,10 +121,11 @@ def build_cube(axes, levels, criticals, *, provenance):
             "flagged_cell_count": np.int32(flagged),
             "flagged_cells": _listing(levels["reasons"]) or "none"}),
         "critical_screening_length": (CRITICAL_DIMS, criticals["critical_screening_length"], {
-            "long_name": "screening length below which the state (n_r, l) is not bound",
-            "units": BOHR_UDUNITS, "ancillary_variables": "critical_screening_length_flag",
-            "comment": "from the zero-energy solution by root finding; +inf where never bound; "
-                       "stored for every state, also outside the grid's screening_length range"}),
+            "long_name": "critical screening length",
+            **length_attrs, "ancillary_variables": "critical_screening_length_flag",
+            "comment": "the screening length below which the state (n_r, l) is not bound; from the zero-energy "
+                       "solution by root finding; +inf where never bound; stored for every state, also outside "
+                       "the grid's screening_length range"}),
         "critical_screening_length_flag": (CRITICAL_DIMS, criticals["critical_flag"].astype(np.int8), {
             "long_name": "position of the critical screening length against the grid",
             "flag_values": np.arange(len(CRITICAL_FLAGS), dtype=np.int8),
@@ -125,22 +134,28 @@ def build_cube(axes, levels, criticals, *, provenance):
             "flagged_states": _listing(criticals["reasons"]) or "none"}),
     }
     now = datetime.now(timezone.utc).replace(microsecond=0).isoformat()
+    config = yaml.safe_load(provenance.get("config_yaml") or "") or {}
     attrs = {
         "Conventions": "CF-1.10",
-        "title": f"Bound states of the {family} potential over strength x screening length x l "
-                 f"(sweep {provenance['sweep']})",
-        "institution": "boundscape",
+        "title": f"Bound states of the {FAMILY_NAMES.get(family, family)} potential over strength x screening "
+                 f"length x l (sweep {provenance['sweep']})",
+        # CF: who produced the data. Only the config can say; absent otherwise.
+        **({"institution": config["institution"]} if isinstance(config, dict) and config.get("institution") else {}),
         "source": f"boundscape {provenance['version']} radial engine (bound_levels, "
                   "critical_screening_length)",
         "history": f"{now} {provenance['history']}",
         "references": "units: CODATA values from scipy.constants",
-        "comment": "atomic units: energies in hartree, lengths in bohr, mass in electron masses",
+        "comment": "atomic units: energies in hartree, lengths in bohr, mass in electron masses; each variable's "
+                   "energy_unit_in_J, energy_unit_in_eV or length_unit_in_m gives its unit",
         "boundscape_version": provenance["version"],
         "sweep": provenance["sweep"],
         "family": family,
         "mass": float(provenance["mass"]),
         "mass_units": "electron masses",
         "n_r_max": np.int32(axes["n_r_max"]),
+        "energy_unit_in_J": HARTREE_J,
+        "energy_unit_in_eV": HARTREE_EV,
+        "length_unit_in_m": BOHR_M,
         "hartree_energy_in_J": HARTREE_J,
         "hartree_energy_in_eV": HARTREE_EV,
         "bohr_radius_in_m": BOHR_M,

@@ -59,10 +59,56 @@ def add_physical_coordinates(ds, preset, cube_mass=None):
     out.attrs["preset"] = kind
     out.attrs["preset_energy_unit_J"] = units.energy_J
     out.attrs["preset_length_unit_m"] = units.length_m
-    if units is not ATOMIC:
-        # The numbers are in the preset's units (a*, 2Ry*; b, ħ²/μb²): say so, so the file stays true.
-        lengths = ("screening_length", "mean_radius", "critical_screening_length")
-        for name in lengths + ("energy", "energy_error"):
-            if name in out.variables:
-                out[name].attrs["units"] = units.length_udunits() if name in lengths else units.energy_udunits()
+    _describe_units(out, preset, units, mass)
     return out
+
+
+_ENERGIES = ("energy", "energy_error")
+_LENGTHS = ("screening_length", "mean_radius", "critical_screening_length")
+_ATOMIC_ONLY = ("hartree_in_eV", "hartree_in_J", "bohr_in_m")
+
+
+def _strength_name(preset, ds):
+    if isinstance(preset, Plasma):
+        return "nuclear charge Z of the hydrogen-like ion"
+    if isinstance(preset, Semiconductor):
+        who = "charge number Z of the exciton's Coulomb attraction" if preset.is_exciton else "donor charge number Z"
+        return who if preset.units_choice == "effective" else f"{who} divided by eps_r (true atomic units)"
+    if isinstance(preset, Nuclear):
+        return "engine strength g^2 mu c^2 b/(hbar c)^2 (coordinate coupling gives g^2)"
+    return ds["strength"].attrs.get("long_name", "strength")
+
+
+def _describe_units(out, preset, units, mass):
+    """Every unit attribute says what is stored under the preset: no stale hartree or bohr."""
+    if "strength" in out.coords and out["strength"].attrs.get("units") == "1":
+        out["strength"].attrs["long_name"] = _strength_name(preset, out)
+    if units is ATOMIC:
+        return
+    energy_eV = units.energy_J / sc.electron_volt
+    for name in _ENERGIES + _LENGTHS:
+        if name not in out.variables:
+            continue
+        attrs = out[name].attrs
+        for key in _ATOMIC_ONLY:
+            attrs.pop(key, None)
+        if name in _LENGTHS:
+            attrs.update(units=units.length_udunits(), length_unit_in_m=units.length_m)
+        else:
+            attrs.update(units=units.energy_udunits(), energy_unit_in_J=units.energy_J, energy_unit_in_eV=energy_eV)
+    for key in ("hartree_energy_in_J", "hartree_energy_in_eV", "bohr_radius_in_m"):
+        out.attrs.pop(key, None)
+    out.attrs.update(energy_unit_in_J=units.energy_J, energy_unit_in_eV=energy_eV, length_unit_in_m=units.length_m)
+    if isinstance(preset, Semiconductor):
+        a_nm, e_meV = units.length_m / sc.nano, energy_eV * 1e3
+        out.attrs["comment"] = (f"effective atomic units of the semiconductor preset: energies in 2Ry* = {e_meV:.6g} meV, "
+                                f"lengths in a* = {a_nm:.6g} nm, masses in mu* = {preset.reduced_mass:.6g} electron "
+                                "masses; each variable's energy_unit_in_J, energy_unit_in_eV or length_unit_in_m "
+                                "gives its unit")
+        out.attrs["mass_units"] = f"mu* = {preset.reduced_mass:.6g} electron masses (the mass unit)"
+    elif isinstance(preset, Nuclear):
+        out.attrs["comment"] = (f"nuclear units: energies in (hbar c)^2/(mu c^2 b^2) = {energy_eV / 1e6:.6g} MeV, "
+                                f"lengths in b = {preset.length_fm:g} fm, masses in mu = {preset.reduced_mass_MeV:g} "
+                                "MeV/c^2; each variable's energy_unit_in_J, energy_unit_in_eV or length_unit_in_m "
+                                "gives its unit")
+        out.attrs["mass_units"] = f"mu = {preset.reduced_mass_MeV / mass:g} MeV/c^2 (the mass unit)"

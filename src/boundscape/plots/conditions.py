@@ -11,6 +11,7 @@ import math
 
 import matplotlib
 import matplotlib.lines
+import matplotlib.patches
 import numpy as np
 from matplotlib.figure import Figure
 
@@ -18,7 +19,10 @@ from ..labels import state_label
 from ..physics.presets import Nuclear, Plasma, loss_density, screening_length_at
 from ..physics.units import convert
 from .level_fan import fan_strengths
-from .style import HALO, cell_edges, count_colorbar, count_norm, cube_unit_system
+from .style import HALO, cell_edges, count_colorbar, count_norm, cube_unit_system, family_title
+
+# Panels drawn when the config names no strengths: every stored one up to this many.
+MAX_PANELS = 6
 
 __all__ = ["surviving_levels", "condition_map"]
 
@@ -29,6 +33,10 @@ def surviving_levels(ds, strength, screening_length):
     lc = lc[np.isfinite(lc)]
     lam = np.asarray(screening_length, dtype=float)
     return (lam[..., None] > lc).sum(axis=-1)
+
+
+def _charge(preset, strength):
+    return float(strength) if isinstance(preset, Plasma) else float(preset.donor_charge(strength))
 
 
 def _axis_values(spec, default):
@@ -74,8 +82,10 @@ def condition_map(ds, preset, settings=None):
     n_m3 = convert(density, "cm-3", "m-3")
     lam_m = np.array([screening_length_at(preset, n_m3, t) for t in temperature])  # (T, n)
     lam = lam_m / units.length_m
-    strengths = _axis_values(settings.get("strengths"), list(fan_strengths(ds["strength"].values, 4)))
-    strengths = [ds["strength"].sel(strength=s, method="nearest").item() for s in strengths]
+    stored = ds["strength"].values
+    chosen = settings.get("strengths")
+    strengths = _axis_values(chosen, list(stored if stored.size <= MAX_PANELS else fan_strengths(stored, 4)))
+    strengths = sorted({ds["strength"].sel(strength=s, method="nearest").item() for s in strengths})
     counts = {s: surviving_levels(ds, s, lam) for s in strengths}
     top = max(max(int(c.max()) for c in counts.values()), 1)
     cmap, norm = count_norm(top)
@@ -83,10 +93,11 @@ def condition_map(ds, preset, settings=None):
     nrows = -(-len(strengths) // ncols)
     fig = Figure(figsize=(4.3 * ncols + 1.2, 3.4 * nrows + 0.4), layout="constrained")
     axes = fig.subplots(nrows, ncols, sharex=True, sharey=True, squeeze=False).ravel()
-    what = "ion charge Z" if is_plasma else "donor charge"
+    # A hydrogen-like ion of nuclear charge Z carries charge Z − 1: the strength is the nucleus's.
+    what = "nuclear charge Z" if is_plasma else ("pair charge Z" if preset.is_exciton else "donor charge Z")
     l0 = ds["l"].values[0]
     for ax, s in zip(axes, strengths):
-        charge = s if is_plasma else float(preset.donor_charge(s))
+        charge = _charge(preset, s)
         ax.set(xscale="log", title=f"{what} = {charge:g}", xlim=(density.min(), density.max()))
         if two_d:
             mesh = ax.pcolormesh(cell_edges(density), cell_edges(temperature), counts[s], cmap=cmap, norm=norm, rasterized=True)
@@ -120,6 +131,15 @@ def condition_map(ds, preset, settings=None):
             n_debye = 4 * math.pi / 3 * n_m3[None, :] * lam_m ** 3
             if n_debye.min() < 1 < n_debye.max():
                 ax.contour(density, temperature, n_debye, levels=[1.0], colors="red", linestyles=":", linewidths=1.2)
+        else:
+            # Thomas–Fermi screening needs a degenerate gas (E_F > k_B T), Debye screening a
+            # non-degenerate one: mark where E_F = k_B T, n = (2 m_e* k_B T)^{3/2}/(3π² ħ³).
+            n_deg = convert(preset.degenerate_density(temperature), "m-3", "cm-3")
+            if two_d:
+                ax.plot(n_deg, temperature, ":", color="red", lw=1.2, gid="degenerate")
+            elif density.min() < n_deg[0] < density.max():
+                ax.axvspan(density.min(), n_deg[0], color="0.85", zorder=0, gid="degenerate")
+                ax.axvline(n_deg[0], ls=":", color="red", lw=1.2)
     for ax in axes[len(strengths):]:
         ax.set_visible(False)
     for ax in axes[:len(strengths)]:
@@ -134,5 +154,17 @@ def condition_map(ds, preset, settings=None):
     if is_plasma:
         handles.append(matplotlib.lines.Line2D([], [], color="red", ls=":",
                                                label="N_D = 1 (Debye picture fails to the right)"))
+    elif two_d:
+        handles.append(matplotlib.lines.Line2D([], [], color="red", ls=":",
+                                               label="E_F = k_B T (non-degenerate Debye picture fails to the right)"))
+    else:
+        handles.append(matplotlib.patches.Patch(color="0.85", label=f"E_F < k_B T at {preset.temperature_K:g} K: "
+                                                "not degenerate, Thomas–Fermi fails"))
     fig.legend(handles=handles, loc="outside lower center", fontsize=7, ncols=2)
+    shown = ", ".join(f"{_charge(preset, s):g}" for s in strengths)
+    note = "" if len(strengths) == stored.size else \
+        f" (panels: {shown} of the {stored.size} stored; preset.map.strengths chooses)"
+    where = "electron density and temperature" if is_plasma else ("carrier density and temperature" if two_d else
+                                                                   f"carrier density at {preset.temperature_K:g} K")
+    fig.suptitle(f"{family_title(ds)}: surviving stored states over {where}{note}", fontsize=9)
     return fig, {"density_cm3": density, "temperature": temperature, "screening_length": lam, "count": counts}

@@ -47,11 +47,25 @@ def critical_rows(ds, preset=None):
     return rows
 
 
+# Columns the cube stores, printed with every digit; the others are derived through physical
+# constants and a unit conversion, and carry 13 significant digits (not round-trip noise).
+STORED = ("strength", "critical_screening_length_bohr")
+
+
+def _shown(key, value):
+    if not isinstance(value, float):
+        return value
+    if key in STORED or not math.isfinite(value) or value == 0:
+        return repr(value)
+    return f"{value:.13g}"
+
+
 def write_critical_csv(ds, path, preset=None):
-    """Write ``critical_screening_lengths.csv`` (full float precision; inf where never bound)."""
+    """Write ``critical_screening_lengths.csv`` (inf where never bound): stored values with every
+    digit, derived ones (other units, loss densities, g²) with 13 significant digits."""
     rows = critical_rows(ds, preset)
     with open(path, "w", newline="") as out:
         writer = csv.DictWriter(out, fieldnames=list(rows[0]), lineterminator="\n")
         writer.writeheader()
-        writer.writerows({k: repr(v) if isinstance(v, float) else v for k, v in row.items()} for row in rows)
+        writer.writerows({k: _shown(k, v) for k, v in row.items()} for row in rows)
     return rows

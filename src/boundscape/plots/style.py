@@ -12,11 +12,13 @@ import numpy as np
 from matplotlib import patheffects
 from matplotlib.colors import BoundaryNorm
 
-from ..physics.presets import Nuclear, Semiconductor, cube_units
+from ..labels import FAMILY_NAMES
+from ..physics.presets import Nuclear, Plasma, Semiconductor, cube_units
 from ..physics.units import convert
 
-__all__ = ["HALO", "RC", "cell_edges", "count_norm", "count_colorbar", "value_ticks", "strength_label",
-           "cube_unit_system", "unit_names", "length_unit", "save"]
+__all__ = ["HALO", "RC", "cell_edges", "count_norm", "count_colorbar", "value_ticks", "tidy_log_axis",
+           "strength_label", "strength_values", "family_title", "length_label", "cube_unit_system", "unit_names",
+           "length_unit", "energy_unit", "save"]
 
 HALO = [patheffects.withStroke(linewidth=2.6, foreground="black")]
 PNG_METADATA = {"Software": None}
@@ -33,34 +35,96 @@ def cell_edges(values):
     return np.concatenate([[v[0] ** 2 / mid[0]], mid, [v[-1] ** 2 / mid[-1]]])
 
 
-def count_norm(top):
+# Counts up to this many get a shade each; above it shades cover growing ranges of counts, so
+# that the few-state bands, where levels are being lost, stay far apart in colour.
+EXACT_COUNTS = 6
+MAX_SHADES = 11
+
+
+def count_bins(top):
+    """Lower edges of the count bins: 0, 1, … exactly, then ranges growing geometrically up to ``top``."""
     top = max(int(top), 1)
-    cmap = matplotlib.colormaps["cividis"].resampled(top + 1)
-    return cmap, BoundaryNorm(np.arange(-0.5, top + 1.5), cmap.N)
+    if top < MAX_SHADES:
+        return np.arange(top + 1)
+    upper = np.unique(np.round(np.geomspace(EXACT_COUNTS, top + 1, MAX_SHADES - EXACT_COUNTS + 1)).astype(int))
+    return np.concatenate([np.arange(EXACT_COUNTS), upper[:-1]])
+
+
+def count_norm(top):
+    """Colormap and norm of a count shading: every bin its own, well separated shade."""
+    lows = count_bins(top)
+    cmap = matplotlib.colormaps["cividis"].resampled(lows.size)
+    return cmap, BoundaryNorm(np.append(lows, max(int(top), 1) + 1) - 0.5, cmap.N)
 
 
 def count_colorbar(fig, mesh, ax, top, label, capped=False):
     bar = fig.colorbar(mesh, ax=ax, label=label, pad=0.02)
     bar.solids.set_rasterized(True)  # no hairline seams between the colour blocks in PDF viewers
-    step = max(1, math.ceil((top + 1) / 12))
-    ticks = np.arange(0, top + 1, step)
-    bar.set_ticks(ticks, labels=[f"≥{t}" if capped and t == top else f"{t}" for t in ticks])
+    lows = count_bins(top)
+    highs = np.append(lows[1:] - 1, max(int(top), 1))
+    centres = (lows + highs) / 2
+    labels = [f"{a}" if a == b else f"{a}–{b}" for a, b in zip(lows, highs)]
+    if capped:
+        labels[-1] = f"≥{lows[-1]}"
+    bar.set_ticks(centres, labels=labels)
+    bar.minorticks_off()
     return bar
 
 
-def value_ticks(axis, values, style="{:g}"):
-    # A short log axis reads best with its grid values as plain numbers.
-    if len(values) <= 10:
+def tidy_log_axis(axis, lo, hi):
+    """Log ticks that never collide: under about a decade, plain numbers at 1, 2, 5 × 10^k."""
+    decades = math.log10(hi / lo) if lo > 0 and hi > lo else 0.0
+    if decades < 1.3:
+        subs = (1.0, 2.0, 5.0) if decades > 0.5 else (1.0, 1.5, 2.0, 3.0, 4.0, 5.0, 7.0)
+        axis.set_major_locator(matplotlib.ticker.LogLocator(base=10, subs=subs))
+        axis.set_major_formatter(matplotlib.ticker.FuncFormatter(lambda v, _: f"{v:.3g}"))
+        axis.set_minor_formatter(matplotlib.ticker.NullFormatter())
+
+
+def value_ticks(axis, values, style="{:.3g}", width_fraction=0.09):
+    """Grid values as the ticks of a short log axis, if they are far enough apart to be read;
+    otherwise :func:`tidy_log_axis`."""
+    values = np.asarray(values, dtype=float)
+    logs = np.log10(values)
+    span = logs.max() - logs.min()
+    if 1 < len(values) <= 10 and span > 0 and np.diff(np.sort(logs)).min() > width_fraction * span:
         axis.set_ticks(values, labels=[style.format(v) for v in values])
         axis.set_minor_locator(matplotlib.ticker.NullLocator())
+    else:
+        tidy_log_axis(axis, values.min(), values.max())
 
 
-def strength_label(ds):
+def family_title(ds):
+    family = ds.attrs.get("family", "")
+    return f"{FAMILY_NAMES.get(family, family)} potential"
+
+
+def strength_values(ds, preset):
+    """The strengths as plotted: g² in MeV fm under the nuclear preset, the cube's axis otherwise."""
+    if isinstance(preset, Nuclear):
+        return np.asarray(preset.coupling_MeV_fm(ds["strength"].values, float(ds.attrs.get("mass", 1.0))))
+    return ds["strength"].values
+
+
+def strength_label(ds, preset=None):
+    if isinstance(preset, Nuclear):
+        return "coupling g² (MeV fm)"
+    if isinstance(preset, Plasma):
+        return "nuclear charge Z of the ion"
+    if isinstance(preset, Semiconductor):
+        return "charge number Z of the pair" if preset.is_exciton else "donor charge Z"
     units = ds["strength"].attrs.get("units", "1")
     name = ds["strength"].attrs.get("long_name", "strength")
     if units == "1":
         return "strength Z" if name.startswith("charge number") else f"strength ({name})"
     return f"{name} (hartree)" if units.endswith(" J") else f"{name} ({units})"
+
+
+def length_label(ds, preset=None):
+    """'screening length λ (bohr)', or the family's own name for the length (a well's radius)."""
+    name = ds["screening_length"].attrs.get("long_name", "screening length")
+    symbol = "λ" if name == "screening length" else "R"
+    return f"{name} {symbol} ({unit_names(preset)[0]})"
 
 
 def cube_unit_system(ds, preset):
@@ -72,8 +136,18 @@ def unit_names(preset):
     if isinstance(preset, Semiconductor) and preset.units_choice == "effective":
         return "effective Bohr radii a*", "effective hartrees 2Ry*"
     if isinstance(preset, Nuclear):
+        if preset.length_fm == 1.0:
+            return "fm", "(ħc)²/(μc² fm²)"
         return f"b = {preset.length_fm:g} fm", "(ħc)²/(μc² b²)"
     return "bohr", "hartree"
+
+
+def energy_unit(ds, preset):
+    """(unit name, factor from the cube's energy unit) of the preset's energies: eV, meV, MeV."""
+    if preset is None:
+        return None, None
+    name, joules = {Plasma: ("eV", 1.0), Semiconductor: ("meV", 1e-3), Nuclear: ("MeV", 1e6)}[type(preset)]
+    return name, cube_unit_system(ds, preset).energy_J / convert(joules, "eV", "J")
 
 
 def length_unit(ds, preset):

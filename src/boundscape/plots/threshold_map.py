@@ -6,10 +6,10 @@ from __future__ import annotations
 import numpy as np
 from matplotlib.figure import Figure
 
+from ..engine import INPUT_REJECTED
 from ..labels import state_label
-from ..physics.presets import Nuclear
-from .style import (HALO, cell_edges, count_colorbar, count_norm, length_unit, strength_label, unit_names,
-                    value_ticks)
+from .style import (HALO, cell_edges, count_colorbar, count_norm, family_title, length_label, length_unit,
+                    strength_label, strength_values, tidy_log_axis, unit_names, value_ticks)
 
 __all__ = ["threshold_map"]
 
@@ -24,10 +24,14 @@ def threshold_map(ds, l, preset=None):
         ``count`` (strength × screening length, from ``num_bound``) and ``curves``, mapping a
         state name to the (strength, λ_c) arrays drawn (the finite stored critical lengths).
     """
-    z = ds["strength"].values
+    z = strength_values(ds, preset)
     lam = ds["screening_length"].values
+    if not np.isfinite(lam).all():
+        return _count_against_strength(ds, l, preset)
     count = ds["num_bound"].sel(l=l).values.astype(float)
     status = ds["status"].sel(l=l).values
+    # A cell whose input the engine rejected has no count at all: left blank, not "0 states".
+    count[status == INPUT_REJECTED] = np.nan
     # The count comes from the zero-energy solution, so it stands in flagged cells too (marked ×).
     # The engine's −1 means infinitely many (Coulomb tail, confining well): the top shade.
     # Shades stop at n_r_max ("n_r_max or more"): above that no loss curve is stored to explain them.
@@ -40,9 +44,10 @@ def threshold_map(ds, l, preset=None):
     mesh = ax.pcolormesh(cell_edges(z), cell_edges(lam), np.ma.masked_invalid(np.minimum(count, top)).T,
                          cmap=cmap, norm=norm, rasterized=True)
     ax.set(xscale="log", yscale="log", xlim=cell_edges(z)[[0, -1]], ylim=cell_edges(lam)[[0, -1]],
-           xlabel=strength_label(ds), ylabel=f"screening length λ ({unit_names(preset)[0]})",
-           title=f"{ds.attrs.get('family', '')} potential, l = {l}: bound states and where each is lost")
+           xlabel=strength_label(ds, preset), ylabel=length_label(ds, preset),
+           title=f"{family_title(ds)}, l = {l}: bound states and where each is lost")
     value_ticks(ax.xaxis, z)
+    tidy_log_axis(ax.yaxis, lam.min(), lam.max())
     count_colorbar(fig, mesh, ax, top, f"number of bound states with l = {l}", capped=True)
     if (status != 0).any():
         bad = np.argwhere(status != 0)
@@ -71,15 +76,30 @@ def threshold_map(ds, l, preset=None):
         ax.text(0.5, 0.5, f"no stored state with l = {l} is ever bound", transform=ax.transAxes,
                 ha="center", va="center", color="white", path_effects=HALO)
     unit, factor = length_unit(ds, preset)
-    if unit:
-        ax.secondary_yaxis("right", functions=(lambda y: y * factor, lambda y: y / factor)).set_ylabel(
-            f"screening length ({unit})")
-    if isinstance(preset, Nuclear):
-        g2 = float(preset.coupling_MeV_fm(1.0, float(ds.attrs.get("mass", 1.0))))
-        coupling_axis = ax.secondary_xaxis("top", functions=(lambda x: x * g2, lambda x: x / g2))
-        coupling_axis.set_xlabel("coupling g² (MeV fm)")
-        value_ticks(coupling_axis.xaxis, z * g2, "{:.3g}")
+    if unit and not (unit == unit_names(preset)[0] and factor == 1.0):  # not the left axis again
+        right = ax.secondary_yaxis("right", functions=(lambda y: y * factor, lambda y: y / factor))
+        right.set_ylabel(f"{ds['screening_length'].attrs.get('long_name', 'screening length')} ({unit})")
+        tidy_log_axis(right.yaxis, lam.min() * factor, lam.max() * factor)
     return fig, {"count": count, "curves": curves}
+
+
+def _count_against_strength(ds, l, preset):
+    """A family without a screening length: the count against strength alone, one line."""
+    z = strength_values(ds, preset)
+    count = ds["num_bound"].sel(l=l).values[:, 0].astype(float)
+    fig = Figure(figsize=(6.4, 3.2), layout="constrained")
+    ax = fig.add_subplot()
+    ax.set(xscale="log", xlabel=strength_label(ds, preset), ylabel=f"bound states with l = {l}",
+           title=f"{family_title(ds)}, l = {l}: no screening length")
+    if (count < 0).all():
+        ax.text(0.5, 0.5, "infinitely many bound states at every strength\n(Coulomb tail or confining potential)",
+                transform=ax.transAxes, ha="center", va="center")
+        ax.set_xlim(cell_edges(z)[[0, -1]])
+        ax.set_yticks([])
+    else:
+        ax.step(z, np.where(count < 0, np.nan, count), where="mid", color="black")
+    value_ticks(ax.xaxis, z)
+    return fig, {"count": count[:, None], "curves": {}}
 
 
 def label_spot(x, y, ylim, fraction):

@@ -1,0 +1,81 @@
+"""A cube made for reading on screen: units people read ("hartree", "meV", "nm") instead of the
+file's UDUNITS-2 scaled units, so that xarray's own plots and prints label themselves legibly.
+
+The file keeps UDUNITS-valid units (``"4.3597447222060e-18 J"``); those are exact but not meant
+to be read.  :func:`readable` returns a copy for display only: its ``units`` strings such as
+``"hartree"`` are names, not UDUNITS, so it is not meant to be written back to NetCDF.
+"""
+
+from __future__ import annotations
+
+from scipy import constants as sc
+
+from ..errors import InputError
+from ..physics.presets import Nuclear, Plasma, Semiconductor
+from ..physics.units import BOHR_M, HARTREE_J
+from .physical import preset_of
+
+__all__ = ["readable", "DISPLAY_UNITS"]
+
+_ENERGIES = ("energy", "energy_error", "binding_energy")
+_LENGTHS = ("screening_length", "mean_radius", "critical_screening_length")
+
+# (energy unit, its size in J, length unit, its size in m) of each reading.
+DISPLAY_UNITS = {
+    "atomic": ("hartree", HARTREE_J, "bohr", BOHR_M),
+    Plasma: ("eV", sc.electron_volt, "nm", sc.nano),
+    Semiconductor: ("meV", sc.milli * sc.electron_volt, "nm", sc.nano),
+    Nuclear: ("MeV", sc.mega * sc.electron_volt, "fm", sc.femto),
+}
+
+
+def readable(ds, units: str = "atomic"):
+    """A copy of a cube with readable units and long names, for plots and prints.
+
+    Parameters
+    ----------
+    ds : xarray.Dataset
+        A cube (:func:`boundscape.cube.open_cube`).
+    units : {"atomic", "preset"}
+        ``"atomic"``: energies in hartree, lengths in bohr.  ``"preset"``: the units of the
+        cube's preset (plasma: eV and nm; semiconductor: meV and nm; nuclear: MeV and fm).
+
+    Returns
+    -------
+    xarray.Dataset
+        Numbers converted to those units with the cube's own ``energy_unit_in_J`` and
+        ``length_unit_in_m``; ``units`` set to the unit's name; a ``binding_energy`` (−E) added;
+        dimensionless quantities lose their ``units = "1"`` so labels carry no "[1]".
+    """
+    if units == "atomic":
+        e_name, e_J, l_name, l_m = DISPLAY_UNITS["atomic"]
+    elif units == "preset":
+        preset, _ = preset_of(ds)
+        if preset is None:
+            raise InputError("this cube names no preset; use units='atomic'")
+        e_name, e_J, l_name, l_m = DISPLAY_UNITS[type(preset)]
+    else:
+        raise InputError(f"units must be 'atomic' or 'preset', got {units!r}")
+    out = ds.copy()
+    if "energy" in out:
+        out["binding_energy"] = -out["energy"]
+        out["binding_energy"].attrs = {**ds["energy"].attrs, "long_name": "binding energy −E"}
+    for name in list(out.variables):
+        attrs = dict(out[name].attrs)
+        if name in _ENERGIES and "energy_unit_in_J" in attrs:
+            factor, shown = attrs["energy_unit_in_J"] / e_J, e_name
+        elif name in _LENGTHS and "length_unit_in_m" in attrs:
+            factor, shown = attrs["length_unit_in_m"] / l_m, l_name
+        else:
+            if attrs.get("units") == "1":
+                attrs.pop("units")
+                out[name].attrs = attrs
+            continue
+        keep = {k: v for k, v in attrs.items() if k in ("long_name", "comment")}
+        converted = out[name] * factor if factor != 1.0 else out[name]
+        if name in out.coords:
+            out = out.assign_coords({name: (out[name].dims, converted.values, {**keep, "units": shown})})
+        else:
+            out[name] = converted
+            out[name].attrs = {**keep, "units": shown}
+    return out
