@@ -234,6 +234,7 @@ def test_workflow_renders_figures_and_builds_the_report(tmp_path):
     run = subprocess.run(snakemake + ["--report", str(out / "report.html")], cwd=tmp_path, capture_output=True,
                          text=True, timeout=300)
     assert run.returncode == 0, run.stderr[-2000:]
+    assert "Could not detect mimetype" not in run.stdout + run.stderr
     html = (out / "report.html").read_text()
     for text in ("Threshold maps", "Level fans", "Physical conditions", "threshold_map_l0.png", "run_summary.txt",
                  "sweep_config.yaml", "the exact number of bound states of this l"):

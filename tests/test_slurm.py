@@ -5,6 +5,9 @@ own copy of the workflow: once with the local profile, once with the SLURM profi
 submitting every job with sbatch to the single-node cluster that
 tests/cluster/start_slurm.sh starts), then compares the two cubes.
 
+Runs against whatever single-node cluster answers here, whatever its partitions are called:
+the profile names none, so jobs go to the cluster's default partition (when the cluster has
+no default, the test names its first partition on the command line, as a user would).
 Skips, with the reason, only when no SLURM cluster answers here.
 """
 
@@ -20,8 +23,6 @@ import numpy as np
 import pytest
 import xarray as xr
 import yaml
-
-pytestmark = pytest.mark.cluster
 
 REPO = Path(__file__).resolve().parents[1]
 # Every SLURM job costs some 10 s of Snakemake start-up on the node, so the
@@ -53,6 +54,22 @@ def slurm_unavailable_reason() -> str | None:
     if not usable:
         return f"no SLURM node can take jobs (sinfo: {probe.stdout.strip() or 'no nodes'}); {hint}"
     return None
+
+
+def partitions() -> tuple[list[str], str | None]:
+    """The cluster's partitions that are up, and its default one (sinfo marks it with *), if any."""
+    out = subprocess.run(["sinfo", "--noheader", "--format=%P %a"], capture_output=True, text=True, timeout=30,
+                         stdin=subprocess.DEVNULL).stdout
+    names, default = [], None
+    for line in out.splitlines():
+        name, _, state = line.strip().partition(" ")
+        if state.strip() != "up":
+            continue
+        if name.endswith("*"):
+            name = name[:-1]
+            default = name
+        names.append(name)
+    return names, default
 
 
 def demo_config() -> dict:
@@ -89,7 +106,7 @@ def code_snapshot(dest: Path) -> Path:
     return dest / "src"
 
 
-def run_sweep(workdir: Path, profile: str, code: Path) -> str:
+def run_sweep(workdir: Path, profile: str, code: Path, extra=()) -> str:
     """Run the demo's cube in workdir with one of the project's profiles; return its log."""
     env = {k: v for k, v in os.environ.items() if not k.startswith("SLURM_")}
     # sbatch passes the environment on, so the jobs import the same frozen code.
@@ -100,6 +117,7 @@ def run_sweep(workdir: Path, profile: str, code: Path) -> str:
         "--snakefile", str(workdir / "workflow" / "Snakefile"),
         "--directory", str(workdir),
         "--profile", str(workdir / "workflow" / "profiles" / profile),
+        *extra,
         "--configfile", str(workdir / "cluster_check.yaml"),
     ]
     try:
@@ -110,8 +128,15 @@ def run_sweep(workdir: Path, profile: str, code: Path) -> str:
     except subprocess.TimeoutExpired as exc:
         pytest.fail(f"{profile} run did not finish in {RUN_TIMEOUT_S} s:\n{_tail(exc.stderr)}")
     log = proc.stdout + proc.stderr
-    assert proc.returncode == 0, f"{profile} run failed (exit {proc.returncode}):\n{_tail(log)}"
+    assert proc.returncode == 0, f"{profile} run failed (exit {proc.returncode}):\n{_essentials(log)}"
     return log
+
+
+def _essentials(log: str) -> str:
+    """The lines that say why a run failed (sbatch and job errors), then the last few lines."""
+    lines = log.splitlines()
+    why = [line for line in lines if any(w in line.lower() for w in ("error", "invalid", "sbatch:", "failed"))]
+    return "\n".join(why[:15] + ["..."] + lines[-15:])
 
 
 def same_attrs(a: dict, b: dict) -> bool:
@@ -130,18 +155,34 @@ def cluster():
     reason = slurm_unavailable_reason()
     if reason:
         pytest.skip(reason)
+    names, default = partitions()
+    if not names:
+        pytest.skip("the SLURM cluster has no partition that is up")
+    return names, default
 
 
+def test_slurm_profile_names_no_partition():
+    # A partition name is the cluster's own: the profile must not assume one.
+    profile = yaml.safe_load((REPO / "workflow" / "profiles" / "slurm" / "config.yaml").read_text())
+    assert "slurm_partition" not in profile.get("default-resources", {})
+    assert not any("partition" in str(key) for key in profile)
+
+
+@pytest.mark.cluster
 def test_slurm_profile_gives_the_local_cube(cluster, tmp_path):
+    names, default = cluster
     code = code_snapshot(tmp_path / "code")
     local_dir = workflow_copy(tmp_path / "local")
     slurm_dir = workflow_copy(tmp_path / "slurm")
+    # With a default partition the profile runs as it is; without one, name the first.
+    extra = () if default else ("--default-resources", f"slurm_partition={names[0]}", "runtime=30", "mem_mb=2000",
+                                "cpus_per_task=1")
 
     local_log = run_sweep(local_dir, "local", code)
-    slurm_log = run_sweep(slurm_dir, "slurm", code)
+    slurm_log = run_sweep(slurm_dir, "slurm", code, extra)
 
     # The SLURM run really went through sbatch, not quietly through local jobs.
-    assert "submitted with SLURM jobid" in slurm_log, _tail(slurm_log)
+    assert "submitted with SLURM jobid" in slurm_log, _essentials(slurm_log)
     assert "submitted with SLURM jobid" not in local_log
 
     cube = cube_path()

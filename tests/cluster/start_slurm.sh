@@ -7,7 +7,9 @@
 # the SLURM daemons. Stop everything with tests/cluster/stop_slurm.sh.
 #
 # Environment (all optional):
-#   SLURM_PARTITION   partition name            [main]
+#   SLURM_PARTITION   partition name            [bscheck]
+# The partition's name is one no profile assumes, so that a profile naming a
+# partition fails here as it would on any other cluster.
 #   SLURM_WAIT        seconds to wait per step  [60]
 set -euo pipefail
 
@@ -15,7 +17,7 @@ here="$(cd "$(dirname "${BASH_SOURCE[0]}")" && pwd)"
 # shellcheck source=tests/cluster/common.sh
 source "$here/common.sh"
 
-partition="${SLURM_PARTITION:-main}"
+partition="${SLURM_PARTITION:-bscheck}"
 wait_s="${SLURM_WAIT:-60}"
 
 [[ $EUID -eq 0 ]] || die "must run as root (munged and slurmd are started as system daemons)"

@@ -21,6 +21,11 @@ case "$where" in
     *) say "FAILED: boundscape imported from $where, not the venv"; exit 1 ;;
 esac
 
+# PEP 561: the package declares its inline types with py.typed, which the wheel must ship.
+(cd "$work" && python -c 'import importlib.resources as r; assert r.files("boundscape").joinpath("py.typed").is_file()') \
+    || { say "FAILED: the installed package has no py.typed"; exit 1; }
+say "py.typed shipped"
+
 mkdir "$work/run"
 cat >"$work/run/tiny.yaml" <<'YAML'
 sweep: wheel

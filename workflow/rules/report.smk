@@ -1,5 +1,12 @@
 # `snakemake --report results/<sweep>/report.html`: the figures with their captions, the run's
 # summary, the configuration and Snakemake's own runtime statistics.
+import mimetypes
+
+# Python's mimetypes knows no .yaml: as text/plain the report shows the config inline instead
+# of warning that it had to guess.
+mimetypes.add_type("text/plain", ".yaml")
+
+
 report: "../report/workflow.rst"
 
 
