@@ -221,6 +221,20 @@ def test_a_preset_that_does_not_fit_fails_before_any_job(tmp_path, preset, words
     assert "Traceback" not in run.stderr
 
 
+@pytest.mark.parametrize("preset", [
+    {"kind": "semiconductor", "units": "atomic", "effective_mass": 0.067, "permittivity": 12.9},
+    {"kind": "plasma", "reduced_mass": 0.9994557},
+])
+def test_a_preset_that_gives_the_mass_passes_the_dry_run(tmp_path, preset):
+    # The mass comes from the preset alone (no potential.mass): planned, not refused.
+    config = json.loads(json.dumps({**TINY, "preset": preset}))
+    config["potential"].pop("mass")
+    _workflow_copy(tmp_path, config)
+    run = subprocess.run([sys.executable, "-m", "snakemake", "-n"], cwd=tmp_path, capture_output=True, text=True,
+                         timeout=120)
+    assert run.returncode == 0, run.stderr[-1000:]
+
+
 @pytest.mark.workflow
 def test_workflow_renders_figures_and_builds_the_report(tmp_path):
     _workflow_copy(tmp_path, TINY)

@@ -26,7 +26,7 @@ try:
     PLAN = plan(config)
     # A preset that does not fit the sweep fails before any job starts, naming the key.
     PRESET = _presets.from_config(config.get("preset"))
-    _presets.cube_units(PRESET, float(config["potential"].get("mass", 1.0)))
+    _presets.cube_units(PRESET, PLAN.engine["mass"])  # the mass the plan settled on (a preset may give it)
 except InputError as exc:
     sys.exit(f"boundscape: {exc}")
 

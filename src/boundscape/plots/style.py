@@ -100,9 +100,12 @@ def family_title(ds):
 
 
 def strength_values(ds, preset):
-    """The strengths as plotted: g² in MeV fm under the nuclear preset, the cube's axis otherwise."""
+    """The strengths as plotted: g² in MeV fm under the nuclear preset, the donor charge under a
+    semiconductor preset (Z, also where the cube holds Z/ε_r), the cube's axis otherwise."""
     if isinstance(preset, Nuclear):
         return np.asarray(preset.coupling_MeV_fm(ds["strength"].values, float(ds.attrs.get("mass", 1.0))))
+    if isinstance(preset, Semiconductor):
+        return np.asarray(preset.donor_charge(ds["strength"].values))
     return ds["strength"].values
 
 
