@@ -12,7 +12,7 @@ import json
 import math
 import sys
 
-from . import convert
+from . import convert, resonances
 from ..engine import FAMILIES, bound_levels, critical_screening_length, potential_from_spec
 from ..errors import ConvergenceError, InputError
 from ..labels import orbital_letter, state_label
@@ -78,6 +78,7 @@ def build_parser() -> argparse.ArgumentParser:
     cr.set_defaults(func=run_critical)
 
     convert.register(sub)
+    resonances.register(sub, potential_args=_potential_args, make_potential=_make_potential, describe=_describe, title=_title, parse_l=parse_l_values)
     return parser
 
 

@@ -44,6 +44,7 @@ __all__ = ["riccati_hankel_log_derivative", "outgoing_log_derivative", "analytic
 # The tail left out beyond the cut changes the exterior log-derivative by at most this, relative
 # (a first-order, Born, estimate of the neglected part; common practice, no source).
 CUT_TOLERANCE = 1e-15
+ROUNDOFF = 1e-16  # relative round-off of one carried solution (double precision)
 
 
 def riccati_hankel_log_derivative(l: int, z):
@@ -111,15 +112,20 @@ def exterior_cut(v_abs, t, r_abs, mass: float, k: complex, angle: float, t_ref: 
     |r| = ``r_abs``.  The outgoing wave's squared modulus changes along the path as
     e^{−σ(t'−t)}, σ = 2 Im(k e^{iθ}); the neglected tail changes the exterior log-derivative by
 
-        δ(t) ≈ ∫_t^∞ 2μ|V| e^{−σ(t'−t)} dt' / max(|k|, 1/|r|)        (first Born term).
+        δ(t) ≈ ∫_t^∞ 2μ|V| min(|r'|, 1/|k|) e^{−σ(t'−t)} dt'        (first Born term:
+                                                                    the free Green's function),
 
-    Returns (index of the first sample beyond which δ stays below ``tolerance``, or None if
-    it never does on the sample; the amplification e^{max(0, −σ)(t_cut − t_ref)} with which
-    round-off grows in a solution carried between ``t_ref`` (default the first sample) and the
-    cut, where the wanted solution is the recessive one)."""
+    Where the outgoing wave grows along the path (σ < 0: a virtual state, or a resonance on the
+    real axis) W is its small recessive partner's coefficient, so both that error and round-off
+    ε are amplified, relative to W, by G(t) = e^{−σ(t − t_ref)} (t_ref, default the first sample:
+    where the potential stops holding the solution).  The cut is the first sample with
+    δ ≤ ``tolerance`` if G is 1 there, else the one that minimises (max(δ, tolerance) + ε)·G.
+
+    Returns (index of the cut, or None if the tail is not negligible anywhere on the sample;
+    G there; (δ + ε)·G there, an estimate of the relative error the exterior leaves in W)."""
     sigma = 2.0 * (k * complex(math.cos(angle), math.sin(angle))).imag
     t = np.asarray(t, dtype=float)
-    f = 2.0 * mass * np.asarray(v_abs, dtype=float)
+    f = 2.0 * mass * np.asarray(v_abs, dtype=float) * np.minimum(np.asarray(r_abs), 1.0 / abs(k) if k else np.inf)
     # ∫_{t_j}^{∞} f e^{−σ(t'−t_j)} dt' for every j: a reversed cumulative sum on the sample
     # (trapezoid weights), summed in logarithms so that e^{±σt} cannot overflow; the last
     # sample must already be negligible
@@ -131,14 +137,12 @@ def exterior_cut(v_abs, t, r_abs, mass: float, k: complex, angle: float, t_ref: 
     # potential decays no faster than the outgoing wave grows (an e^{−βr} tail with 2|Im k| > β)
     end = t >= t[0] + 0.9 * (t[-1] - t[0])
     if not np.max(terms[end]) < np.max(terms) - 20.0:
-        return None, math.inf
-    delta = tail / np.maximum(abs(k), 1.0 / np.asarray(r_abs))
-    bad = np.nonzero(~(delta <= tolerance))[0]
-    if bad.size == 0:
-        j = 0
-    elif bad[-1] >= len(t) - 2:
-        return None, math.inf
-    else:
-        j = int(bad[-1] + 1)
-    growth = max(0.0, -sigma) * max(t[j] - (t[0] if t_ref is None else t_ref), 0.0)
-    return j, math.exp(min(growth, 700.0))
+        return None, math.inf, math.inf
+    delta = tail
+    log_growth = np.minimum(max(0.0, -sigma) * np.maximum(t - (t[0] if t_ref is None else t_ref), 0.0), 700.0)
+    growth = np.exp(log_growth)
+    cost = (np.maximum(delta, tolerance) + ROUNDOFF) * growth
+    j = int(np.argmin(cost[:-1]))
+    if not delta[j] < 1e-3:
+        return None, math.inf, math.inf
+    return j, float(growth[j]), float((delta[j] + ROUNDOFF) * growth[j])

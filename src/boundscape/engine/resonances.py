@@ -62,7 +62,6 @@ from .potential import Potential, potential_from_spec
 from .siegert import Channel
 from .status import DISSOLVED, NOT_CONVERGED, OK
 from .tracking import Trajectory, momentum, refine, trace
-from .zero_energy import count_bound
 
 __all__ = ["Resonances", "resonances", "DEFAULT_LOST", "RTOL"]
 
@@ -157,6 +156,8 @@ def resonances(pot: Potential, l: int, n_r_max: int | None = None, *, rtol: floa
     angle = None if contour_angle is None else float(contour_angle)
     if angle is not None and not 0.0 <= angle < 90.0:
         raise InputError(f"contour_angle must be in [0, 90) degrees, got {contour_angle!r}")
+    from . import count_bound  # the engine's exact count, by its public name (not a module's internals)
+
     num_bound = count_bound(pot, l)
     stop = num_bound + DEFAULT_LOST if n_r_max is None else n_r_max
     scaled = _dimensionless(pot) if matching_radius is None else None
@@ -206,10 +207,11 @@ def _at_cell(ch: Channel, traj: Trajectory | None, g: float, rtol: float, scale:
     # threshold is the same point of the pole's path
     guess = traj.guess(s) if traj.s else (0.0 if l == 0 else 0j)
     try:
-        pole, err, _ = refine(ch, g, guess, s, abs(traj.g_c - traj.g_c_coarse), rtol, scale)
+        pole, err, path = refine(ch, g, guess, s, abs(traj.g_c - traj.g_c_coarse), rtol, scale)
+        err = _error(l, pole, err, path)
     except ValueError as exc:
         g_d = traj.dissolution()
-        before = "" if g_d is None else f"it dissolved (Γ = E_r) at {_where(g_d, g, lam)}, then "
+        before = "" if g_d is None else f"it dissolved (Γ = E_r) where {_where(g_d, g, lam)}, then "
         return _row(math.nan, math.nan, g_c, DISSOLVED, f"out of reach: {before}{exc}")
     except ArithmeticError as exc:
         return _row(math.nan, math.nan, g_c, NOT_CONVERGED, str(exc))
@@ -220,22 +222,38 @@ def _at_cell(ch: Channel, traj: Trajectory | None, g: float, rtol: float, scale:
         return _row(pole, err, g_c, NOT_CONVERGED, f"error estimate {abs(err):.2e} exceeds rtol {rtol:g}·|pole|")
     if l >= 1 and -2.0 * pole.imag > pole.real:
         g_d = traj.dissolution()
-        where = "" if g_d is None else f"; Γ = E_r at {_where(g_d, g, lam)}"
+        where = "" if g_d is None else f"; Γ = E_r where {_where(g_d, g, lam)}"
         return _row(pole, err, g_c, DISSOLVED, f"Γ exceeds E_r{where}")
     return _row(pole, err, g_c, OK, "")
+
+
+def _error(l: int, pole, err, path):
+    """The error estimate of a pole: Richardson's, per part where the exterior is real and the
+    parts are carried apart (with a factor 2 of margin on Γ/2, whose estimate was found close to
+    its true error just past threshold against the exact square well); |δE| for both parts on
+    a complex ray, whose arithmetic mixes them; and at least what the exterior cut leaves."""
+    floor = path.cut_error * abs(pole)
+    if l == 0:
+        return max(abs(err), floor)
+    if path.angle == 0.0:
+        return complex(max(abs(err.real), floor), max(2 * abs(err.imag), floor))
+    both = max(abs(err), floor)
+    return complex(both, both)
 
 
 def _where(g_x: float, g: float, lam: float | None) -> str:
     """A coupling of a trajectory as a screening length (one-scale families: λ ∝ g at fixed Z)
     or as a factor on the cell's potential."""
-    return f"V scaled by {g_x / g:.6g}" if lam is None else f"λ = {lam * g_x / g:.6g} bohr"
+    return f"V is scaled by {g_x / g:.6g}" if lam is None else f"λ = {lam * g_x / g:.6g} bohr"
 
 
 def _out_of_reach(traj: Trajectory, g: float, lam: float | None) -> str:
     g_d = traj.dissolution()
-    before = "" if g_d is None else f"it dissolved (Γ = E_r) at {_where(g_d, g, lam)}, then "
-    end = traj.end or "it is past the end of its trajectory"
-    return f"out of reach: {before}{end}"
+    before = "" if g_d is None else f"it dissolved (Γ = E_r) where {_where(g_d, g, lam)}, then "
+    if not traj.end:
+        return f"out of reach: {before}it is past the end of its trajectory"
+    at = "" if not math.isfinite(traj.end_at) else f" (where {_where(traj.end_at, g, lam)})"
+    return f"out of reach: {before}{traj.end}{at}"
 
 
 def _dimensionless(pot: Potential):
@@ -283,10 +301,8 @@ def _assemble(pot: Potential, l: int, rows, num_bound: int) -> Resonances:
             e = complex(pole) * e_unit
             energy[i], width[i] = e.real, -2.0 * e.imag
             k[i] = momentum(l, pot.mass, e)
-            # |δE| bounds both parts: discretisation errors mix them, so Γ's error is not
-            # smaller than E_r's however narrow the resonance
-            err = abs(complex(row["error"])) * e_unit
-            err_e[i], err_w[i] = err, 2.0 * err
+            err = complex(row["error"]) * e_unit
+            err_e[i], err_w[i] = abs(err.real), 2.0 * abs(err.imag)
     return Resonances(
         l=l, kind=kind, n_r=np.array([row["n_r"] for row in rows], dtype=int), energy=energy, width=width,
         kappa=kappa, momentum=k, energy_error=err_e, width_error=err_w, critical_scaling=g_c,

@@ -40,7 +40,7 @@ from .outgoing import CUT_TOLERANCE, analytic_potential, exterior_cut, is_compac
 from .potential import Potential
 from .propagation import RadialMap, Segment, chain, chain_inward, richardson, running, step_matrices
 
-__all__ = ["Channel", "Path", "FACTORS", "RAY_ANGLE", "NARROW_GROWTH", "MAX_GROWTH"]
+__all__ = ["Channel", "Path", "FACTORS", "RAY_ANGLE", "NARROW_GROWTH", "MAX_CUT_ERROR"]
 
 ALPHA = 0.5  # the map's logarithmic weight: thin near the origin, where u ~ r^{l+1} does not oscillate
 STEP = 0.4  # coarse step in x; a step spans at most ~STEP radians of the local phase
@@ -49,7 +49,7 @@ FACTORS = (2, 4, 8)  # refinements of the coarse grid for Richardson extrapolati
 # grid itself, STEP, is for following a pole and bracketing; it is not yet asymptotic)
 RAY_ANGLE = math.radians(30.0)  # the exterior ray's angle, where the tail has a continuation
 NARROW_GROWTH = 10.0  # below this round-off amplification the real axis serves (narrow poles)
-MAX_GROWTH = 1e5  # beyond it a pole is out of reach of the real-axis exterior
+MAX_CUT_ERROR = 1e-6  # a pole whose exterior cut leaves more relative error in W is out of reach
 SAMPLES = 400  # of the potential along a path, to place the cut, the well and the map
 
 
@@ -66,6 +66,7 @@ class Path:
     r_match: float
     r_end: complex
     growth: float  # round-off amplification of the outgoing solution along the outer segment
+    cut_error: float = 0.0  # relative error the exterior cut leaves in W (tail left out, round-off)
     _points: dict = field(default_factory=dict, repr=False)
 
     @property
@@ -209,7 +210,7 @@ class Channel:
             t, v = self._real_sample(g, R)
         else:
             t, v = self._real_sample(g, self._far())
-            j, _ = exterior_cut(np.abs(g * v), t, t, self.mass, 0.0, 0.0, tolerance=self.tail_tolerance)
+            j, _, _ = exterior_cut(np.abs(g * v), t, t, self.mass, 0.0, 0.0, tolerance=self.tail_tolerance)
             R = float(t[j if j is not None else -1])
         rmap = self._map(g, 0.0, [(t[t <= R], v[t <= R])])
         return Path(self, g, rmap, [self._segment(rmap, r0, R)], None, R, R, 1.0)
@@ -239,22 +240,26 @@ class Channel:
         if l == 0:
             # no barrier: carry the regular solution to the cut; the outgoing wave grows past the
             # well like e^{|κ|r} for a virtual state, which the amplification measures
-            t, v = self._real_sample(g, far)
+            t, v = self._real_sample(g, 4.0 * far)
             kappa = abs(k)
             free = np.nonzero(2 * mass * g * np.abs(v) > kappa * kappa)[0]
             t_ref = float(t[free[-1]]) if free.size else float(t[0])
-            j, growth = exterior_cut(np.abs(g * v), t, t, mass, k, 0.0, t_ref=t_ref, tolerance=self.tail_tolerance)
+            j, growth, cut_error = exterior_cut(np.abs(g * v), t, t, mass, k, 0.0, t_ref=t_ref,
+                                                tolerance=self.tail_tolerance)
             if j is None:
                 raise ValueError("the potential's tail decays no faster than the outgoing wave grows "
                                  "(past the branch point of an exponential tail, κ = half its decay rate)")
+            if cut_error > MAX_CUT_ERROR:
+                raise ValueError(f"the virtual state is too deep for the potential's tail: cutting it leaves a "
+                                 f"relative error {cut_error:.1e} (the wave grows by {growth:.1e} across it)")
             R = float(t[j])
             rmap = self._map(g, k, [(t[: j + 1], v[: j + 1])])
-            return Path(self, g, rmap, [self._segment(rmap, r0, R)], None, R, R, growth)
+            return Path(self, g, rmap, [self._segment(rmap, r0, R)], None, R, R, growth, cut_error)
         r_m = self.matching_radius if self.matching_radius is not None else self.well_bottom(g)
         if r_m is None:
             raise ValueError("the effective potential has no well left to hold the state")
         t_in, v_in = self._real_sample(g, r_m)
-        real = self._outer_on(g, k, r_m, far, 0.0)
+        real = self._outer_on(g, k, r_m, 4.0 * max(far, r_m), 0.0)
         angle = self.angle
         if angle is None:
             angle = 0.0 if (real is not None and real[2] <= NARROW_GROWTH) or self.v_complex is None else RAY_ANGLE
@@ -262,36 +267,38 @@ class Channel:
             outer = real
             if outer is None:
                 raise ValueError("the potential's tail is not negligible anywhere on the real axis for this pole")
-            if outer[2] > MAX_GROWTH:
-                raise ValueError(f"the pole is too broad for the real-axis exterior (round-off grows by {outer[2]:.1e})")
         else:
             if self.v_complex is None:
                 raise ValueError("a complex exterior needs an analytic potential; this one has none")
             if cmath.phase(k) + angle < math.radians(5.0):
                 raise ValueError(f"the pole (arg k = {math.degrees(cmath.phase(k)):.1f}°) is past the reach of the "
                                  f"{math.degrees(angle):.0f}° exterior ray")
-            outer = self._outer_on(g, k, r_m, r_m + 4.0 * far, angle)
+            outer = self._outer_on(g, k, r_m, r_m + 4.0 * max(far, r_m), angle)
             if outer is None:
                 raise ValueError(f"the potential does not fall off along the {math.degrees(angle):.0f}° exterior ray")
-        t_end, samples, growth = outer
+        t_end, samples, growth, cut_error = outer
+        if cut_error > MAX_CUT_ERROR:
+            raise ValueError(f"the pole is too broad for this exterior: cutting the tail leaves a relative error "
+                             f"{cut_error:.1e}")
         if abs((k * cmath.exp(1j * angle)).imag) * (t_end - r_m) > 300.0:
             # the step products would hold e^{±|Im k|·length}: beyond ~e^{300} they overflow
             raise ValueError("the pole is too far from the real axis for an exterior this long")
         rmap = self._map(g, k, [(t_in, v_in), samples])
         turn = cmath.exp(1j * angle)
         return Path(self, g, rmap, [self._segment(rmap, r0, r_m)], self._segment(rmap, r_m, t_end, angle), r_m,
-                    r_m + (t_end - r_m) * turn, growth)
+                    r_m + (t_end - r_m) * turn, growth, cut_error)
 
     def _outer_on(self, g, k, r_m, t_hi, angle):
-        """(t at the cut, (|r|, V) samples up to it, amplification) on a ray, or None."""
+        """(t at the cut, (|r|, V) samples up to it, amplification, cut error) on a ray, or None."""
         t = r_m + np.geomspace(1e-3 * r_m, t_hi - r_m, SAMPLES)
         t = np.concatenate([[r_m], t])
         r = r_m + (t - r_m) * cmath.exp(1j * angle) if angle else t
         v = self.v(r)
-        j, growth = exterior_cut(np.abs(g * v), t, np.abs(r), self.mass, k, angle, tolerance=self.tail_tolerance)
+        j, growth, cut_error = exterior_cut(np.abs(g * v), t, np.abs(r), self.mass, k, angle,
+                                            tolerance=self.tail_tolerance)
         if j is None:
             return None
-        return float(t[max(j, 1)]), (np.abs(r[: j + 1]), v[: j + 1]), growth
+        return float(t[max(j, 1)]), (np.abs(r[: j + 1]), v[: j + 1]), growth, cut_error
 
     # --- counts and thresholds -----------------------------------------------------------------
     def count(self, g: float) -> int:

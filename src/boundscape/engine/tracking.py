@@ -53,6 +53,7 @@ class Trajectory:
     s: list = field(default_factory=list)
     pole: list = field(default_factory=list)
     end: str = ""  # why it stopped before the coupling asked for ("" if it got there)
+    end_at: float = math.nan  # the coupling at which it stopped, if it stopped early
 
     @property
     def g_end(self) -> float:
@@ -133,7 +134,7 @@ def solve(channel: Channel, g: float, guess, factor: int = 1, path=None, scale: 
             x1 = guess * (1.0 + 1e-7) + (1e-9 * scale if guess == 0 else 0.0)
         with warnings.catch_warnings():  # a stalled secant is reported through info.converged
             warnings.simplefilter("ignore", RuntimeWarning)
-            root, info = newton(f, guess, x1=x1, tol=1e-300, rtol=1e-15, maxiter=40, full_output=True, disp=False)
+            root, _info = newton(f, guess, x1=x1, tol=1e-300, rtol=1e-15, maxiter=40, full_output=True, disp=False)
         # a residual test, not info.converged: scipy's secant reports a stall where W is
         # exactly zero at two iterates, which is a root
         if not np.isfinite(root) or not _is_root(f, root):
@@ -149,9 +150,9 @@ def solve(channel: Channel, g: float, guess, factor: int = 1, path=None, scale: 
 def _is_root(f, z) -> bool:
     """Whether f vanishes at z against its own change nearby (the secant method can also stop
     where its steps stall, e.g. at a minimum of |f| left by two merged roots)."""
-    dz = 1e-6 * abs(z) if z != 0 else 1e-12
+    dz = 1e-4 * abs(z) if z != 0 else 1e-12
     here = abs(f(z))
-    return here <= 1e-3 * abs(f(z + dz) - f(z)) or here == 0.0
+    return here <= 1e-2 * abs(f(z + dz) - f(z)) or here == 0.0
 
 
 def trace(channel: Channel, n_r: int, g_stop: float, g_start: float = 1.0, scale: float = 1.0) -> Trajectory | None:
@@ -161,7 +162,7 @@ def trace(channel: Channel, n_r: int, g_stop: float, g_start: float = 1.0, scale
     error of its threshold); ``scale`` is a typical energy, for starting values."""
     g_c = channel.threshold(n_r, g_start)
     if not math.isfinite(g_c):
-        return Trajectory(channel.l, g_c, g_c, end="the state is not bound at any coupling up to 1e9")
+        return Trajectory(channel.l, g_c, g_c, end="the state is not bound however strong the potential")
     g_c_coarse = _coarse_threshold(channel, g_c)
     traj = Trajectory(channel.l, g_c, g_c_coarse)
     s_stop = g_c_coarse - g_stop
@@ -174,6 +175,7 @@ def trace(channel: Channel, n_r: int, g_stop: float, g_start: float = 1.0, scale
     s = min(FIRST_STEP * g_c_coarse, s_target)
     ratio = MAX_RATIO
     slope = None
+    reach, reach_at = "", math.nan  # why (and where) the last step tried was out of reach
     while True:
         hist_s, hist_p = [0.0] + traj.s, [p_prev * 0] + traj.pole
         try:
@@ -186,18 +188,19 @@ def trace(channel: Channel, n_r: int, g_stop: float, g_start: float = 1.0, scale
                     pred = s * slope
             pole, _ = solve(channel, g_c_coarse - s, pred, scale=scale)
             ok = _accept(l, pole, pred, p_prev)
-        except ValueError as exc:
-            traj.end = f"{exc} (at g/g_c = {(g_c_coarse - s) / g_c:.6g})"
-            return traj
+        except ValueError as exc:  # out of reach there: a shorter step may still reach
+            reach, reach_at = str(exc), g_c_coarse - s
+            ok = False
         except ArithmeticError:
             ok = False
         if ok:
+            reach = ""
             traj.s.append(s)
             traj.pole.append(pole)
             s_prev, p_prev = s, pole
             if s >= s_target:
                 if s_target < s_stop:
-                    traj.end = f"followed down to {LOWEST_COUPLING:g}·g_c"
+                    traj.end, traj.end_at = f"followed down to {LOWEST_COUPLING:g}·g_c", g_c_coarse - s
                 return traj
             s = min(s_prev * ratio, s_target) if ratio > 1 else s_target
             ratio = min(ratio * 1.25, MAX_RATIO)
@@ -206,18 +209,20 @@ def trace(channel: Channel, n_r: int, g_stop: float, g_start: float = 1.0, scale
         if s_prev == 0.0:
             s = s / 4.0
             if s < 1e-9 * g_c_coarse:
-                traj.end = "the pole could not be started from its threshold"
+                traj.end, traj.end_at = "the pole could not be started from its threshold", g_c_coarse
                 return traj
             continue
+        if ratio < MIN_RATIO and reach:
+            traj.end, traj.end_at = reach, reach_at
+            return traj
         if ratio < MIN_RATIO:
-            where = f"g/g_c = {(g_c_coarse - s_prev) / g_c:.6g}"
+            traj.end_at = g_c_coarse - s_prev
             if l == 0 and any(_no_real_root_near(channel, g_c_coarse - s_try, p_prev)
                               for s_try in (s, s_prev + 0.02 * (s_prev + s))):
-                traj.end = (f"the virtual state met a second virtual pole near κ_v = {-p_prev:.6g} (at {where}) "
-                            "and the pair left the imaginary axis")
+                traj.end = "the virtual state met a second virtual pole and the pair left the imaginary axis"
             else:
                 kind = "virtual state" if l == 0 else "resonance"
-                traj.end = f"the {kind} could not be followed past {where} (pole {_show(l, p_prev)})"
+                traj.end = f"the {kind} could not be followed further"
             return traj
         s = min(s_prev * ratio, s_target)
 
@@ -231,10 +236,6 @@ def _no_real_root_near(channel: Channel, g: float, kappa: float) -> bool:
     except (ValueError, ArithmeticError):
         return False
     return bool(np.all(values > 0) or np.all(values < 0))
-
-
-def _show(l, pole):
-    return f"κ = {pole:.6g}" if l == 0 else f"E = {pole.real:.6g} {pole.imag:+.6g}i"
 
 
 def _accept(l, pole, pred, prev):
