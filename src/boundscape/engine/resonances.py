@@ -218,8 +218,9 @@ def _at_cell(ch: Channel, traj: Trajectory | None, g: float, rtol: float, scale:
     if abs(pole - guess) > 0.2 * abs(guess) + 1e-9 * scale:
         return _row(pole, err, g_c, NOT_CONVERGED, f"the refined pole moved from the tracked {guess:.6g} to {pole:.6g}")
     floor = ATOL * (scale if l >= 1 else math.sqrt(2.0 * ch.mass * scale))
-    if not abs(err) <= max(rtol * abs(pole), floor):
-        return _row(pole, err, g_c, NOT_CONVERGED, f"error estimate {abs(err):.2e} exceeds rtol {rtol:g}·|pole|")
+    worst = max(abs(complex(err).real), abs(complex(err).imag))  # of E_r and Γ/2 (or κ)
+    if not worst <= max(rtol * abs(pole), floor):
+        return _row(pole, err, g_c, NOT_CONVERGED, f"error estimate {worst:.2e} exceeds rtol {rtol:g}·|pole|")
     if l >= 1 and -2.0 * pole.imag > pole.real:
         g_d = traj.dissolution()
         where = "" if g_d is None else f"; Γ = E_r where {_where(g_d, g, lam)}"
