@@ -323,3 +323,26 @@ def test_a_cell_does_not_depend_on_the_cells_before_it():
         bs.resonances(bs.potential("yukawa", 3.0, lam), 1, n_r_max=2)
     here = bs.resonances(bs.potential("yukawa", 2.0, 2.2), 1, n_r_max=2)
     assert json.dumps([here.energy.tolist(), here.width.tolist()]) == json.dumps(fresh)
+
+
+@pytest.mark.parametrize("family, l, n_r", [("yukawa", 1, 0), ("ecsc", 2, 0), ("hulthen", 1, 1)])
+def test_dissolution_length_is_where_the_width_reaches_the_energy(family, l, n_r):
+    # the definition itself, checked on resonances computed either side of it
+    lam_d = bs.dissolution_screening_length(family, 2.0, l, n_r)
+    assert lam_d < bs.critical_screening_length(family, 2.0, l, n_r)
+    above, below = (bs.resonances(bs.potential(family, 2.0, lam_d * f), l, n_r_max=n_r + 1) for f in (1 + 1e-6, 1 - 1e-6))
+    assert above.status[-1] == OK and above.width[-1] < above.energy[-1]
+    assert below.status[-1] == DISSOLVED and below.width[-1] > below.energy[-1]
+    assert abs(above.width[-1] / above.energy[-1] - 1) < 1e-4
+    assert f"λ = {lam_d:.6g} bohr" in below.reason[-1]
+    with pytest.raises(bs.InputError):
+        bs.dissolution_screening_length(family, 2.0, 0, n_r)
+    with pytest.raises(bs.InputError):
+        bs.dissolution_screening_length("square_well", 2.0, l, n_r)
+
+
+def test_known_bound_count_is_taken():
+    pot = bs.potential("yukawa", 1.0, 4.3)
+    levels = bs.bound_levels(pot, 0)
+    a, b = bs.resonances(pot, 0, num_bound=levels.num_bound), bs.resonances(pot, 0)
+    assert a.n_r.tolist() == b.n_r.tolist() and np.array_equal(a.kappa, b.kappa, equal_nan=True)

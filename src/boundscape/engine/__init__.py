@@ -10,7 +10,7 @@ from .critical import critical_screening_length, critical_strength
 from .families import FAMILIES, Family, family_info
 from .levels import BoundLevels, bound_levels
 from .potential import Potential, potential, potential_from_spec
-from .resonances import Resonances, resonances
+from .resonances import Resonances, dissolution_screening_length, resonances
 from .status import DISSOLVED, INPUT_REJECTED, LEVEL_STATUS, NOT_CONVERGED, OK, RESONANCE_STATUS
 from .tables import Table, load_table
 from .zero_energy import count_bound, zero_energy_solution
@@ -19,6 +19,6 @@ __all__ = [
     "FAMILIES", "Family", "family_info", "Potential", "potential", "potential_from_spec", "Table", "load_table",
     "BoundLevels", "bound_levels", "count_bound", "zero_energy_solution",
     "critical_screening_length", "critical_strength",
-    "Resonances", "resonances",
+    "Resonances", "resonances", "dissolution_screening_length",
     "LEVEL_STATUS", "OK", "NOT_CONVERGED", "INPUT_REJECTED", "RESONANCE_STATUS", "DISSOLVED",
 ]

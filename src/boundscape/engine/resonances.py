@@ -48,6 +48,7 @@ Nucl. Phys. 11, 499 (1959).
 
 from __future__ import annotations
 
+import functools
 import math
 from dataclasses import dataclass, field
 from functools import lru_cache
@@ -63,7 +64,7 @@ from .siegert import Channel
 from .status import DISSOLVED, NOT_CONVERGED, OK
 from .tracking import Trajectory, momentum, refine, trace
 
-__all__ = ["Resonances", "resonances", "DEFAULT_LOST", "RTOL"]
+__all__ = ["Resonances", "resonances", "dissolution_screening_length", "DEFAULT_LOST", "RTOL"]
 
 DEFAULT_LOST = 4  # states followed past the bound ones when n_r_max is not given
 RTOL = 1e-9  # relative tolerance on each pole
@@ -106,8 +107,8 @@ class Resonances:
         return [state_label(int(n), self.l) for n in self.n]
 
 
-def resonances(pot: Potential, l: int, n_r_max: int | None = None, *, rtol: float = RTOL,
-               contour_angle: float | None = None, matching_radius: float | None = None,
+def resonances(pot: Potential, l: int, n_r_max: int | None = None, *, num_bound: int | None = None,
+               rtol: float = RTOL, contour_angle: float | None = None, matching_radius: float | None = None,
                tail_tolerance: float = CUT_TOLERANCE) -> Resonances:
     """Every state n_r ≥ num_bound (up to n_r_max − 1) that ``pot`` no longer binds, continued
     past its threshold: the shape resonance E_r − iΓ/2 (l ≥ 1) or the virtual state k = −iκ_v
@@ -122,6 +123,9 @@ def resonances(pot: Potential, l: int, n_r_max: int | None = None, *, rtol: floa
     n_r_max : int, optional
         States n_r < n_r_max (the convention of :func:`boundscape.bound_levels`); default the
         ``DEFAULT_LOST`` states after the bound ones.  Bound states are never listed.
+    num_bound : int, optional
+        The number of bound states of this l, if known already (``bound_levels(...).num_bound``):
+        saves counting them again.  Default: :func:`boundscape.count_bound`.
     rtol : float
         Relative tolerance on each pole; a pole whose error estimate exceeds it gets status
         ``not_converged``.
@@ -156,27 +160,32 @@ def resonances(pot: Potential, l: int, n_r_max: int | None = None, *, rtol: floa
     angle = None if contour_angle is None else float(contour_angle)
     if angle is not None and not 0.0 <= angle < 90.0:
         raise InputError(f"contour_angle must be in [0, 90) degrees, got {contour_angle!r}")
-    from . import count_bound  # the engine's exact count, by its public name (not a module's internals)
+    if num_bound is None:
+        from . import count_bound  # the engine's exact count, by its public name (not a module's internals)
 
-    num_bound = count_bound(pot, l)
+        num_bound = count_bound(pot, l)
+    num_bound = quantum_number(num_bound, "num_bound")
     stop = num_bound + DEFAULT_LOST if n_r_max is None else n_r_max
     scaled = _dimensionless(pot) if matching_radius is None else None
     rows = []
     for n_r in range(num_bound, max(stop, num_bound)):
         if scaled is not None:
             family, g_cell, length = scaled
-            traj = _universal_trajectory(family, l, n_r, angle, tail_tolerance)
             base = _universal_potential(family)
         else:
             g_cell, length, base = 1.0, 1.0, pot
-            traj = None
         ch = Channel(base, l, angle=None if angle is None else math.radians(angle),
                      matching_radius=None if matching_radius is None else matching_radius / length,
                      tail_tolerance=tail_tolerance)
         try:
-            if traj is None:
+            if scaled is not None:
+                traj = _universal_trajectory(family, l, n_r, angle, tail_tolerance)
+            else:
                 traj = trace(ch, n_r, g_stop=g_cell, g_start=g_cell, scale=base.energy_scale)
-            rows.append(_at_cell(ch, traj, g_cell, rtol, base.energy_scale, length if scaled is not None else None))
+            dissolution = (functools.partial(_universal_dissolution, scaled[0], l, n_r) if scaled is not None
+                           and angle is None and tail_tolerance == CUT_TOLERANCE else None)
+            rows.append(_at_cell(ch, traj, g_cell, rtol, base.energy_scale, length if scaled is not None else None,
+                                 dissolution))
         except (ConvergenceError, ArithmeticError, ValueError) as exc:
             rows.append(_row(math.nan, math.nan, math.nan, NOT_CONVERGED, f"the solver failed: {exc}"))
         rows[-1]["n_r"] = n_r
@@ -191,9 +200,11 @@ def _row(pole, error, g_c, status, reason):
     return {"pole": pole, "error": error, "g_c": g_c, "status": status, "reason": reason}
 
 
-def _at_cell(ch: Channel, traj: Trajectory | None, g: float, rtol: float, scale: float, lam: float | None):
+def _at_cell(ch: Channel, traj: Trajectory | None, g: float, rtol: float, scale: float, lam: float | None,
+             dissolution=None):
     """The pole of one state at coupling g, read from its trajectory and refined there;
-    ``lam`` is the cell's screening length for a one-scale family (None otherwise)."""
+    ``lam`` is the cell's screening length for a one-scale family (None otherwise);
+    ``dissolution()`` gives the refined coupling at which Γ = E_r, where that is cached."""
     l = ch.l
     if traj is None:  # bound on the coarse grid: within discretisation error of its threshold
         return _row(0.0 if l == 0 else 0j, 0.0, g, OK, "at threshold (within the solver's accuracy)")
@@ -201,8 +212,12 @@ def _at_cell(ch: Channel, traj: Trajectory | None, g: float, rtol: float, scale:
     s = g_c - g
     if s <= 0:
         return _row(0.0 if l == 0 else 0j, 0.0, g_c, OK, "at threshold (within the solver's accuracy)")
+    def g_dissolved():
+        g_d = traj.dissolution()
+        return dissolution() if (g_d is not None and dissolution is not None) else g_d
+
     if g < traj.g_end * (1 - 1e-12) or (traj.end and not traj.s):
-        return _row(math.nan, math.nan, g_c, DISSOLVED, _out_of_reach(traj, g, lam))
+        return _row(math.nan, math.nan, g_c, DISSOLVED, _out_of_reach(traj, g, lam, g_dissolved()))
     # the trajectory's s counts from its own (coarse) threshold: the same distance from
     # threshold is the same point of the pole's path
     guess = traj.guess(s) if traj.s else (0.0 if l == 0 else 0j)
@@ -210,7 +225,7 @@ def _at_cell(ch: Channel, traj: Trajectory | None, g: float, rtol: float, scale:
         pole, err, path = refine(ch, g, guess, s, abs(traj.g_c - traj.g_c_coarse), rtol, scale)
         err = _error(l, pole, err, path)
     except ValueError as exc:
-        g_d = traj.dissolution()
+        g_d = g_dissolved()
         before = "" if g_d is None else f"it dissolved (Γ = E_r) where {_where(g_d, g, lam)}, then "
         return _row(math.nan, math.nan, g_c, DISSOLVED, f"out of reach: {before}{exc}")
     except ArithmeticError as exc:
@@ -222,7 +237,7 @@ def _at_cell(ch: Channel, traj: Trajectory | None, g: float, rtol: float, scale:
     if not worst <= max(rtol * abs(pole), floor):
         return _row(pole, err, g_c, NOT_CONVERGED, f"error estimate {worst:.2e} exceeds rtol {rtol:g}·|pole|")
     if l >= 1 and -2.0 * pole.imag > pole.real:
-        g_d = traj.dissolution()
+        g_d = g_dissolved()
         where = "" if g_d is None else f"; Γ = E_r where {_where(g_d, g, lam)}"
         return _row(pole, err, g_c, DISSOLVED, f"Γ exceeds E_r{where}")
     return _row(pole, err, g_c, OK, "")
@@ -248,8 +263,7 @@ def _where(g_x: float, g: float, lam: float | None) -> str:
     return f"V is scaled by {g_x / g:.6g}" if lam is None else f"λ = {lam * g_x / g:.6g} bohr"
 
 
-def _out_of_reach(traj: Trajectory, g: float, lam: float | None) -> str:
-    g_d = traj.dissolution()
+def _out_of_reach(traj: Trajectory, g: float, lam: float | None, g_d: float | None) -> str:
     before = "" if g_d is None else f"it dissolved (Γ = E_r) where {_where(g_d, g, lam)}, then "
     if not traj.end:
         return f"out of reach: {before}it is past the end of its trajectory"
@@ -309,3 +323,47 @@ def _assemble(pot: Potential, l: int, rows, num_bound: int) -> Resonances:
         kappa=kappa, momentum=k, energy_error=err_e, width_error=err_w, critical_scaling=g_c,
         status=np.array([row["status"] for row in rows], dtype=np.int8), reason=[row["reason"] for row in rows],
         num_bound=num_bound)
+
+
+def dissolution_screening_length(family: str, strength: float, l: int, n_r: int, mass: float = 1.0) -> float:
+    """The screening length λ_d (bohr) below which the resonance (n_r, l) has Γ > E_r.
+
+    Between λ_d and λ_c the state lives on as a shape resonance narrower than its energy; λ_d is
+    the root of Γ − E_r along the state's trajectory (``scipy.optimize.brentq`` on refined poles,
+    bracketed by the trajectory's points).  One-scale families only (λ_d ∝ 1/(Zμ), like λ_c).
+
+    Returns
+    -------
+    float
+        λ_d in bohr; NaN if the pole leaves reach before Γ reaches E_r.
+    """
+    l = quantum_number(l)
+    n_r = quantum_number(n_r, "n_r")
+    if l == 0:
+        raise InputError("l = 0 states become virtual states, which have no width: no dissolution length")
+    pot = potential_from_spec({"family": family, "mass": mass}, strength, 1.0)  # validates the parameters
+    if _dimensionless(pot) is None:
+        raise InputError(f"dissolution lengths are computed for one-scale families (V = Z f(r/λ)/r), not {family!r}")
+    return _universal_dissolution(family, l, n_r) / (pot.strength * pot.mass)
+
+
+@lru_cache(maxsize=1024)
+def _universal_dissolution(family: str, l: int, n_r: int) -> float:
+    from scipy.optimize import brentq
+
+    traj = _universal_trajectory(family, l, n_r, None, CUT_TOLERANCE)
+    if traj is None or traj.dissolution() is None:
+        return math.nan
+    base = _universal_potential(family)
+    ch = Channel(base, l)
+    ratio = [(-2.0 * p.imag) / p.real for p in traj.pole]
+    j = next(i for i in range(1, len(ratio)) if ratio[i - 1] <= 1.0 < ratio[i])
+    shift = abs(traj.g_c - traj.g_c_coarse)
+
+    def excess(g):  # Γ − E_r of the refined pole at coupling g
+        s = traj.g_c - g
+        pole, _, _ = refine(ch, g, traj.guess(s), s, shift, RTOL, base.energy_scale)
+        return -2.0 * pole.imag - pole.real
+
+    g_hi, g_lo = traj.g_c - traj.s[j - 1], traj.g_c - traj.s[j]
+    return brentq(excess, g_lo, g_hi, xtol=1e-13 * g_hi, rtol=1e-13)

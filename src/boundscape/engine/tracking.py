@@ -57,7 +57,7 @@ class Trajectory:
 
     @property
     def g_end(self) -> float:
-        return self.g_c_coarse - (self.s[-1] if self.s else 0.0)
+        return self.g_c - (self.s[-1] if self.s else 0.0)  # s is a distance from threshold (see guess)
 
     def guess(self, s: float):
         """The pole at distance s from threshold, interpolated (a start for :func:`refine`)."""
