@@ -216,7 +216,7 @@ def _at_cell(ch: Channel, traj: Trajectory | None, g: float, rtol: float, scale:
         g_d = traj.dissolution()
         return dissolution() if (g_d is not None and dissolution is not None) else g_d
 
-    if g < traj.g_end * (1 - 1e-12) or (traj.end and not traj.s):
+    if traj.end and (not traj.s or g < traj.g_end * (1 - 1e-12)):  # it stopped short of this cell
         return _row(math.nan, math.nan, g_c, DISSOLVED, _out_of_reach(traj, g, lam, g_dissolved()))
     # the trajectory's s counts from its own (coarse) threshold: the same distance from
     # threshold is the same point of the pole's path
