@@ -48,7 +48,6 @@ Nucl. Phys. 11, 499 (1959).
 
 from __future__ import annotations
 
-import functools
 import math
 from dataclasses import dataclass, field
 from functools import lru_cache
@@ -68,10 +67,11 @@ __all__ = ["Resonances", "resonances", "dissolution_screening_length", "DEFAULT_
 
 DEFAULT_LOST = 4  # states followed past the bound ones when n_r_max is not given
 RTOL = 1e-9  # relative tolerance on each pole
-# ... and an absolute floor, relative to the potential's energy scale (κ: its momentum scale):
-# just past threshold a pole inherits the error of the threshold itself, ~1e-12·g_c·dE/dg, however
-# small E_r is (common practice, no source: bound levels near threshold behave alike)
-ATOL = 1e-12
+# ... and an absolute floor, relative to the potential's energy scale (κ: its momentum scale).
+# Just past threshold a pole is as accurate as the threshold itself, not better relative to E_r:
+# against the exact Hulthén virtual states κ_v = ε/2 the error stays ~4e-16 for ε = 1e-4..1e-9,
+# and against the exact square well E_r's stays below 1e-14·V0.  No error is reported below it.
+ATOL = 1e-14
 
 
 @dataclass
@@ -80,7 +80,7 @@ class Resonances:
 
     ``energy`` is E_r of a resonance or E_v = −κ_v²/2μ of a virtual state (on the unphysical
     sheet); ``width`` is Γ (NaN for a virtual state); ``kappa`` is κ_v (NaN for a
-    resonance); ``momentum`` is the pole's k (E = k²/2μ); ``critical_scaling`` is g_c, the
+    resonance); each has its error estimate; ``momentum`` is the pole's k (E = k²/2μ); ``critical_scaling`` is g_c, the
     factor by which V must be scaled for the state to be bound at E = 0 (λ_c/λ for the
     one-scale families)."""
 
@@ -93,6 +93,7 @@ class Resonances:
     momentum: np.ndarray
     energy_error: np.ndarray
     width_error: np.ndarray
+    kappa_error: np.ndarray
     critical_scaling: np.ndarray
     status: np.ndarray
     reason: list = field(default_factory=list)
@@ -182,10 +183,7 @@ def resonances(pot: Potential, l: int, n_r_max: int | None = None, *, num_bound:
                 traj = _universal_trajectory(family, l, n_r, angle, tail_tolerance)
             else:
                 traj = trace(ch, n_r, g_stop=g_cell, g_start=g_cell, scale=base.energy_scale)
-            dissolution = (functools.partial(_universal_dissolution, scaled[0], l, n_r) if scaled is not None
-                           and angle is None and tail_tolerance == CUT_TOLERANCE else None)
-            rows.append(_at_cell(ch, traj, g_cell, rtol, base.energy_scale, length if scaled is not None else None,
-                                 dissolution))
+            rows.append(_at_cell(ch, traj, g_cell, rtol, base.energy_scale, length if scaled is not None else None))
         except (ConvergenceError, ArithmeticError, ValueError) as exc:
             rows.append(_row(math.nan, math.nan, math.nan, NOT_CONVERGED, f"the solver failed: {exc}"))
         rows[-1]["n_r"] = n_r
@@ -200,11 +198,9 @@ def _row(pole, error, g_c, status, reason):
     return {"pole": pole, "error": error, "g_c": g_c, "status": status, "reason": reason}
 
 
-def _at_cell(ch: Channel, traj: Trajectory | None, g: float, rtol: float, scale: float, lam: float | None,
-             dissolution=None):
+def _at_cell(ch: Channel, traj: Trajectory | None, g: float, rtol: float, scale: float, lam: float | None):
     """The pole of one state at coupling g, read from its trajectory and refined there;
-    ``lam`` is the cell's screening length for a one-scale family (None otherwise);
-    ``dissolution()`` gives the refined coupling at which Γ = E_r, where that is cached."""
+    ``lam`` is the cell's screening length for a one-scale family (None otherwise)."""
     l = ch.l
     if traj is None:  # bound on the coarse grid: within discretisation error of its threshold
         return _row(0.0 if l == 0 else 0j, 0.0, g, OK, "at threshold (within the solver's accuracy)")
@@ -212,18 +208,18 @@ def _at_cell(ch: Channel, traj: Trajectory | None, g: float, rtol: float, scale:
     s = g_c - g
     if s <= 0:
         return _row(0.0 if l == 0 else 0j, 0.0, g_c, OK, "at threshold (within the solver's accuracy)")
-    def g_dissolved():
-        g_d = traj.dissolution()
-        return dissolution() if (g_d is not None and dissolution is not None) else g_d
+    def g_dissolved():  # where Γ = E_r, from the trajectory (coarse grid): for the reason
+        return traj.dissolution()
 
     if traj.end and (not traj.s or g < traj.g_end * (1 - 1e-12)):  # it stopped short of this cell
         return _row(math.nan, math.nan, g_c, DISSOLVED, _out_of_reach(traj, g, lam, g_dissolved()))
     # the trajectory's s counts from its own (coarse) threshold: the same distance from
     # threshold is the same point of the pole's path
     guess = traj.guess(s) if traj.s else (0.0 if l == 0 else 0j)
+    scale_pole = scale if l >= 1 else math.sqrt(2.0 * ch.mass * scale)  # an energy, or for κ a momentum
     try:
         pole, err, path = refine(ch, g, guess, s, abs(traj.g_c - traj.g_c_coarse), rtol, scale)
-        err = _error(l, pole, err, path)
+        err = _error(l, pole, err, path, scale_pole)
     except ValueError as exc:
         g_d = g_dissolved()
         before = "" if g_d is None else f"it dissolved (Γ = E_r) where {_where(g_d, g, lam)}, then "
@@ -232,10 +228,10 @@ def _at_cell(ch: Channel, traj: Trajectory | None, g: float, rtol: float, scale:
         return _row(math.nan, math.nan, g_c, NOT_CONVERGED, str(exc))
     if abs(pole - guess) > 0.2 * abs(guess) + 1e-9 * scale:
         return _row(pole, err, g_c, NOT_CONVERGED, f"the refined pole moved from the tracked {guess:.6g} to {pole:.6g}")
-    floor = ATOL * (scale if l >= 1 else math.sqrt(2.0 * ch.mass * scale))
     worst = max(abs(complex(err).real), abs(complex(err).imag))  # of E_r and Γ/2 (or κ)
-    if not worst <= max(rtol * abs(pole), floor):
-        return _row(pole, err, g_c, NOT_CONVERGED, f"error estimate {worst:.2e} exceeds rtol {rtol:g}·|pole|")
+    if not worst <= max(rtol * abs(pole), ATOL * scale_pole):
+        return _row(pole, err, g_c, NOT_CONVERGED, f"error estimate {worst:.2e} exceeds rtol {rtol:g}·|pole| "
+                    f"(and {ATOL:g} of the potential's scale)")
     if l >= 1 and -2.0 * pole.imag > pole.real:
         g_d = g_dissolved()
         where = "" if g_d is None else f"; Γ = E_r where {_where(g_d, g, lam)}"
@@ -243,16 +239,19 @@ def _at_cell(ch: Channel, traj: Trajectory | None, g: float, rtol: float, scale:
     return _row(pole, err, g_c, OK, "")
 
 
-def _error(l: int, pole, err, path):
+def _error(l: int, pole, err, path, scale: float):
     """The error estimate of a pole: Richardson's, per part where the exterior is real and the
     parts are carried apart (with a factor 2 of margin on Γ/2, whose estimate was found close to
     its true error just past threshold against the exact square well); |δE| for both parts on
-    a complex ray, whose arithmetic mixes them; and at least what the exterior cut leaves."""
-    floor = path.cut_error * abs(pole)
+    a complex ray, whose arithmetic mixes them; and at least what the exterior cut leaves and
+    ATOL·``scale`` (an energy, or for κ a momentum), carried along the threshold law to Γ."""
+    floor = max(path.cut_error * abs(pole), ATOL * scale)
     if l == 0:
         return max(abs(err), floor)
     if path.angle == 0.0:
-        return complex(max(abs(err.real), floor), max(2 * abs(err.imag), floor))
+        # an uncertainty δE along the pole's path moves Γ/2 ∝ E_r^{l+½} by (l+½)(Γ/2E_r)·δE
+        along = (l + 0.5) * abs(pole.imag) / max(pole.real, 1e-300) * ATOL * scale
+        return complex(max(abs(err.real), floor), max(2 * abs(err.imag), path.cut_error * abs(pole), along))
     both = max(abs(err), floor)
     return complex(both, both)
 
@@ -260,7 +259,7 @@ def _error(l: int, pole, err, path):
 def _where(g_x: float, g: float, lam: float | None) -> str:
     """A coupling of a trajectory as a screening length (one-scale families: λ ∝ g at fixed Z)
     or as a factor on the cell's potential."""
-    return f"V is scaled by {g_x / g:.6g}" if lam is None else f"λ = {lam * g_x / g:.6g} bohr"
+    return f"V is scaled by {g_x / g:.5g}" if lam is None else f"λ ≈ {lam * g_x / g:.5g} bohr"
 
 
 def _out_of_reach(traj: Trajectory, g: float, lam: float | None, g_d: float | None) -> str:
@@ -298,7 +297,7 @@ def _universal_trajectory(family: str, l: int, n_r: int, angle, tail_tolerance) 
 def _assemble(pot: Potential, l: int, rows, num_bound: int) -> Resonances:
     n = len(rows)
     kind = "virtual" if l == 0 else "resonance"
-    energy, width, kappa, err_e, err_w = (np.full(n, math.nan) for _ in range(5))
+    energy, width, kappa, err_e, err_w, err_k = (np.full(n, math.nan) for _ in range(6))
     k = np.full(n, complex(math.nan, math.nan))
     g_c = np.array([row["critical_scaling"] for row in rows], dtype=float)
     for i, row in enumerate(rows):
@@ -311,7 +310,8 @@ def _assemble(pot: Potential, l: int, rows, num_bound: int) -> Resonances:
             kappa[i] = kappa_v
             k[i] = -1j * kappa_v
             energy[i] = -kappa_v * kappa_v / (2.0 * pot.mass)
-            err_e[i] = abs(kappa_v) * row["error"] / lam / pot.mass  # δE = κ δκ/μ
+            err_k[i] = row["error"] / lam
+            err_e[i] = abs(kappa_v) * err_k[i] / pot.mass  # δE = κ δκ/μ
         else:
             e = complex(pole) * e_unit
             energy[i], width[i] = e.real, -2.0 * e.imag
@@ -320,7 +320,7 @@ def _assemble(pot: Potential, l: int, rows, num_bound: int) -> Resonances:
             err_e[i], err_w[i] = abs(err.real), 2.0 * abs(err.imag)
     return Resonances(
         l=l, kind=kind, n_r=np.array([row["n_r"] for row in rows], dtype=int), energy=energy, width=width,
-        kappa=kappa, momentum=k, energy_error=err_e, width_error=err_w, critical_scaling=g_c,
+        kappa=kappa, momentum=k, energy_error=err_e, width_error=err_w, kappa_error=err_k, critical_scaling=g_c,
         status=np.array([row["status"] for row in rows], dtype=np.int8), reason=[row["reason"] for row in rows],
         num_bound=num_bound)
 
@@ -330,7 +330,7 @@ def dissolution_screening_length(family: str, strength: float, l: int, n_r: int,
 
     Between λ_d and λ_c the state lives on as a shape resonance narrower than its energy; λ_d is
     the root of Γ − E_r along the state's trajectory (``scipy.optimize.brentq`` on refined poles,
-    bracketed by the trajectory's points).  One-scale families only (λ_d ∝ 1/(Zμ), like λ_c).
+    started from the trajectory's own coarse-grid root).  One-scale families only (λ_d ∝ 1/(Zμ), like λ_c).
 
     Returns
     -------
@@ -356,8 +356,6 @@ def _universal_dissolution(family: str, l: int, n_r: int) -> float:
         return math.nan
     base = _universal_potential(family)
     ch = Channel(base, l)
-    ratio = [(-2.0 * p.imag) / p.real for p in traj.pole]
-    j = next(i for i in range(1, len(ratio)) if ratio[i - 1] <= 1.0 < ratio[i])
     shift = abs(traj.g_c - traj.g_c_coarse)
 
     def excess(g):  # Γ − E_r of the refined pole at coupling g
@@ -365,5 +363,6 @@ def _universal_dissolution(family: str, l: int, n_r: int) -> float:
         pole, _, _ = refine(ch, g, traj.guess(s), s, shift, RTOL, base.energy_scale)
         return -2.0 * pole.imag - pole.real
 
-    g_hi, g_lo = traj.g_c - traj.s[j - 1], traj.g_c - traj.s[j]
+    g_d = traj.dissolution()  # on the coarse grid: the refined root is within ~1e-5 of it
+    g_lo, g_hi = g_d * (1 - 1e-3), g_d * (1 + 1e-3)
     return brentq(excess, g_lo, g_hi, xtol=1e-13 * g_hi, rtol=1e-13)

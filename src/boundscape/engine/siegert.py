@@ -48,6 +48,9 @@ MIN_STEPS = 16
 FACTORS = (1, 2, 4)  # refinements of the coarse grid for Richardson extrapolation; the error
 # estimate (that of the two finer grids alone) was found 10-100x above the true error against
 # the exact square-well poles, and a pole that misses its tolerance is redone on finer grids
+# the E = 0 path of a compact well is short (few coarse steps): one refinement more, which takes
+# the square well's thresholds from 4e-11 to 1e-13 of the exact ones
+THRESHOLD_FACTORS = (2, 4, 8)
 RAY_ANGLE = math.radians(30.0)  # the exterior ray's angle, where the tail has a continuation
 NARROW_GROWTH = 10.0  # below this round-off amplification the real axis serves (narrow poles)
 MAX_CUT_ERROR = 1e-6  # a pole whose exterior cut leaves more relative error in W is out of reach
@@ -310,7 +313,7 @@ class Channel:
         """The coupling g_c at which the state with n_r nodes is bound at E = 0.
 
         Bracketed by node counts (each on its own grid), then the root of A(g) on one fixed
-        path, Richardson-extrapolated over :data:`FACTORS` (``scipy.optimize.brentq``).
+        path, Richardson-extrapolated over :data:`THRESHOLD_FACTORS` (``scipy.optimize.brentq``).
         Returns ``math.inf`` if the state is not bound below g = 1e9·g_start."""
         counts = {}
 
@@ -343,7 +346,7 @@ class Channel:
 
         def amplitude(g):
             path.g = g  # one fixed grid, so that A(g) is smooth for brentq
-            return richardson([path.amplitude(f) for f in FACTORS], FACTORS)[0].real
+            return richardson([path.amplitude(f) for f in THRESHOLD_FACTORS], THRESHOLD_FACTORS)[0].real
 
         a_lo, a_hi = amplitude(lo), amplitude(hi)
         if a_lo == 0.0:

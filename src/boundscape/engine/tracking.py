@@ -10,7 +10,7 @@ The state with n_r nodes is bound at E = 0 at the threshold coupling g_c (V → 
 A trajectory follows the pole in s = g_c − g by natural-parameter continuation (Allgower &
 Georg, *Introduction to Numerical Continuation Methods*, 2003, ch. 2): a predictor from the
 points behind it — power laws in s for l ≥ 1 (fitted in ln s), a polynomial in s for κ — and
-a corrector, the secant method on W (``scipy.optimize.newton``) on the coarse grid.  A step
+a corrector, the secant method on W (:func:`secant`) on the coarse grid.  A step
 is accepted if the corrector lands near the prediction (else it is shortened), so the pole
 followed is the one continued from the bound state, never a neighbour.  Steps grow
 geometrically from s = 10⁻³·g_c, which samples the threshold law evenly in ln s.  It ends at
@@ -24,11 +24,10 @@ from __future__ import annotations
 
 import cmath
 import math
-import warnings
 from dataclasses import dataclass, field
 
 import numpy as np
-from scipy.optimize import brentq, newton
+from scipy.optimize import brentq
 
 from .propagation import richardson
 from .siegert import FACTORS, Channel
@@ -54,6 +53,7 @@ class Trajectory:
     pole: list = field(default_factory=list)
     end: str = ""  # why it stopped before the coupling asked for ("" if it got there)
     end_at: float = math.nan  # the coupling at which it stopped, if it stopped early
+    g_dissolved: float | None = None  # where Γ = E_r on the way (l ≥ 1), if it got there
 
     @property
     def g_end(self) -> float:
@@ -68,16 +68,18 @@ class Trajectory:
         return _predict(self.l, [pts_s[j] for j in nearest], [self.pole[j] for j in nearest], s)
 
     def dissolution(self) -> float | None:
-        """The coupling at which Γ first reaches E_r on the trajectory (l ≥ 1), or None."""
+        """The coupling at which Γ first reaches E_r on the trajectory (l ≥ 1), or None (found
+        on the coarse grid, to ~1e-5; :func:`.resonances.dissolution_screening_length` refines it)."""
+        return self.g_dissolved
+
+    def _crossing(self):
+        """The trajectory's points either side of Γ = E_r, or None."""
         if self.l == 0:
             return None
-        ratio = [(-2.0 * p.imag) / p.real if p.real > 0 else math.inf for p in self.pole]
-        for j in range(1, len(ratio)):
-            if ratio[j - 1] <= 1.0 < ratio[j]:
-                a, b = math.log(max(ratio[j - 1], 1e-300)), math.log(ratio[j]) if math.isfinite(ratio[j]) else 50.0
-                x0, x1 = math.log(self.s[j - 1]), math.log(self.s[j])
-                s_d = math.exp(x0 + (x1 - x0) * (0.0 - a) / (b - a)) if b != a else self.s[j]
-                return self.g_c - s_d
+        over = [p.real > 0 and -2.0 * p.imag > p.real for p in self.pole]
+        for j in range(1, len(over)):
+            if over[j] and not over[j - 1]:
+                return j - 1, j
         return None
 
 
@@ -132,11 +134,7 @@ def solve(channel: Channel, g: float, guess, factor: int = 1, path=None, scale: 
             def f(energy):
                 return path.wronskian(cmath.sqrt(2.0 * mass * energy), factor)
             x1 = guess * (1.0 + 1e-7) + (1e-9 * scale if guess == 0 else 0.0)
-        with warnings.catch_warnings():  # a stalled secant is reported through info.converged
-            warnings.simplefilter("ignore", RuntimeWarning)
-            root, _info = newton(f, guess, x1=x1, tol=1e-300, rtol=1e-15, maxiter=40, full_output=True, disp=False)
-        # a residual test, not info.converged: scipy's secant reports a stall where W is
-        # exactly zero at two iterates, which is a root
+        root = secant(f, guess, x1)
         if not np.isfinite(root) or not _is_root(f, root):
             raise ArithmeticError(f"the secant method did not converge from {guess}")
         k_new, k_old = momentum(l, mass, root), momentum(l, mass, guess)
@@ -145,6 +143,31 @@ def solve(channel: Channel, g: float, guess, factor: int = 1, path=None, scale: 
             continue
         return (float(root) if l == 0 else complex(root)), path
     return (float(root) if l == 0 else complex(root)), path
+
+
+def secant(f, x0, x1, maxiter: int = 40):
+    """The secant method, stopped at the noise floor of f and returning its best iterate.
+
+    Written out because ``scipy.optimize.newton`` stops on a relative step, which a complex
+    root with a tiny imaginary part (Γ ≪ E_r) reaches only once f is noise, where its steps
+    wander; here the iteration ends when the steps stop shrinking, and the iterate with the
+    smallest |f| is returned (the secant method itself: e.g. Press et al., Numerical Recipes,
+    3rd ed., §9.2)."""
+    f0, f1 = f(x0), f(x1)
+    best_x, best_f = (x1, abs(f1)) if abs(f1) <= abs(f0) else (x0, abs(f0))
+    last = math.inf
+    for _ in range(maxiter):
+        if f1 == f0 or f1 == 0:
+            break
+        x0, x1 = x1, x1 - f1 * (x1 - x0) / (f1 - f0)
+        f0, f1 = f1, f(x1)
+        if abs(f1) < best_f:
+            best_x, best_f = x1, abs(f1)
+        step = abs(x1 - x0)
+        if step <= 4e-16 * abs(x1) or (step >= last and step <= 1e-8 * abs(x1)):
+            break
+        last = step
+    return best_x
 
 
 def _is_root(f, z) -> bool:
@@ -156,10 +179,30 @@ def _is_root(f, z) -> bool:
 
 
 def trace(channel: Channel, n_r: int, g_stop: float, g_start: float = 1.0, scale: float = 1.0) -> Trajectory | None:
-    """The trajectory of state n_r from its threshold down to the coupling ``g_stop``.
+    """The trajectory of state n_r from its threshold down to the coupling ``g_stop``, and for
+    l ≥ 1 the coupling on it at which Γ reaches E_r (``scipy.optimize.brentq`` on the coarse grid).
 
     Returns None if the state is bound at ``g_stop`` on the coarse grid (within discretisation
     error of its threshold); ``scale`` is a typical energy, for starting values."""
+    traj = _follow(channel, n_r, g_stop, g_start, scale)
+    pair = None if traj is None else traj._crossing()
+    if pair is not None:
+        def excess(g):
+            s = traj.g_c - g
+            pole, _ = solve(channel, g, traj.guess(s), scale=scale)
+            return -2.0 * pole.imag - pole.real
+
+        i, j = pair
+        g_hi, g_lo = traj.g_c - traj.s[i], traj.g_c - traj.s[j]
+        try:
+            traj.g_dissolved = brentq(excess, g_lo, g_hi, xtol=1e-12 * g_hi)
+        except (ValueError, ArithmeticError):  # a pole out of reach or lost inside the bracket
+            traj.g_dissolved = 0.5 * (g_lo + g_hi)
+    return traj
+
+
+def _follow(channel: Channel, n_r: int, g_stop: float, g_start: float, scale: float) -> Trajectory | None:
+    """The continuation itself (see :func:`trace`)."""
     g_c = channel.threshold(n_r, g_start)
     if not math.isfinite(g_c):
         return Trajectory(channel.l, g_c, g_c, end="the state is not bound however strong the potential")
@@ -286,14 +329,17 @@ def _coarse_threshold(channel: Channel, g_c: float) -> float:
 def refine(channel: Channel, g: float, guess, distance: float, coarse_shift: float, tolerance: float,
            scale: float = 1.0):
     """The pole at coupling g from ``guess``, on three refinements (f, 2f, 4f)·FACTORS[0],
-    Richardson-extrapolated; f doubles (up to 8) until the error estimate meets ``tolerance``.
+    Richardson-extrapolated; f doubles (up to 32) until the error estimate meets ``tolerance``.
     The estimate is complex for a resonance (its parts estimate E_r's and Γ/2's errors).
 
     The first f is chosen so that the coarsest grid's own threshold shift (``coarse_shift``/f⁴)
     stays well below the distance to threshold.  Returns (pole, error estimate, path)."""
     base = 1
-    while base < 8 and coarse_shift / base**4 > 1e-2 * distance:
+    while coarse_shift / base**4 > 1e-2 * distance:
         base *= 2
+        if base > 32:  # ~1e-10 of g_c from threshold: closer than these grids resolve
+            raise ArithmeticError(f"the cell lies {distance:.1e} from its threshold coupling, closer than the "
+                                  "grids resolve")
     values, path, current = {}, None, guess
     while True:
         factors = tuple(base * f for f in FACTORS)
@@ -303,6 +349,6 @@ def refine(channel: Channel, g: float, guess, distance: float, coarse_shift: flo
                 current, path = solve(channel, g, current, factor=f, path=path, scale=scale)
                 values[f] = current
         best, err = richardson([values[f] for f in factors], factors)
-        if abs(err) <= tolerance * abs(best) or base >= 8:
+        if abs(err) <= tolerance * abs(best) or base >= 32:
             return (best.real if channel.l == 0 else best), (abs(err) if channel.l == 0 else err), path
         base *= 2
