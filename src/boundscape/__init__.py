@@ -6,13 +6,14 @@ The package is layered (see DEVELOPERS.md): ``engine`` (the radial problem), ``p
 ``plots`` and ``cli``.  The names below are the engine's.
 """
 
-from .engine import (FAMILIES, BoundLevels, Potential, bound_levels, count_bound, critical_screening_length,
-                     critical_strength, potential, zero_energy_solution)
+from .engine import (FAMILIES, BoundLevels, Potential, Resonances, bound_levels, count_bound,
+                     critical_screening_length, critical_strength, dissolution_screening_length, potential, resonances,
+                     zero_energy_solution)
 from .errors import ConvergenceError, InputError
 from .version import VERSION as __version__
 
 __all__ = [
     "FAMILIES", "Potential", "potential", "BoundLevels", "bound_levels", "count_bound",
-    "critical_screening_length", "critical_strength", "zero_energy_solution",
+    "critical_screening_length", "critical_strength", "zero_energy_solution", "Resonances", "resonances", "dissolution_screening_length",
     "InputError", "ConvergenceError", "__version__",
 ]

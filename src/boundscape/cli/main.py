@@ -16,54 +16,14 @@ import math
 import os
 import sys
 
-from . import convert
-from .readings import add_preset_arguments, engine_strength, reading_of, significant
-from ..engine import FAMILIES, bound_levels, critical_screening_length, potential_from_spec
+from . import convert, resonances
+from .options import describe, make_potential, parse_l_values, potential_args, title
+from .readings import engine_strength, reading_of, significant
+from ..engine import FAMILIES, bound_levels, critical_screening_length
 from ..errors import ConvergenceError, InputError
-from ..labels import FAMILY_NAMES, orbital_letter, state_label
+from ..labels import orbital_letter, state_label
 from ..physics.units import HARTREE_EV
 from ..version import VERSION
-
-
-def parse_l_values(text: str) -> list[int]:
-    """'0-3' → [0, 1, 2, 3]; '0,2,5' → [0, 2, 5]; '4' → [4]."""
-    out: list[int] = []
-    try:
-        for part in text.split(","):
-            part = part.strip()
-            if "-" in part[1:]:
-                a, b = part.split("-", 1)
-                lo, hi = int(a), int(b)
-                if hi < lo:
-                    raise InputError(f"--l range {part!r} runs backwards")
-                out.extend(range(lo, hi + 1))
-            else:
-                out.append(int(part))
-    except ValueError:
-        raise InputError(f"--l must be integers like 0-3 or 0,2,5, got {text!r}") from None
-    if any(l < 0 for l in out):
-        raise InputError(f"--l values must be non-negative, got {text!r}")
-    return sorted(set(out))
-
-
-def _potential_args(p: argparse.ArgumentParser, *, levels: bool):
-    p.add_argument("--family", required=True, help=f"potential family: {', '.join(sorted(FAMILIES))}")
-    p.add_argument("--strength", type=float, default=None,
-                   help="required: Z (charge number; for an ion, its nuclear charge); depth in hartree "
-                        "(square_well); ω in hartree/ħ (harmonic); scale factor (tabulated, default 1)")
-    if levels:
-        p.add_argument("--screening-length", type=float, default=None,
-                       help="λ in --length-unit, bohr by default (the radius for square_well); "
-                            "not used by coulomb and harmonic")
-    p.add_argument("--mass", type=float, default=None, help="reduced mass μ in electron masses (default 1)")
-    p.add_argument("--l", default="0", help="angular momenta: 0-3, 0,2,5 or 1 (default 0)")
-    p.add_argument("--table", default=None, help="tabulated family: CSV (r,V in bohr,hartree) or NetCDF with r, V")
-    if levels:
-        p.add_argument("--screened", action="store_true", help="tabulated family: multiply the table by exp(-r/λ)")
-    p.add_argument("--coulomb-tail", type=float, default=None,
-                   help="tabulated family: declare a -Z/r tail beyond the table with this Z")
-    p.add_argument("--format", choices=("table", "json"), default="table", help="output format (default table)")
-    add_preset_arguments(p)
 
 
 LEVELS_DESCRIPTION = (
@@ -82,7 +42,7 @@ def build_parser() -> argparse.ArgumentParser:
     sub = parser.add_subparsers(dest="command", metavar="COMMAND", required=True)
 
     lv = sub.add_parser("levels", help="every bound level of one potential, per l", description=LEVELS_DESCRIPTION)
-    _potential_args(lv, levels=True)
+    potential_args(lv, levels=True)
     lv.add_argument("--n-r-max", type=int, default=None,
                     help="keep levels n_r < N (default: all; 20 for coulomb and harmonic)")
     lv.set_defaults(func=run_levels, parser=lv)
@@ -90,18 +50,13 @@ def build_parser() -> argparse.ArgumentParser:
     cr = sub.add_parser("critical", help="critical screening length of each state",
                         description="The screening length λ_c below which each state (n, l) is not bound "
                                     "(a table is always screened by exp(-r/λ) here).")
-    _potential_args(cr, levels=False)
+    potential_args(cr, levels=False)
     cr.add_argument("--n-max", type=int, default=4, help="states with principal quantum number n ≤ N (default 4)")
     cr.set_defaults(func=run_critical, parser=cr)
 
     convert.register(sub)
+    resonances.register(sub)
     return parser
-
-
-def _make_potential(args, strength, screening_length):
-    spec = {"family": args.family, "mass": 1.0 if args.mass is None else args.mass, "table": args.table,
-            "screened": getattr(args, "screened", False), "coulomb_tail": args.coulomb_tail}
-    return potential_from_spec(spec, strength, screening_length)
 
 
 def _note(pot, n_r_max):
@@ -118,7 +73,7 @@ def run_levels(args) -> int:
     reading = reading_of(args)
     strength, strength_text = engine_strength(args, reading)
     lam = None if args.screening_length is None else reading.engine_length(args.screening_length, args.length_unit)
-    pot = _make_potential(args, strength, lam)
+    pot = make_potential(args, strength, lam)
     e_unit, r_unit = reading.energy_unit, reading.length_unit
     rows, counts = [], {}
     for l in ls:
@@ -138,13 +93,13 @@ def run_levels(args) -> int:
             rows.append(row)
     note = _note(pot, args.n_r_max)
     if args.format == "json":
-        out = {"potential": _describe(pot, reading, strength_text), "num_bound": {str(k): v for k, v in counts.items()},
+        out = {"potential": describe(pot, reading, strength_text), "num_bound": {str(k): v for k, v in counts.items()},
                "levels": rows}
         if note:
             out["note"] = note
         print(json.dumps(out, indent=2, allow_nan=True))
         return 0
-    print(f"# {_title(pot, reading, strength_text)}")
+    print(f"# {title(pot, reading, strength_text)}")
     if note:
         print(f"# {note}")
     if reading.preset is None and e_unit == "hartree":
@@ -173,7 +128,7 @@ def run_critical(args) -> int:
     if not FAMILIES[args.family].uses_screening_length:
         raise InputError(f"family {args.family!r} has no screening length, so no state is ever lost; "
                          "critical lengths need a screened family")
-    pot = _make_potential(args, strength, 1.0)  # validates family and parameters
+    pot = make_potential(args, strength, 1.0)  # validates family and parameters
     unit, factor = reading.length_unit, reading.length_factor
     rows = []
     for l in ls:
@@ -190,10 +145,10 @@ def run_critical(args) -> int:
                             f"critical_inverse_length_per_{unit}": 0.0 if math.isinf(lam) else significant(1.0 / shown, 13)})
             rows.append(row)
     if args.format == "json":
-        print(json.dumps({"potential": _describe(pot, reading, strength_text, with_length=False), "states": rows},
+        print(json.dumps({"potential": describe(pot, reading, strength_text, with_length=False), "states": rows},
                          indent=2))
         return 0
-    print(f"# critical screening lengths, {_title(pot, reading, strength_text, with_length=False)}")
+    print(f"# critical screening lengths, {title(pot, reading, strength_text, with_length=False)}")
     print(f"{'n':>3} {'l':>2} {'state':>6} {f'lambda_c ({unit})':>22} {f'1/lambda_c (1/{unit})':>22}")
     for row in rows:
         print(f"{row['n']:>3} {row['l']:>2} {row['state']:>6} {row[f'critical_screening_length_{unit}']:>22.13g} "
@@ -201,27 +156,6 @@ def run_critical(args) -> int:
     if not rows:
         print("# no states with n ≤ --n-max for these l")
     return 0
-
-
-def _describe(pot, reading, strength_text, with_length=True):
-    d = {"family": pot.family, "strength": pot.strength, "mass": pot.mass}
-    if reading.preset is not None or reading.length_unit != "bohr":
-        d.update(units=reading.description, input=strength_text)
-    if with_length and math.isfinite(pot.screening_length):
-        if reading.length_unit == "bohr":
-            d["screening_length_bohr"] = pot.screening_length
-        else:
-            d[f"screening_length_{reading.length_unit}"] = significant(pot.screening_length * reading.length_factor)
-    return d
-
-
-def _title(pot, reading, strength_text, with_length=True):
-    lam = ""
-    if with_length and math.isfinite(pot.screening_length):
-        shown = pot.screening_length * reading.length_factor
-        lam = f", λ = {shown:.10g} {reading.length_unit}"
-    mass = f", mass {pot.mass:g} m_e" if reading.preset is None else ""
-    return f"{FAMILY_NAMES.get(pot.family, pot.family)}, {strength_text}{lam}{mass} ({reading.description})"
 
 
 # Flags that were split because they had two meanings: say what replaced them.

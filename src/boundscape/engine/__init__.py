@@ -1,5 +1,6 @@
 """The radial problem and nothing else: families, the mapped grid and operator, the exterior
-solution, zero-energy counts and critical parameters, bound levels.
+solution, zero-energy counts and critical parameters, bound levels, and what each lost state
+becomes past its threshold (resonances, virtual states).
 
 Imports numpy and scipy only (xarray just to read a NetCDF potential table, when asked):
 no workflow, no plotting, no output files.
@@ -9,7 +10,8 @@ from .critical import critical_screening_length, critical_strength
 from .families import FAMILIES, Family, family_info
 from .levels import BoundLevels, bound_levels
 from .potential import Potential, potential, potential_from_spec
-from .status import INPUT_REJECTED, LEVEL_STATUS, NOT_CONVERGED, OK
+from .resonances import Resonances, dissolution_screening_length, resonances
+from .status import DISSOLVED, INPUT_REJECTED, LEVEL_STATUS, NOT_CONVERGED, OK, RESONANCE_STATUS
 from .tables import Table, load_table
 from .zero_energy import count_bound, zero_energy_solution
 
@@ -17,5 +19,6 @@ __all__ = [
     "FAMILIES", "Family", "family_info", "Potential", "potential", "potential_from_spec", "Table", "load_table",
     "BoundLevels", "bound_levels", "count_bound", "zero_energy_solution",
     "critical_screening_length", "critical_strength",
-    "LEVEL_STATUS", "OK", "NOT_CONVERGED", "INPUT_REJECTED",
+    "Resonances", "resonances", "dissolution_screening_length",
+    "LEVEL_STATUS", "OK", "NOT_CONVERGED", "INPUT_REJECTED", "RESONANCE_STATUS", "DISSOLVED",
 ]
