@@ -16,7 +16,7 @@ from ..checks import quantum_number
 from ..errors import InputError
 from .families import family_info
 from .potential import potential_from_spec
-from .zero_energy import zero_energy_problem
+from .zero_energy import THETA_CRITICAL, zero_energy_problem
 
 __all__ = ["critical_screening_length", "critical_strength"]
 
@@ -47,10 +47,10 @@ def _root_on(make, l: int, k: int, start: float, scale_up=2.0, span=1e12):
         hi, lo = lo, lo / scale_up
         if lo < start / span:
             return 0.0
-    m = zero_energy_problem(make(hi), l).grid.m
+    m = zero_energy_problem(make(hi), l, theta=THETA_CRITICAL).grid.n
 
     def mu(p):
-        return zero_energy_problem(make(p), l, m).extrapolated(k)
+        return zero_energy_problem(make(p), l, m, theta=THETA_CRITICAL).extrapolated(k)
 
     # the coarse bracket may be off by discretisation error: widen it on the extrapolated μ
     while mu(lo) < 0:

@@ -1,0 +1,572 @@
+"""Compiled kernels of the radial solver: the softplus map, Numerov's recurrence, its Sturm
+count, and the per-grid eigenvalue search (numba, CPU only, cached on disk).
+
+Discrete problem.  On the uniform t grid of :mod:`.grid` the Liouville form w'' = Q w,
+Q = 2μg²(V_eff − E) + F, is discretised by Numerov's formula (O(h⁴); Numerov 1924, see
+Hairer, Nørsett & Wanner, Solving ODEs I, §III.10):
+
+    a_{i+1} w_{i+1} − b_i w_i + a_{i−1} w_{i−1} = 0,   a = 1 − h²Q/12,  b = 2 + 10h²Q/12,
+
+w_0 = 0 at r_min, and at node N (r = R) a Robin condition w' = σw imposed through a ghost node,
+w_{N+1} = w_{N−1} + 2h[σ + h²(Q' + Qσ)/6] w_N (a Taylor series of w_{N±1} with w''' = (Qw)'; its
+error, like Numerov's, is an even series in h from h⁴ on, which Richardson extrapolation in
+h⁴, h⁶ removes).  In Y = a·w the rows are those of the symmetric tridiagonal matrix
+M(E) = tridiag(−1, b/a, −1) (last diagonal symmetrised); M decreases with E, so the number of
+negative pivots of its LDLᵀ factorisation — the sign changes of the outward solution — is the
+number of discrete eigenvalues below E (a Sturm count).
+
+Eigenvalue search.  Sturm bisection isolates level k; Newton's method then takes over, with the
+energy correction of Cooley (Math. Comp. 15, 363 (1961)): integrate outward to the outer
+turning point and inward from R, join the two there, and correct E by the residual of the
+joining row over dY·M'(E)·Y.  Bound levels are corrected in κ = √(2μ|E|), in which the outer
+condition is smooth down to threshold.
+"""
+
+from __future__ import annotations
+
+import math
+
+import numpy as np
+from numba import njit
+
+__all__ = ["map_point", "map_nodes", "t_of_r", "assemble", "exterior_log_derivative", "sturm_count",
+           "solve_level", "design_map", "wkb_energy", "outward_solution", "TAIL_SHORT", "TAIL_COULOMB",
+           "TAIL_CONFINING", "TAIL_FIXED"]
+
+# Outer conditions: the decaying exterior solution of a short-range, Coulomb or oscillator tail,
+# or a fixed u'/u (the zero-energy problem's −l/R).
+TAIL_SHORT, TAIL_COULOMB, TAIL_CONFINING, TAIL_FIXED = 0, 1, 2, 3
+# Largest h²Q/12 a row may have: a = 1 − h²Q/12 must stay positive for the Sturm count.
+_ROW_LIMIT = 0.9
+# Largest compression of the logarithmic stretch near the origin (its knee adds to F).
+C_MAX = 4.0
+
+
+@njit(cache=True)
+def _softplus(y):
+    if y > 0.0:
+        return y + math.log1p(math.exp(-y))
+    return math.log1p(math.exp(y))
+
+
+@njit(cache=True)
+def _logistic(y):
+    if y >= 0.0:
+        return 1.0 / (1.0 + math.exp(-y))
+    e = math.exp(y)
+    return e / (1.0 + e)
+
+
+@njit(cache=True)
+def map_point(beta, c, tc, t):
+    """r(t) = β·ln(1 + eˢ), s = t − c·ln(1 + e^{tc−t}); returns r, g = dr/dt, g'/g, g''/g."""
+    sc = _logistic(tc - t)
+    s = t - c * _softplus(tc - t)
+    s1 = 1.0 + c * sc
+    s2 = -c * sc * (1.0 - sc)
+    s3 = c * sc * (1.0 - sc) * (1.0 - 2.0 * sc)
+    p = _logistic(s)
+    q = _logistic(-s)  # 1 − p without cancellation
+    r = beta * _softplus(s)
+    g = beta * p * s1
+    gp = q * s1 + s2 / s1
+    gpp = q * (q - p) * s1 * s1 + 3.0 * q * s2 + s3 / s1
+    return r, g, gp, gpp
+
+
+@njit(cache=True)
+def map_nodes(beta, c, tc, t0, h, n, r_end, i_end):
+    """r, g² and the Liouville term F = ¾(g'/g)² − ½g''/g at t0 + i·h, i < n; node ``i_end``
+    is set to exactly ``r_end`` (the outer condition is evaluated there)."""
+    r = np.empty(n)
+    g2 = np.empty(n)
+    F = np.empty(n)
+    for i in range(n):
+        ri, g, gp, gpp = map_point(beta, c, tc, t0 + i * h)
+        r[i] = ri
+        g2[i] = g * g
+        F[i] = 0.75 * gp * gp - 0.5 * gpp
+    if 0 <= i_end < n:
+        r[i_end] = r_end
+    return r, g2, F
+
+
+@njit(cache=True)
+def t_of_r(beta, c, tc, r):
+    """Invert the map (one point): s from the softplus in closed form, t by Newton's method
+    (s(t) is increasing and convex-concave with s' ≥ 1, so a few steps suffice)."""
+    y = r / beta
+    if y > 30.0:
+        s = y + math.log(-math.expm1(-y))
+    else:
+        s = math.log(math.expm1(y))
+    t = s if s >= tc else (s + c * tc) / (1.0 + c)
+    for _ in range(100):
+        f = t - c * _softplus(tc - t) - s
+        step = f / (1.0 + c * _logistic(tc - t))
+        t -= step
+        if abs(step) <= 1e-15 * (1.0 + abs(t)):
+            break
+    return t
+
+
+@njit(cache=True)
+def assemble(r, g2, F, v, mass, l):
+    """Q0 = 2μg²V_eff + F and ρ = 2μg², so that Q(E) = Q0 − E·ρ."""
+    n = r.size
+    q0 = np.empty(n)
+    rho = np.empty(n)
+    cen = l * (l + 1.0)
+    for i in range(n):
+        rho[i] = 2.0 * mass * g2[i]
+        q0[i] = rho[i] * v[i] + g2[i] * cen / (r[i] * r[i]) + F[i]
+    return q0, rho
+
+
+@njit(cache=True)
+def exterior_log_derivative(kind, l, mass, p, energy, R):
+    """u'/u at R of the exterior solution (see :mod:`.exterior`, whose formulas these mirror):
+    short range r·k_l(κr) ∝ e^{−z} Σ_j (l+j)!/(j!(l−j)!)(2z)^{−j}, z = κR (A&S 10.2.15);
+    Coulomb −κ + Zμ/(κR) (p = Z); oscillator −μωR + (l+1)/R (p = ω); fixed: p itself."""
+    if kind == TAIL_FIXED:
+        return p
+    if kind == TAIL_CONFINING:
+        return -mass * p * R + (l + 1.0) / R
+    kappa = math.sqrt(2.0 * mass * max(-energy, 0.0))
+    if kind == TAIL_COULOMB:
+        if kappa == 0.0:
+            return 0.0
+        return -kappa + p * mass / (kappa * R)
+    if kappa == 0.0:
+        return -l / R
+    z = kappa * R
+    # z^l Σ_j a_j z^{−j} = Σ_j a_j z^{l−j}: no overflow for small z
+    a = 1.0
+    poly = 0.0
+    dpoly = 0.0
+    for j in range(l + 1):
+        poly += a * z ** (l - j)
+        if l - j > 0:
+            dpoly += a * (l - j) * z ** (l - j - 1)
+        a *= (l + j + 1.0) * (l - j) / (2.0 * (j + 1.0))
+    return kappa * (-1.0 - l / z + dpoly / poly)
+
+
+@njit(cache=True)
+def _sigma_t(kind, l, mass, p, energy, R, g_end, gp_end):
+    # w'/w in t at the outer node, from u'/u in r: u = g^{1/2} w
+    return g_end * exterior_log_derivative(kind, l, mass, p, energy, R) - 0.5 * gp_end
+
+
+@njit(cache=True)
+def _last_diagonal(q0, rho, stride, n, h, energy, kind, l, mass, p, R, g_end, gp_end):
+    """Symmetrised diagonal of the last row (ghost node carrying the Robin condition)."""
+    h2 = h * h
+    i_m = (n - 1) * stride
+    i_n = n * stride
+    i_g = (n + 1) * stride
+    qm = q0[i_m] - energy * rho[i_m]
+    qn = q0[i_n] - energy * rho[i_n]
+    qg = q0[i_g] - energy * rho[i_g]
+    am = 1.0 - h2 * qm / 12.0
+    an = 1.0 - h2 * qn / 12.0
+    ag = 1.0 - h2 * qg / 12.0
+    dn = (2.0 + 10.0 * h2 * qn / 12.0) / an
+    sig = _sigma_t(kind, l, mass, p, energy, R, g_end, gp_end)
+    dq = (qg - qm) / (2.0 * h)
+    cn = 2.0 * h * (sig + h2 * (dq + qn * sig) / 6.0)
+    return (dn - ag * cn / an) / (1.0 + ag / am)
+
+
+@njit(cache=True)
+def sturm_count(q0, rho, stride, n, h, energy, kind, l, mass, p, R, g_end, gp_end):
+    """Number of discrete eigenvalues below ``energy`` (negative pivots of M(E) = LDLᵀ)."""
+    h2 = h * h
+    count = 0
+    piv = 1.0
+    for j in range(1, n):
+        i = j * stride
+        cq = h2 * (q0[i] - energy * rho[i])
+        d = (2.0 + 10.0 * cq / 12.0) / (1.0 - cq / 12.0)
+        piv = d - (1.0 / piv if j > 1 else 0.0)
+        if piv == 0.0:
+            piv = -1e-300  # an exact zero pivot: count it, as LAPACK's dstebz does
+        if piv < 0.0:
+            count += 1
+    last = _last_diagonal(q0, rho, stride, n, h, energy, kind, l, mass, p, R, g_end, gp_end)
+    if last - (1.0 / piv if n > 1 else 0.0) <= 0.0:
+        count += 1
+    return count
+
+
+@njit(cache=True)
+def _floor_energy(q0, rho, stride, n, h):
+    """Lowest energy at which every row keeps h²Q/12 ≤ _ROW_LIMIT (below it the grid cannot hold a level)."""
+    h2 = h * h
+    lowest = -1e300
+    for j in range(1, n + 2):
+        i = j * stride
+        # h²(q0 − E ρ)/12 ≤ L  ⇔  E ≥ (q0 − 12L/h²)/ρ
+        if rho[i] > 0.0:
+            e = (q0[i] - 12.0 * _ROW_LIMIT / h2) / rho[i]
+            if e > lowest:
+                lowest = e
+    return lowest
+
+
+@njit(cache=True)
+def _join(q0, rho, r, g2, stride, n, h, energy, kind, l, mass, p, R, g_end, gp_end, work, want_u):
+    """One Cooley pass at ``energy``: outward to the outer turning point, inward from R.
+
+    Returns (residual·Y_m, −Y·M'(E)·Y, nodes, ∫u² dr, ∫r u² dr, u(R)²); the joined w is left in
+    ``work`` (Y/a) when ``want_u``.  Integrals by Simpson's rule in t (n even)."""
+    h2 = h * h
+    # joining node: the outermost classically allowed node
+    m = -1
+    for j in range(n - 1, 1, -1):
+        i = j * stride
+        if q0[i] - energy * rho[i] < 0.0:
+            m = j
+            break
+    if m < 0:
+        qmin = 1e300
+        for j in range(2, n - 1):
+            i = j * stride
+            qv = q0[i] - energy * rho[i]
+            if qv < qmin:
+                qmin = qv
+                m = j
+        if m < 0:
+            m = n // 2
+    m = max(2, min(m, n - 2))
+    # outward: Y_0 = 0, Y_1 = 1
+    work[0] = 0.0
+    work[1] = 1.0
+    for j in range(1, m + 1):
+        i = j * stride
+        cq = h2 * (q0[i] - energy * rho[i])
+        d = (2.0 + 10.0 * cq / 12.0) / (1.0 - cq / 12.0)
+        work[j + 1] = d * work[j] - work[j - 1]
+        if abs(work[j + 1]) > 1e150:
+            for jj in range(j + 2):
+                work[jj] *= 1e-150
+    y_out_next = work[m + 1]
+    y_out_m = work[m]
+    # inward: w_N = 1, Y_{N−1} from the last row
+    i_n = n * stride
+    an = 1.0 - h2 * (q0[i_n] - energy * rho[i_n]) / 12.0
+    inward = np.empty(n - m + 2)  # inward[n − j] = Y_j
+    inward[0] = an
+    inward[1] = _last_diagonal(q0, rho, stride, n, h, energy, kind, l, mass, p, R, g_end, gp_end) * an
+    for j in range(n - 1, m, -1):
+        i = j * stride
+        cq = h2 * (q0[i] - energy * rho[i])
+        d = (2.0 + 10.0 * cq / 12.0) / (1.0 - cq / 12.0)
+        inward[n - j + 1] = d * inward[n - j] - inward[n - j - 1]
+        if abs(inward[n - j + 1]) > 1e150:
+            for jj in range(n - j + 2):
+                inward[jj] *= 1e-150
+    y_in_m = inward[n - m]
+    y_in_next = inward[n - m - 1]
+    scale = y_out_m / y_in_m
+    residual = (y_in_next * scale - y_out_next)  # Y^in_{m+1} − Y^out_{m+1}
+    for j in range(m + 1, n + 1):
+        work[j] = inward[n - j] * scale
+    # sums: Newton denominator Σ ρ w² h² (+ the last row's E-dependence) and Simpson moments
+    dm = 0.0
+    norm = 0.0
+    first = 0.0
+    nodes = 0
+    prev = 0.0
+    y_last = 0.0
+    w_last = 0.0
+    for j in range(1, n + 1):
+        i = j * stride
+        a = 1.0 - h2 * (q0[i] - energy * rho[i]) / 12.0
+        y = work[j]
+        w = y / a
+        if j == n:
+            y_last = y
+            w_last = w
+        if j < n:
+            dm += h2 * rho[i] * w * w
+        wt = 1.0 if j == n else (4.0 if j % 2 == 1 else 2.0)
+        u2 = g2[i] * w * w
+        norm += wt * u2
+        first += wt * u2 * r[i]
+        if y != 0.0:
+            if prev != 0.0 and (y < 0.0) != (prev < 0.0):
+                nodes += 1
+            prev = y
+        if want_u:
+            work[j] = w
+    # the last row's derivative in E, by a central difference of its (scalar) closed form
+    de = 1e-7 * max(abs(energy), 1e-12)
+    dlast = (_last_diagonal(q0, rho, stride, n, h, energy + de, kind, l, mass, p, R, g_end, gp_end)
+             - _last_diagonal(q0, rho, stride, n, h, energy - de, kind, l, mass, p, R, g_end, gp_end)) / (2.0 * de)
+    dm -= dlast * y_last * y_last
+    u_end2 = math.sqrt(g2[n * stride]) * w_last * w_last
+    return residual * y_out_m, dm, nodes, norm * h / 3.0, first * h / 3.0, u_end2
+
+
+@njit(cache=True)
+def solve_level(q0, rho, r, g2, stride, n, h, k, energy, lo, hi, locate, kappa_mode, scale,
+                kind, l, mass, p, R, g_end, gp_end, work, want_u):
+    """Eigenvalue k (0-based) of the discrete problem on one grid (nodes every ``stride``-th
+    of the arrays, ``n`` steps of ``h``).
+
+    ``locate``: isolate level k by Sturm bisection first, starting at ``energy`` within the
+    bracket (lo, hi) (±inf: unknown); otherwise ``energy`` is trusted as a start close to it.
+    ``kappa_mode``: Newton in κ = √(−2μE) (bound levels); else in E.
+
+    Returns (energy, status, passes, ∫u² dr, ∫r u² dr, u(R)²) (the integrals over the box, of
+    the joined solution in its own normalisation): status 0 converged, 1 no level k below
+    the grid's floor, 2 Newton did not settle, 3 wrong node count, 4 no level k below the
+    grid's top (hi, or threshold).
+    ``work`` (≥ n + 2) holds the joined w when ``want_u``."""
+    passes = 0
+    floor = _floor_energy(q0, rho, stride, n, h)
+    if lo < floor:
+        lo = floor
+    top = hi
+    if kappa_mode and top > 0.0:
+        top = 0.0
+    if locate:
+        if energy <= lo or energy >= top:
+            if math.isfinite(top):
+                energy = lo + 0.5 * (top - lo) if lo > -1e299 else top - 1.0
+            else:
+                energy = lo + 1.0
+        c0 = sturm_count(q0, rho, stride, n, h, energy, kind, l, mass, p, R, g_end, gp_end)
+        passes += 1
+        e_lo, e_hi = lo, top
+        c_lo, c_hi = -1, -1
+        if c0 > k:
+            e_hi, c_hi = energy, c0
+        else:
+            e_lo, c_lo = energy, c0
+        # grow the bracket geometrically from the start
+        step = max(abs(energy) * 0.5, 1e-3 * scale)
+        for _ in range(200):
+            if c_lo < 0:
+                trial = energy - step
+                if kappa_mode:
+                    trial = -((math.sqrt(-2.0 * mass * energy) * 1.6) ** 2) / (2.0 * mass) if energy < 0 else energy - step
+                if trial <= e_lo:
+                    trial = e_lo
+                ct = sturm_count(q0, rho, stride, n, h, trial, kind, l, mass, p, R, g_end, gp_end)
+                passes += 1
+                if ct > k:
+                    if trial == e_lo:
+                        return energy, 1, passes, 0.0, 0.0, 0.0  # level k lies below the grid's floor
+                    e_hi, c_hi = trial, ct
+                    energy = trial
+                    step *= 2.0
+                else:
+                    e_lo, c_lo = trial, ct
+            elif c_hi < 0:
+                if kappa_mode:
+                    kap = math.sqrt(-2.0 * mass * energy) if energy < 0 else 0.0
+                    trial = -((kap / 4.0) ** 2) / (2.0 * mass)
+                    if kap / 4.0 < 1e-9 * math.sqrt(2.0 * mass * abs(e_lo)) or trial >= e_hi:
+                        trial = e_hi if math.isfinite(e_hi) else 0.0
+                else:
+                    trial = energy + step
+                    if trial >= e_hi:
+                        trial = e_hi
+                ct = sturm_count(q0, rho, stride, n, h, trial, kind, l, mass, p, R, g_end, gp_end)
+                passes += 1
+                if ct <= k:
+                    if trial == e_hi or trial == 0.0:
+                        return energy, 4, passes, 0.0, 0.0, 0.0  # level k is not below the grid's top
+                    e_lo, c_lo = trial, ct
+                    energy = trial
+                    step *= 2.0
+                else:
+                    e_hi, c_hi = trial, ct
+            else:
+                break
+        # bisect (geometrically in κ) until level k alone is in the bracket and it is narrow
+        for _ in range(200):
+            if c_lo == k and c_hi == k + 1:
+                if kappa_mode:
+                    klo = math.sqrt(-2.0 * mass * e_lo)
+                    khi = math.sqrt(-2.0 * mass * min(e_hi, 0.0))
+                    if klo - khi <= 0.05 * klo:
+                        break
+                elif e_hi - e_lo <= 0.02 * max(abs(e_lo), abs(e_hi)):
+                    break
+            if kappa_mode:
+                klo = math.sqrt(-2.0 * mass * e_lo)
+                khi = math.sqrt(-2.0 * mass * min(e_hi, 0.0))
+                kmid = math.sqrt(klo * khi) if khi > 1e-3 * klo else 0.5 * (klo + khi)
+                mid = -kmid * kmid / (2.0 * mass)
+            else:
+                mid = 0.5 * (e_lo + e_hi)
+            if not (e_lo < mid < e_hi):
+                break
+            cm = sturm_count(q0, rho, stride, n, h, mid, kind, l, mass, p, R, g_end, gp_end)
+            passes += 1
+            if cm > k:
+                e_hi, c_hi = mid, cm
+            else:
+                e_lo, c_lo = mid, cm
+        lo, hi = e_lo, e_hi
+        if kappa_mode:
+            klo = math.sqrt(-2.0 * mass * e_lo)
+            khi = math.sqrt(-2.0 * mass * min(e_hi, 0.0))
+            kmid = 0.5 * (klo + khi)
+            energy = -kmid * kmid / (2.0 * mass)
+        else:
+            energy = 0.5 * (e_lo + e_hi)
+    # Newton (Cooley's correction), safeguarded by the bracket
+    norm = 0.0
+    first = 0.0
+    uend2 = 0.0
+    last_step = 1e300
+    status = 2
+    for it in range(60):
+        num, den, nodes, norm, first, uend2 = _join(q0, rho, r, g2, stride, n, h, energy, kind, l, mass, p, R,
+                                                g_end, gp_end, work, want_u)
+        passes += 1
+        # ΔE = −λ/λ' with λ = Y·M·Y/Y·Y = −residual·Y_m/Y·Y and λ' = Y·M'·Y/Y·Y = −den/Y·Y
+        de = -num / den if den != 0.0 else 0.0
+        if kappa_mode and energy < 0.0:
+            kap = math.sqrt(-2.0 * mass * energy)
+            knew = kap - mass * de / kap if kap > 0.0 else 0.0
+            new = -knew * knew / (2.0 * mass) if knew > 0.0 else 0.5 * energy
+            if knew <= 0.0:
+                new = 0.25 * energy
+        else:
+            new = energy + de
+        if not (lo < new < hi) or (kappa_mode and new >= 0.0):
+            # out of the bracket: halve it with a Sturm count
+            mid = 0.5 * (lo + hi) if (math.isfinite(lo) and math.isfinite(hi)) else energy + 0.5 * de
+            if not (math.isfinite(lo) and math.isfinite(hi)):
+                return energy, 2, passes, norm, first, uend2
+            cm = sturm_count(q0, rho, stride, n, h, mid, kind, l, mass, p, R, g_end, gp_end)
+            passes += 1
+            if cm > k:
+                hi = mid
+            else:
+                lo = mid
+            energy = mid
+            last_step = 1e300
+            continue
+        step = abs(new - energy)
+        energy = new
+        # relative to |E| (with a floor for eigenvalues near zero in E mode): stop once a step is
+        # both small and a thousandth of the one before (Newton's quadratic contraction: the
+        # next one would be at roundoff), or at roundoff, or when steps stop shrinking there
+        size = abs(energy) if kappa_mode else abs(energy) + 1e-2 * scale
+        if (step <= 1e-9 * size and step <= 1e-3 * last_step) or step <= 4e-16 * size or (
+                step <= 1e-13 * size and step >= 0.5 * last_step):
+            status = 0 if nodes == k else 3
+            break
+        last_step = step
+    return energy, status, passes, norm, first, uend2
+
+
+@njit(cache=True)
+def outward_solution(q0, rho, stride, n, h, energy):
+    """The outward Numerov solution w_0..w_N at ``energy`` (w_0 = 0), scaled to max |w| = 1."""
+    h2 = h * h
+    y = np.zeros(n + 1)
+    w = np.zeros(n + 1)
+    y[1] = 1e-300
+    for j in range(1, n):
+        i = j * stride
+        cq = h2 * (q0[i] - energy * rho[i])
+        d = (2.0 + 10.0 * cq / 12.0) / (1.0 - cq / 12.0)
+        y[j + 1] = d * y[j] - y[j - 1]
+        if abs(y[j + 1]) > 1e250:
+            for jj in range(j + 2):
+                y[jj] *= 1e-250
+    big = 0.0
+    for j in range(n + 1):
+        i = j * stride
+        w[j] = y[j] / (1.0 - h2 * (q0[i] - energy * rho[i]) / 12.0)
+        if abs(w[j]) > big:
+            big = abs(w[j])
+    for j in range(n + 1):
+        w[j] /= big
+    return w
+
+
+@njit(cache=True)
+def design_map(rs, veff, energy, mass, l, r_min, R, theta, h_max, betas, r_core):
+    """Choose β among ``betas``, the inner compression c and the coarse step h for the map, so
+    that the local wavenumber |Q|^{1/2} in t is resolved to ``theta`` per step on [r_min, R].
+
+    Samples (rs, veff) of V_eff; outside the inner knee r_core the map is the softplus
+    (g = β(1 − e^{−r/β}), F = (1 − p²)/4); inside it the logarithmic stretch is compressed by
+    1 + c, where Q → (l + ½)²(1 + c)² and nothing oscillates.  Returns (β, c, tc, t0, t1, n)."""
+    best = 1e300
+    best_beta = betas[0]
+    best_h = h_max
+    best_c = 0.0
+    inner = math.log(max(r_core, r_min) / r_min)  # the logarithmic stretch below the knee
+    for b in range(betas.size):
+        beta = betas[b]
+        kmax = 0.0
+        for j in range(rs.size):
+            rj = rs[j]
+            if rj < r_core or rj > R:
+                continue
+            p = -math.expm1(-rj / beta)
+            g = beta * p
+            F = 0.25 * (1.0 - p * p)
+            qv = abs(2.0 * mass * g * g * (veff[j] - energy) + F)
+            if qv > kmax * kmax:
+                kmax = math.sqrt(qv)
+        h = min(theta / kmax, h_max) if kmax > 0.0 else h_max
+        # below the knee Q → (l + ½)²(1 + c)²: compress as far as θ allows
+        c = max(0.0, min(theta / (h * (l + 0.5)) - 1.0, C_MAX))
+        y = R / beta
+        s1 = y + math.log(-math.expm1(-y)) if y > 30.0 else math.log(math.expm1(y))
+        y0 = max(r_core, r_min) / beta
+        s0 = y0 + math.log(-math.expm1(-y0)) if y0 > 30.0 else math.log(math.expm1(y0))
+        steps = ((s1 - s0) + inner / (1.0 + c)) / h
+        if steps < best:
+            best = steps
+            best_beta = beta
+            best_h = h
+            best_c = c
+    beta = best_beta
+    h = best_h
+    c = best_c
+    y0 = r_core / beta
+    tc = y0 + math.log(-math.expm1(-y0)) if y0 > 30.0 else math.log(math.expm1(y0))
+    if r_core <= r_min * 4.0:
+        c = 0.0
+    t0 = t_of_r(beta, c, tc, r_min)
+    t1 = t_of_r(beta, c, tc, R)
+    n = int(math.ceil((t1 - t0) / h))
+    n = max(16, n + (n % 2))
+    return beta, c, tc, t0, t1, n
+
+
+@njit(cache=True)
+def _action(rs, vlanger, mass, e, dln):
+    total = 0.0
+    for j in range(rs.size):
+        k2 = 2.0 * mass * (e - vlanger[j])
+        if k2 > 0.0:
+            total += math.sqrt(k2) * rs[j]
+    return total * dln
+
+
+@njit(cache=True)
+def wkb_energy(rs, vlanger, mass, phase, e_lo, e_hi, iterations, dln):
+    """Energy at which ∫√(2μ(E − V_L)) dr = ``phase`` (Langer's V_L; a sum in ln r over the
+    log-spaced samples, step ``dln``), by bisection in [e_lo, e_hi]; NaN if even e_hi gives less phase."""
+    if _action(rs, vlanger, mass, e_hi, dln) < phase:
+        return math.nan
+    a, b = e_lo, e_hi
+    for _ in range(iterations):
+        mid = 0.5 * (a + b)
+        if _action(rs, vlanger, mass, mid, dln) < phase:
+            a = mid
+        else:
+            b = mid
+    return 0.5 * (a + b)
