@@ -67,45 +67,48 @@ class MappedGrid:
 
     def nodes(self) -> np.ndarray:
         """r at the nodes i = 0..n."""
-        r, _, _ = nv.map_nodes(self.beta, self.c, self.tc, self.t0, self.h, self.n + 1, self.r_max, self.n)
-        return r
+        return nv.map_nodes(self.beta, self.c, self.tc, self.t0, self.h, self.n + 1, self.r_max, self.n)[0]
 
 
 @dataclass
 class GridArrays:
-    """Numerov arrays of a grid refined REFINE times, with ghost nodes past r_max for every stride.
-
-    Q(E) = q0 − E·rho at node i; r, g2 = g²; node REFINE·n is r_max."""
+    """Numerov arrays of a grid refined ``refine`` times, with ghost nodes past r_max for every
+    stride: rows r, g², F, Q0, ρ of ``a`` (Q(E) = Q0 − E·ρ); node refine·n is r_max."""
 
     grid: MappedGrid
-    r: np.ndarray
-    g2: np.ndarray
-    q0: np.ndarray
-    rho: np.ndarray
+    a: np.ndarray
     g_end: float  # g and g'/g at r_max, for the outer condition
     gp_end: float
+    refine: int = REFINE
+
+    @property
+    def r(self) -> np.ndarray:
+        return self.a[0]
+
+    @property
+    def g2(self) -> np.ndarray:
+        return self.a[1]
 
     def steps(self, stride: int) -> int:
-        return self.grid.n * REFINE // stride
+        return self.grid.n * self.refine // stride
 
     def step(self, stride: int) -> float:
-        return self.grid.h * stride / REFINE
+        return self.grid.h * stride / self.refine
 
 
-def build_arrays(grid: MappedGrid, potential, continued, mass: float, l: int) -> GridArrays:
-    """Nodes of ``grid`` refined REFINE times, V there, and Q's two parts.
+def build_arrays(grid: MappedGrid, potential, continued, mass: float, l: int, refine: int = REFINE) -> GridArrays:
+    """Nodes of ``grid`` refined ``refine`` times, V there, and Q's two parts.
 
     ``potential(r)`` is V (hartree) on [r_min, r_max]; ``continued(r)`` V's interior formula
     continued past r_max, for the ghost nodes (it differs where V jumps at r_max)."""
-    n_fine = grid.n * REFINE
-    h = grid.h / REFINE
-    r, g2, F = nv.map_nodes(grid.beta, grid.c, grid.tc, grid.t0, h, n_fine + REFINE + 1, grid.r_max, n_fine)
-    v = np.empty_like(r)
-    v[:n_fine + 1] = potential(r[:n_fine + 1])
-    v[n_fine + 1:] = continued(r[n_fine + 1:])
-    q0, rho = nv.assemble(r, g2, F, v, mass, l)
+    n_fine = grid.n * refine
+    a = nv.map_nodes(grid.beta, grid.c, grid.tc, grid.t0, grid.h / refine, n_fine + refine + 1, grid.r_max, n_fine)
+    v = np.empty(a.shape[1])
+    v[:n_fine + 1] = potential(a[0, :n_fine + 1])
+    v[n_fine + 1:] = continued(a[0, n_fine + 1:])
+    nv.assemble(a, v, mass, l)
     _, g_end, gp_end, _ = nv.map_point(grid.beta, grid.c, grid.tc, grid.t1)
-    return GridArrays(grid, r, g2, q0, rho, g_end, gp_end)
+    return GridArrays(grid, a, g_end, gp_end, refine)
 
 
 def design_grid(samples_r, samples_veff, mass: float, l: int, energy: float, r_min: float, R: float,

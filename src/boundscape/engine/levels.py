@@ -28,12 +28,15 @@ import numpy as np
 from ..checks import quantum_number
 from ..errors import ConvergenceError
 from ..labels import state_label
+from . import cell as compiled
 from . import grid as fd
 from . import numerov as nv
+from .compiled_potentials import kernel_of
+from .effective import ORIGIN_TOLERANCE
 from .potential import Potential
-from .problem import RadialProblem, problem_for
+from .problem import DECAY_LENGTHS, SAMPLES, RadialProblem, problem_for
 from .status import NOT_CONVERGED, OK
-from .zero_energy import zero_energy_problem
+from .zero_energy import MARGIN, zero_energy_problem
 
 __all__ = ["BoundLevels", "bound_levels", "LevelSolution", "solve_level", "level_on_grid",
            "DEFAULT_LEVELS", "RTOL"]
@@ -94,14 +97,15 @@ def bound_levels(pot: Potential, l: int, n_r_max: int | None = None, wavefunctio
     l = quantum_number(l)
     if n_r_max is not None:
         n_r_max = quantum_number(n_r_max, "n_r_max")
-    if pot.tail == "short":
-        count = zero_energy_problem(pot, l).count()
-        keep = count if n_r_max is None else min(count, n_r_max)
+    keep_max = -1 if n_r_max is None else n_r_max
+    if pot.tail != "short" and n_r_max is None:
+        keep_max = DEFAULT_LEVELS
+    cell = compiled_cell(pot, l, keep_max, rtol)
+    if cell is not None:
+        count, solved = cell
     else:
-        count = -1
-        keep = DEFAULT_LEVELS if n_r_max is None else n_r_max
-    problem = problem_for(pot, l, keep)
-    solved = [_solve(problem, k, _guess(problem, k, keep), rtol, wavefunctions) for k in range(keep)]
+        count, solved = _python_cell(pot, l, keep_max, rtol, wavefunctions)
+    keep = len(solved)
     out = BoundLevels(
         l=l,
         energy=np.array([lv.energy for lv in solved]),
@@ -116,9 +120,88 @@ def bound_levels(pot: Potential, l: int, n_r_max: int | None = None, wavefunctio
     if np.any(np.diff(finite) <= 0):
         raise ConvergenceError(f"levels of l={l} came out unordered for {pot}: {out.energy}")
     if wavefunctions:
+        for lv in solved:
+            if lv.u is None and lv.grid is not None:
+                _attach_wavefunction(pot, lv)
         out.r = [lv.r for lv in solved]
         out.u = [lv.u for lv in solved]
     return out
+
+
+def _python_cell(pot, l, keep_max, rtol, want_u):
+    """The count and levels of a cell step by step in Python (families without compiled V)."""
+    count = zero_energy_problem(pot, l).count() if pot.tail == "short" else -1
+    keep = count if keep_max < 0 else (min(count, keep_max) if count >= 0 else keep_max)
+    problem = problem_for(pot, l, max(keep, DEFAULT_LEVELS) if pot.tail != "short" else keep)
+    return count, [_solve(problem, k, _guess(problem, k, keep), rtol, want_u) for k in range(keep)]
+
+
+def _reach(pot, l, keep):
+    """Farthest radius a box of the lowest ``keep`` levels may need (bohr)."""
+    if math.isfinite(pot.support):
+        return float(pot.support)
+    _, reach = pot.exterior(l).survey_window(max(keep, DEFAULT_LEVELS, 1), DECAY_LENGTHS)
+    return 1.5 * reach
+
+
+def _top(pot, l, keep):
+    """Top of the energy window the guesses are sought in (hartree)."""
+    if pot.tail != "confining":
+        return 0.0
+    return 1.5 * pot.exterior(l).survey_window(max(keep, DEFAULT_LEVELS), 8.0)[0]
+
+
+def compiled_cell(pot, l, keep_max, rtol=RTOL):
+    """Count and levels of a cell in one compiled call (:mod:`.cell`); None if the family has no
+    compiled formula.  ``keep_max``: levels wanted, −1 for all (short range only)."""
+    kernel = kernel_of(pot)
+    if kernel is None:
+        return None
+    code, fp, tx, tcoef = kernel
+    problem = RadialProblem(pot, l, 0.0)
+    kind, p = problem.tail_code
+    support = float(pot.support)
+    count, count_status, rows = compiled.solve_cell(
+        code, fp, tx, tcoef, float(pot.mass), int(l), kind, p, support, problem.jumps_at_support,
+        float(pot.length_scale), float(pot.energy_scale), _reach(pot, l, keep_max), _top(pot, l, keep_max),
+        int(keep_max), fd.THETA,
+        fd.H_MAX, float(rtol), MARGIN, DECAY_LENGTHS, ORIGIN_TOLERANCE, SAMPLES, ATTEMPTS, ROUNDOFF)
+    if count_status:
+        raise ConvergenceError(f"zero-energy eigenvalue of l={l} for {pot} near threshold did not converge")
+    col = compiled.ROW
+    solved = []
+    exterior = pot.exterior(l)
+    for k, row in enumerate(rows):
+        energy, err = float(row[col["energy"]]), float(row[col["error"]])
+        status = int(row[col["status"]])
+        reason = compiled.REASONS[int(row[col["reason"]])]
+        if not math.isfinite(energy):
+            solved.append(LevelSolution(l, k, math.nan, math.inf, math.nan, NOT_CONVERGED, reason))
+            continue
+        if status:
+            reason = f"error estimate {err:.2e} hartree exceeds rtol {rtol:g}·|E|"
+        R = float(row[col["R"]])
+        t0, t1 = exterior.tail_moments(energy, R) if row[col["closed"]] else (0.0, 0.0)
+        radii = [(row[col[f"first{j}"]] + t1 * row[col[f"uend{j}"]]) / (row[col[f"norm{j}"]] + t0 * row[col[f"uend{j}"]])
+                 for j in range(3)]
+        grid = fd.MappedGrid(problem.r_min, R, *(float(row[col[name]]) for name in ("beta", "c", "tc", "t0", "t1")),
+                             int(row[col["n"]]))
+        solved.append(LevelSolution(l, k, energy, err, fd.richardson(radii)[0], status, reason, grid,
+                                    tuple(float(row[col[f"e{j}"]]) for j in range(3))))
+    return count, solved
+
+
+def _attach_wavefunction(pot, lv):
+    """u(r) of a solved level on its finest grid, normalised with the exterior part."""
+    problem = RadialProblem(pot, lv.l, lv.grid.r_max)
+    arrays = problem.arrays(lv.grid)
+    e, status, _, norm, _, uend2, w = _pass(problem, arrays, problem.params(arrays), 1, lv.n_r, lv.grid_energies[2],
+                                            want_u=True)
+    R = lv.grid.r_max
+    t0 = pot.exterior(lv.l).tail_moments(lv.energy, R)[0] if problem.box_is_closed_exactly(R) else 0.0
+    n = arrays.steps(1)
+    lv.r = arrays.r[: n + 1].copy()
+    lv.u = _oriented(np.sqrt(np.sqrt(arrays.g2[: n + 1])) * w[: n + 1] / math.sqrt(norm + t0 * uend2))
 
 
 @dataclass
@@ -163,11 +246,15 @@ def solve_level(pot: Potential, l: int, n_r: int, rtol: float = RTOL, wavefuncti
     """
     l = quantum_number(l)
     n_r = quantum_number(n_r, "n_r")
-    if pot.tail == "short" and n_r >= zero_energy_problem(pot, l).count():
-        raise ConvergenceError(f"level n_r={n_r}, l={l} is not bound in {pot}")
-    keep = n_r + 1
-    problem = problem_for(pot, l, keep if pot.tail == "short" else max(keep, DEFAULT_LEVELS))
-    return _solve(problem, n_r, _guess(problem, n_r, keep), rtol, wavefunction)
+    keep = max(n_r + 1, DEFAULT_LEVELS) if pot.tail != "short" else n_r + 1
+    cell = compiled_cell(pot, l, keep, rtol)
+    count, solved = cell if cell is not None else _python_cell(pot, l, keep, rtol, False)
+    if n_r >= len(solved):
+        raise ConvergenceError(f"level n_r={n_r}, l={l} is not bound in {pot} (it binds {count})")
+    lv = solved[n_r]
+    if wavefunction and lv.grid is not None and lv.u is None:
+        _attach_wavefunction(pot, lv)
+    return lv
 
 
 def level_on_grid(pot: Potential, l: int, n_r: int, grid: fd.MappedGrid, energy: float):
@@ -198,7 +285,8 @@ def level_on_grid(pot: Potential, l: int, n_r: int, grid: fd.MappedGrid, energy:
     """
     problem = problem_for(pot, quantum_number(l), quantum_number(n_r, "n_r") + 1)
     arrays = problem.arrays(grid)  # ``grid`` refined REFINE times: ``grid`` itself is stride REFINE
-    e, status, _, norm, _, uend2, w = _pass(problem, arrays, fd.REFINE, n_r, energy, True, want_u=True)
+    e, status, _, norm, _, uend2, w = _pass(problem, arrays, problem.params(arrays), fd.REFINE, n_r, energy,
+                                            want_u=True)
     if status != 0:
         raise ConvergenceError(f"level n_r={n_r}, l={l}: no discrete eigenvalue found on the given grid (status {status})")
     R = grid.r_max
@@ -226,8 +314,7 @@ def _guess(problem: RadialProblem, k: int, keep: int) -> float:
     """First guess of level k: Langer-WKB below the top of the spectrum searched."""
     pot = problem.pot
     if pot.tail == "confining":
-        e_top, _ = pot.exterior(problem.l).survey_window(max(keep, 1), 8.0)
-        e_top *= 1.5
+        e_top = 1.5 * pot.exterior(problem.l).survey_window(max(keep, DEFAULT_LEVELS), 8.0)[0]
     else:
         e_top = 0.0
     guess = problem.wkb_guess(k, e_top)
@@ -236,26 +323,14 @@ def _guess(problem: RadialProblem, k: int, keep: int) -> float:
     return guess
 
 
-def _pass(problem, arrays, stride, k, energy, locate, want_u=False, lo=-math.inf, hi=math.inf):
-    """Level k on the grid of ``stride`` in ``arrays`` (see :func:`numerov.solve_level`)."""
-    pot = problem.pot
-    kind, p = problem.tail_code
+def _pass(problem, arrays, prm, stride, k, start, near=None, want_u=False):
+    """Level k on the grid of ``stride`` in ``arrays`` (see :func:`numerov.solve_grid`): Newton
+    from ``start``, Sturm bisection from ``near`` if that fails; returns its results and w."""
     n = arrays.steps(stride)
     work = np.empty(n + 2)
-    e, status, passes, norm, first, uend2 = nv.solve_level(
-        arrays.q0, arrays.rho, arrays.r, arrays.g2, stride, n, arrays.step(stride), k, energy, lo, hi, locate,
-        pot.tail != "confining", pot.energy_scale, kind, problem.l, pot.mass, p, arrays.grid.r_max,
-        arrays.g_end, arrays.gp_end, work, want_u)
-    return e, status, passes, norm, first, uend2, work
-
-
-def _fine_pass(problem, arrays, stride, k, start, near):
-    """Newton's method from ``start``; if it does not settle on a level with k nodes, level k is
-    isolated by Sturm bisection from ``near`` first."""
-    out = _pass(problem, arrays, stride, k, start, False)
-    if out[1] != 0:
-        out = _pass(problem, arrays, stride, k, near, True)
-    return out
+    out = nv.solve_grid(arrays.a, prm, stride, n, arrays.step(stride), k, start, start if near is None else near,
+                        work, want_u)
+    return (*out, work)
 
 
 def _solve(problem: RadialProblem, k: int, guess: float, rtol: float, want_u: bool) -> LevelSolution:
@@ -271,7 +346,8 @@ def _solve(problem: RadialProblem, k: int, guess: float, rtol: float, want_u: bo
         R = problem.box(energy)
         grid = problem.design(energy, R, theta)
         arrays = problem.arrays(grid)
-        e1, status, _, *_ = first = _fine_pass(problem, arrays, 4, k, energy, energy)
+        prm = problem.params(arrays)
+        e1, status, _, *_ = first = _pass(problem, arrays, prm, 4, k, energy)
         if status == 1:  # deeper than this grid resolves
             energy = 4.0 * energy if bound and energy < 0 else energy - pot.energy_scale
             why = "level below the grid's reach"
@@ -290,8 +366,8 @@ def _solve(problem: RadialProblem, k: int, guess: float, rtol: float, want_u: bo
         if bound and not _fits(problem, energy, e1, R):
             energy = e1
             continue
-        second = _fine_pass(problem, arrays, 2, k, e1, e1)
-        third = _fine_pass(problem, arrays, 1, k, second[0] + (second[0] - e1) / 15.0, second[0])
+        second = _pass(problem, arrays, prm, 2, k, e1)
+        third = _pass(problem, arrays, prm, 1, k, second[0] + (second[0] - e1) / 15.0, second[0])
         if second[1] != 0 or third[1] != 0:
             why = f"Newton iteration on a finer grid failed (status {second[1]}, {third[1]})"
             theta *= 0.6
@@ -314,7 +390,7 @@ def _solve(problem: RadialProblem, k: int, guess: float, rtol: float, want_u: bo
         status, reason = NOT_CONVERGED, f"error estimate {err:.2e} hartree exceeds rtol {rtol:g}·|E|"
     out = LevelSolution(l, k, best, err, r_best, status, reason, grid, tuple(v[0] for v in values))
     if want_u:
-        e, status_u, _, norm, _, uend2, w = _pass(problem, arrays, 1, k, values[2][0], False, want_u=True)
+        e, status_u, _, norm, _, uend2, w = _pass(problem, arrays, prm, 1, k, values[2][0], want_u=True)
         n = arrays.steps(1)
         g = np.sqrt(arrays.g2[: n + 1])
         out.r = arrays.r[: n + 1].copy()

@@ -29,8 +29,8 @@ import math
 import numpy as np
 from numba import njit
 
-__all__ = ["map_point", "map_nodes", "t_of_r", "assemble", "exterior_log_derivative", "sturm_count",
-           "solve_level", "design_map", "wkb_energy", "outward_solution", "TAIL_SHORT", "TAIL_COULOMB",
+__all__ = ["map_point", "map_nodes", "t_of_r", "assemble", "exterior_log_derivative", "sturm_count", "sturm",
+           "solve_level", "solve_grid", "design_map", "wkb_energy", "outward_solution", "TAIL_SHORT", "TAIL_COULOMB",
            "TAIL_CONFINING", "TAIL_FIXED"]
 
 # Outer conditions: the decaying exterior solution of a short-range, Coulomb or oscillator tail,
@@ -76,19 +76,48 @@ def map_point(beta, c, tc, t):
 
 @njit(cache=True)
 def map_nodes(beta, c, tc, t0, h, n, r_end, i_end):
-    """r, g² and the Liouville term F = ¾(g'/g)² − ½g''/g at t0 + i·h, i < n; node ``i_end``
-    is set to exactly ``r_end`` (the outer condition is evaluated there)."""
-    r = np.empty(n)
-    g2 = np.empty(n)
-    F = np.empty(n)
+    """Rows r, g², F = ¾(g'/g)² − ½g''/g (and room for Q's two parts, see :func:`assemble`) at
+    t0 + i·h, i < n; node ``i_end`` is set to exactly ``r_end`` (the outer condition is
+    evaluated there).  Far from the knees the logistic terms are below rounding and skipped."""
+    out = np.empty((5, n))
     for i in range(n):
-        ri, g, gp, gpp = map_point(beta, c, tc, t0 + i * h)
-        r[i] = ri
-        g2[i] = g * g
-        F[i] = 0.75 * gp * gp - 0.5 * gpp
+        t = t0 + i * h
+        u = tc - t
+        if c == 0.0 or u < -40.0:
+            s, s1, s2, s3 = t, 1.0, 0.0, 0.0
+        elif u > 40.0:
+            s, s1, s2, s3 = t - c * u, 1.0 + c, 0.0, 0.0
+        else:
+            e = math.exp(-abs(u))
+            sc = 1.0 / (1.0 + e) if u >= 0.0 else e / (1.0 + e)
+            s = t - c * (max(u, 0.0) + math.log1p(e))
+            s1 = 1.0 + c * sc
+            s2 = -c * sc * (1.0 - sc)
+            s3 = -s2 * (1.0 - 2.0 * sc)
+        if s > 37.0:
+            q = math.exp(-s)
+            sp, p = s, 1.0
+        elif s < -37.0:
+            p = math.exp(s)
+            sp, q = p, 1.0
+        else:
+            e = math.exp(-abs(s))
+            sp = max(s, 0.0) + math.log1p(e)
+            if s >= 0.0:
+                p = 1.0 / (1.0 + e)
+                q = e * p
+            else:
+                q = 1.0 / (1.0 + e)
+                p = e * q
+        g = beta * p * s1
+        gp = q * s1 + s2 / s1
+        gpp = q * (q - p) * s1 * s1 + 3.0 * q * s2 + s3 / s1
+        out[0, i] = beta * sp
+        out[1, i] = g * g
+        out[2, i] = 0.75 * gp * gp - 0.5 * gpp
     if 0 <= i_end < n:
-        r[i_end] = r_end
-    return r, g2, F
+        out[0, i_end] = r_end
+    return out
 
 
 @njit(cache=True)
@@ -111,16 +140,41 @@ def t_of_r(beta, c, tc, r):
 
 
 @njit(cache=True)
-def assemble(r, g2, F, v, mass, l):
-    """Q0 = 2μg²V_eff + F and ρ = 2μg², so that Q(E) = Q0 − E·ρ."""
-    n = r.size
-    q0 = np.empty(n)
-    rho = np.empty(n)
+def assemble(a, v, mass, l):
+    """Rows 3 and 4 of ``a`` (from :func:`map_nodes`): Q0 = 2μg²V_eff + F and ρ = 2μg², so that
+    Q(E) = Q0 − E·ρ; ``v`` is V at the nodes."""
     cen = l * (l + 1.0)
-    for i in range(n):
-        rho[i] = 2.0 * mass * g2[i]
-        q0[i] = rho[i] * v[i] + g2[i] * cen / (r[i] * r[i]) + F[i]
-    return q0, rho
+    for i in range(a.shape[1]):
+        g2 = a[1, i]
+        ri = a[0, i]
+        a[4, i] = 2.0 * mass * g2
+        a[3, i] = a[4, i] * v[i] + g2 * cen / (ri * ri) + a[2, i]
+
+
+@njit(cache=True)
+def sturm(a, prm, stride, n, h, energy):
+    """:func:`sturm_count` on the arrays of :func:`map_nodes` and the parameters of :func:`solve_grid`."""
+    return sturm_count(a[3], a[4], stride, n, h, energy, int(prm[2]), int(prm[1]), prm[0], prm[3], prm[4],
+                       prm[5], prm[6])
+
+
+@njit(cache=True)
+def solve_grid(a, prm, stride, n, h, k, start, near, work, want_u):
+    """Level k on the grid of every ``stride``-th node of ``a``: Newton's method from ``start``,
+    and if that does not settle on a level with k nodes, Sturm bisection from ``near`` first.
+
+    ``prm`` = (μ, l, tail kind, tail parameter, R, g(R), g'/g(R), energy scale, κ mode, lo, hi).
+    Returns (energy, status, passes, ∫u² dr, ∫r u² dr, u(R)²) as :func:`solve_level`."""
+    mass, l, kind, p, R, g_end, gp_end, scale = prm[0], int(prm[1]), int(prm[2]), prm[3], prm[4], prm[5], prm[6], prm[7]
+    kappa_mode = prm[8] != 0.0
+    lo, hi = prm[9], prm[10]
+    out = solve_level(a[3], a[4], a[0], a[1], stride, n, h, k, start, lo, hi, False, kappa_mode, scale,
+                      kind, l, mass, p, R, g_end, gp_end, work, want_u)
+    if out[1] == 0:
+        return out
+    again = solve_level(a[3], a[4], a[0], a[1], stride, n, h, k, near, lo, hi, True, kappa_mode, scale,
+                        kind, l, mass, p, R, g_end, gp_end, work, want_u)
+    return (again[0], again[1], again[2] + out[2], again[3], again[4], again[5])
 
 
 @njit(cache=True)

@@ -30,7 +30,7 @@ from .potential import Potential
 __all__ = ["RadialProblem", "DECAY_LENGTHS", "SAMPLES"]
 
 DECAY_LENGTHS = 20.0
-SAMPLES = 400  # log-spaced samples of V_eff, for boxes, grid design and guesses
+SAMPLES = 256  # log-spaced samples of V_eff, for boxes, grid design and guesses
 _TAIL_CODES = {"short": nv.TAIL_SHORT, "coulomb": nv.TAIL_COULOMB, "confining": nv.TAIL_CONFINING}
 
 
@@ -111,9 +111,18 @@ class RadialProblem:
         return fd.design_grid(r, veff, self.pot.mass, self.l, energy, self.r_min, R,
                               0.1 * self.pot.length_scale, theta)
 
-    def arrays(self, grid: fd.MappedGrid) -> fd.GridArrays:
+    def arrays(self, grid: fd.MappedGrid, refine: int = fd.REFINE) -> fd.GridArrays:
         pot = self.pot
-        return fd.build_arrays(grid, pot, lambda r: pot.info.continued(pot, r), pot.mass, self.l)
+        return fd.build_arrays(grid, pot, lambda r: pot.info.continued(pot, r), pot.mass, self.l, refine)
+
+    def params(self, arrays: fd.GridArrays, tail: tuple[int, float] | None = None) -> np.ndarray:
+        """The parameter vector of :func:`numerov.solve_grid` for ``arrays`` (outer condition
+        ``tail``, default the problem's own; a fixed condition is solved in E, others in κ)."""
+        kind, p = tail or self.tail_code
+        pot = self.pot
+        kappa_mode = kind in (nv.TAIL_SHORT, nv.TAIL_COULOMB)
+        return np.array([pot.mass, self.l, kind, p, arrays.grid.r_max, arrays.g_end, arrays.gp_end,
+                         pot.energy_scale, float(kappa_mode), -math.inf, math.inf])
 
     def wkb_guess(self, n_r: int, e_top: float) -> float:
         """Langer-WKB energy of level n_r below ``e_top`` (NaN if there is not enough phase)."""

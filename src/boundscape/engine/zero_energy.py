@@ -48,13 +48,19 @@ class ZeroEnergyProblem:
     grid: fd.MappedGrid
     problem: RadialProblem
     _arrays: fd.GridArrays | None = field(default=None, repr=False)
+    _coarse: fd.GridArrays | None = field(default=None, repr=False)
     _cache: dict = field(default_factory=dict, repr=False)
 
     @property
     def arrays(self) -> fd.GridArrays:
+        """The design grid refined REFINE times (built when an eigenvalue is asked for)."""
         if self._arrays is None:
             self._arrays = self.problem.arrays(self.grid)
         return self._arrays
+
+    @property
+    def tail(self) -> tuple[int, float]:
+        return nv.TAIL_FIXED, -self.l / self.grid.r_max
 
     @property
     def scale(self) -> float:
@@ -62,10 +68,12 @@ class ZeroEnergyProblem:
         return self.pot.energy_scale
 
     def _count_below(self, value: float) -> int:
-        a = self.arrays
-        return int(nv.sturm_count(a.q0, a.rho, fd.STRIDES[0], a.steps(fd.STRIDES[0]), a.step(fd.STRIDES[0]), value,
-                                  nv.TAIL_FIXED, self.l, self.pot.mass, -self.l / self.grid.r_max,
-                                  self.grid.r_max, a.g_end, a.gp_end))
+        """Sturm count on the design grid alone (built on its own: a count needs no refinement)."""
+        if self._coarse is None:
+            self._coarse = self.problem.arrays(self.grid, refine=1)
+            self._coarse_prm = self.problem.params(self._coarse, self.tail)
+        a = self._coarse
+        return int(nv.sturm(a.a, self._coarse_prm, 1, a.steps(1), a.step(1), value))
 
     def coarse_count(self) -> int:
         """Number of μ_k below zero on the design grid."""
@@ -80,14 +88,8 @@ class ZeroEnergyProblem:
             n = a.steps(stride)
             coarser = [v for (kk, f), v in sorted(self._cache.items()) if kk == k and f < factor]
             start = coarser[-1] if coarser else 0.0
-            out = None
-            for locate in ((False, True) if coarser else (True,)):
-                out = nv.solve_level(a.q0, a.rho, a.r, a.g2, stride, n, a.step(stride), k, start,
-                                     -math.inf, math.inf, locate, False, self.scale, nv.TAIL_FIXED, self.l,
-                                     self.pot.mass, -self.l / self.grid.r_max, self.grid.r_max, a.g_end,
-                                     a.gp_end, np.empty(n + 2), False)
-                if out[1] == 0:
-                    break
+            out = nv.solve_grid(a.a, self.problem.params(a, self.tail), stride, n, a.step(stride), k, start, start,
+                                np.empty(n + 2), False)
             if out[1] != 0:
                 raise ConvergenceError(f"zero-energy eigenvalue k={k}, l={self.l} of {self.pot} did not "
                                        f"converge (status {out[1]})")
@@ -159,7 +161,7 @@ def zero_energy_solution(pot: Potential, l: int):
     problem = zero_energy_problem(pot, l)
     a = problem.arrays
     n = a.steps(1)
-    w = nv.outward_solution(a.q0, a.rho, 1, n, a.step(1), 0.0)
+    w = nv.outward_solution(a.a[3], a.a[4], 1, n, a.step(1), 0.0)
     r = a.r[: n + 1]
     u = w * np.sqrt(np.sqrt(a.g2[: n + 1]))
     u /= np.max(np.abs(u))
