@@ -22,7 +22,7 @@ __all__ = ["solve_cell", "ROW", "REASONS"]
 # Columns of a level's row in the result.
 ROW = {name: i for i, name in enumerate(
     ("energy", "error", "status", "reason", "R", "closed", "norm0", "norm1", "norm2", "first0", "first1", "first2",
-     "uend0", "uend1", "uend2", "beta", "c", "tc", "t0", "t1", "n", "e0", "e1", "e2"))}
+     "uend0", "uend1", "uend2", "beta", "c", "tc", "t0", "t1", "n", "e0", "e1", "e2", "passes", "attempts"))}
 REASONS = ("", "level below the reach of every grid tried", "level not bound on its grid (within discretisation "
            "error of threshold)", "Newton iteration on the coarse grid failed", "Newton iteration on a finer grid "
            "failed", "error estimate exceeds the tolerance", "no attempt converged")
@@ -121,28 +121,36 @@ def _zero_energy_count(code, fp, tx, tcoef, mass, l, rs, veff, r_min, support, r
         k = count
     if k < 0:
         return count, 0
-    fine, g_end, gp_end = _build(code, fp, tx, tcoef, mass, l, beta, c, tc, t0, t1, n, support, 4)
-    prm = _prm(mass, l, nv.TAIL_FIXED, fixed, support, g_end, gp_end, scale, False)
-    mu = np.empty(3)
-    start = 0.0
-    status = 0
+    # μ_k on the grids h and h/2 (bracketed on h by the counts), and on h/4 if still unclear
+    lo, hi = (-delta, 0.0) if k == count - 1 else (0.0, delta)
+    mu = np.zeros(3)
+    start = 0.5 * (lo + hi)
     value = 0.0
     for i in range(3):
-        stride = 4 >> i
-        nn = n * 4 // stride
-        out = nv.solve_grid(fine, prm, stride, nn, h * stride / 4.0, k, start, start, np.empty(nn + 2), False)
-        if out[1] != 0:
-            status = 1
-            break
-        mu[i] = out[0]
-        start = out[0]
-        if i == 1 and abs(mu[1]) > 30.0 * abs(mu[0] - mu[1]):
-            value = mu[1]
-            break
-        if i == 2:
+        if i == 0:
+            fine, ge, gpe = a, g_end, gp_end
+        else:
+            fine, ge, gpe = _build(code, fp, tx, tcoef, mass, l, beta, c, tc, t0, t1, n, support, 2 * i)
+        prm = _prm(mass, l, nv.TAIL_FIXED, fixed, support, ge, gpe, scale, False)
+        if i == 0:
+            prm[9], prm[10] = lo, hi
+        nn = n * (1 if i == 0 else 2 * i)
+        out = nv.solve_grid(fine, prm, 1, nn, (t1 - t0) / nn, k, start, start, np.empty(nn + 2), False)
+        if out[1] == 1:
+            mu[i] = out[0]  # below the grid's floor: negative, as far as the count goes
+        elif out[1] != 0:
+            return count, 1
+        else:
+            mu[i] = out[0]
+        if i == 1:
+            if abs(mu[1]) > 30.0 * abs(mu[0] - mu[1]):
+                value = mu[1]
+                break
+            start = mu[1] + (mu[1] - mu[0]) / 15.0
+        elif i == 2:
             value = _richardson(mu[0], mu[1], mu[2])[0]
-    if status != 0:
-        return count, 1
+        else:
+            start = mu[0]
     if k == count - 1 and value >= 0.0:
         return count - 1, 0
     if k == count and value < 0.0:
@@ -236,7 +244,10 @@ def _level(code, fp, tx, tcoef, mass, l, kind, tail_p, support, jumps, scale, k,
     beta = c = tc = t0 = t1 = 0.0
     n = 0
     closed = False
+    passes = 0
+    tried = 0
     for _attempt in range(attempts):
+        tried += 1
         R = _box(rs, veff, energy, mass, kind, tail_p, support, jumps, rs[-1], decay, l)
         if R > rs[-1] * (1.0 + 1e-9):
             # a box beyond the samples: sample again out to it
@@ -247,6 +258,7 @@ def _level(code, fp, tx, tcoef, mass, l, kind, tail_p, support, jumps, scale, k,
         prm = _prm(mass, l, kind, tail_p, R, g_end, gp_end, scale, bound)
         h = (t1 - t0) / n
         first = nv.solve_grid(a, prm, 4, n, h, k, energy, energy, np.empty(n + 2), False)
+        passes += first[2] * n
         status = first[1]
         if status == 1:
             energy = 4.0 * energy if (bound and energy < 0.0) else energy - scale
@@ -270,6 +282,7 @@ def _level(code, fp, tx, tcoef, mass, l, kind, tail_p, support, jumps, scale, k,
         second = nv.solve_grid(a, prm, 2, 2 * n, h / 2.0, k, e1, e1, np.empty(2 * n + 2), False)
         third = nv.solve_grid(a, prm, 1, 4 * n, h / 4.0, k, second[0] + (second[0] - e1) / 15.0, second[0],
                               np.empty(4 * n + 2), False)
+        passes += second[2] * 2 * n + third[2] * 4 * n
         if second[1] != 0 or third[1] != 0:
             why = 4
             theta *= 0.6
@@ -284,6 +297,8 @@ def _level(code, fp, tx, tcoef, mass, l, kind, tail_p, support, jumps, scale, k,
         if err <= rtol * abs(best) or theta < 0.05:
             break
         theta *= 0.6
+    row[24] = passes
+    row[25] = tried
     if not have:
         row[0] = math.nan
         row[1] = math.inf

@@ -4,8 +4,9 @@ extrapolation of what they yield.
 Map.  r(t) = β·ln(1 + eˢ), s = t − c·ln(1 + e^{tc − t}), on a uniform t grid.  The softplus
 is logarithmic for r ≪ β, where u ~ r^{l+1} varies on the scale r, and linear (spacing β·h)
 for r ≫ β, where a level decays like e^{−κr}; β of order 1/κ.  Below the knee at
-r(tc) ≈ β·e^{tc} the logarithmic stretch is compressed by 1 + c: down there Q → (l + ½)²(1+c)²
-and nothing oscillates, so it may take longer steps.  The map is explicit (no inversion per
+r(tc) ≈ β·e^{tc} the logarithmic stretch is compressed by 1 + c (c = 0..4, an integer, which
+keeps the nodes cheap to compute): down there Q → (l + ½)²(1+c)² and nothing oscillates, so it
+may take longer steps.  The map is explicit (no inversion per
 node); with p = σ(s), the logistic: g = dr/dt = β p s', g'/g = (1 − p)s' + s''/s', and the
 Liouville term F = ¾(g'/g)² − ½g''/g is F = (1 − p²)/4 where c = 0.
 

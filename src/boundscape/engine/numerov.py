@@ -39,7 +39,7 @@ TAIL_SHORT, TAIL_COULOMB, TAIL_CONFINING, TAIL_FIXED = 0, 1, 2, 3
 # Largest h²Q/12 a row may have: a = 1 − h²Q/12 must stay positive for the Sturm count.
 _ROW_LIMIT = 0.9
 # Largest compression of the logarithmic stretch near the origin (its knee adds to F).
-C_MAX = 4.0
+C_MAX = 4
 
 
 @njit(cache=True)
@@ -78,43 +78,39 @@ def map_point(beta, c, tc, t):
 def map_nodes(beta, c, tc, t0, h, n, r_end, i_end):
     """Rows r, g², F = ¾(g'/g)² − ½g''/g (and room for Q's two parts, see :func:`assemble`) at
     t0 + i·h, i < n; node ``i_end`` is set to exactly ``r_end`` (the outer condition is
-    evaluated there).  Far from the knees the logistic terms are below rounding and skipped."""
+    evaluated there).
+
+    With c an integer, eˢ = eᵗ/(1 + e^{tc−t})^c needs no transcendental function, and eᵗ, e^{tc−t}
+    are carried from node to node by multiplication, re-anchored every 64 nodes (so their error
+    stays at rounding level): one log1p per node, for r = β·ln(1 + eˢ)."""
     out = np.empty((5, n))
+    ci = int(c)
+    step = math.exp(h)
+    et = math.exp(t0)
+    etc = math.exp(tc)
     for i in range(n):
-        t = t0 + i * h
-        u = tc - t
-        if c == 0.0 or u < -40.0:
-            s, s1, s2, s3 = t, 1.0, 0.0, 0.0
-        elif u > 40.0:
-            s, s1, s2, s3 = t - c * u, 1.0 + c, 0.0, 0.0
-        else:
-            e = math.exp(-abs(u))
-            sc = 1.0 / (1.0 + e) if u >= 0.0 else e / (1.0 + e)
-            s = t - c * (max(u, 0.0) + math.log1p(e))
-            s1 = 1.0 + c * sc
-            s2 = -c * sc * (1.0 - sc)
-            s3 = -s2 * (1.0 - 2.0 * sc)
-        if s > 37.0:
-            q = math.exp(-s)
-            sp, p = s, 1.0
-        elif s < -37.0:
-            p = math.exp(s)
-            sp, q = p, 1.0
-        else:
-            e = math.exp(-abs(s))
-            sp = max(s, 0.0) + math.log1p(e)
-            if s >= 0.0:
-                p = 1.0 / (1.0 + e)
-                q = e * p
-            else:
-                q = 1.0 / (1.0 + e)
-                p = e * q
+        if i % 64 == 0:
+            et = math.exp(t0 + i * h)  # re-anchored now and then: the drift stays at rounding level
+        eu = etc / et  # e^{tc − t}
+        sc = eu / (1.0 + eu) if eu < 1e300 else 1.0  # logistic(tc − t)
+        base = 1.0 + eu
+        den = 1.0
+        for _ in range(ci):
+            den *= base
+        es = et / den  # e^s
+        s1 = 1.0 + c * sc
+        s2 = -c * sc * (1.0 - sc)
+        s3 = -s2 * (1.0 - 2.0 * sc)
+        p = es / (1.0 + es)  # logistic(s)
+        q = 1.0 / (1.0 + es)
+        inv = 1.0 / s1
         g = beta * p * s1
-        gp = q * s1 + s2 / s1
-        gpp = q * (q - p) * s1 * s1 + 3.0 * q * s2 + s3 / s1
-        out[0, i] = beta * sp
+        gp = q * s1 + s2 * inv
+        gpp = q * (q - p) * s1 * s1 + 3.0 * q * s2 + s3 * inv
+        out[0, i] = beta * math.log1p(es)
         out[1, i] = g * g
         out[2, i] = 0.75 * gp * gp - 0.5 * gpp
+        et *= step
     if 0 <= i_end < n:
         out[0, i_end] = r_end
     return out
@@ -293,67 +289,82 @@ def _join(q0, rho, r, g2, stride, n, h, energy, kind, l, mass, p, R, g_end, gp_e
         if m < 0:
             m = n // 2
     m = max(2, min(m, n - 2))
-    # outward: Y_0 = 0, Y_1 = 1
+    # outward, Y_0 = 0, Y_1 = 1, summing as it goes (the sums and w of nodes 1..m)
+    dm_o = norm_o = first_o = 0.0
+    nodes = 0
     work[0] = 0.0
-    work[1] = 1.0
+    y_prev, y = 0.0, 1.0
     for j in range(1, m + 1):
         i = j * stride
         cq = h2 * (q0[i] - energy * rho[i])
-        d = (2.0 + 10.0 * cq / 12.0) / (1.0 - cq / 12.0)
-        work[j + 1] = d * work[j] - work[j - 1]
-        if abs(work[j + 1]) > 1e150:
-            for jj in range(j + 2):
+        inv = 1.0 / (1.0 - cq / 12.0)
+        w = y * inv
+        work[j] = w
+        wt = 4.0 if j % 2 == 1 else 2.0
+        u2 = g2[i] * w * w
+        dm_o += h2 * rho[i] * w * w
+        norm_o += wt * u2
+        first_o += wt * u2 * r[i]
+        if y * y_prev < 0.0:
+            nodes += 1
+        y_next = (2.0 + 10.0 * cq / 12.0) * inv * y - y_prev
+        y_prev, y = y, y_next
+        if abs(y) > 1e150:
+            y *= 1e-150
+            y_prev *= 1e-150
+            dm_o *= 1e-300
+            norm_o *= 1e-300
+            first_o *= 1e-300
+            for jj in range(j + 1):
                 work[jj] *= 1e-150
-    y_out_next = work[m + 1]
-    y_out_m = work[m]
-    # inward: w_N = 1, Y_{N−1} from the last row
+    y_out_m, y_out_next = y_prev, y
+    # inward from w_N = 1, Y_{N−1} from the last row (the sums and w of nodes N..m+1)
     i_n = n * stride
     an = 1.0 - h2 * (q0[i_n] - energy * rho[i_n]) / 12.0
-    inward = np.empty(n - m + 2)  # inward[n − j] = Y_j
-    inward[0] = an
-    inward[1] = _last_diagonal(q0, rho, stride, n, h, energy, kind, l, mass, p, R, g_end, gp_end) * an
+    z = an
+    z_prev = _last_diagonal(q0, rho, stride, n, h, energy, kind, l, mass, p, R, g_end, gp_end) * an  # Y_{N−1}
+    dm_i = 0.0
+    norm_i = g2[i_n] * 1.0
+    first_i = norm_i * r[i_n]
+    work[n] = 1.0
     for j in range(n - 1, m, -1):
+        # here z = Y_{j+1}, z_prev = Y_j
         i = j * stride
         cq = h2 * (q0[i] - energy * rho[i])
-        d = (2.0 + 10.0 * cq / 12.0) / (1.0 - cq / 12.0)
-        inward[n - j + 1] = d * inward[n - j] - inward[n - j - 1]
-        if abs(inward[n - j + 1]) > 1e150:
-            for jj in range(n - j + 2):
-                inward[jj] *= 1e-150
-    y_in_m = inward[n - m]
-    y_in_next = inward[n - m - 1]
-    scale = y_out_m / y_in_m
-    residual = (y_in_next * scale - y_out_next)  # Y^in_{m+1} − Y^out_{m+1}
-    for j in range(m + 1, n + 1):
-        work[j] = inward[n - j] * scale
-    # sums: Newton denominator Σ ρ w² h² (+ the last row's E-dependence) and Simpson moments
-    dm = 0.0
-    norm = 0.0
-    first = 0.0
-    nodes = 0
-    prev = 0.0
-    y_last = 0.0
-    w_last = 0.0
-    for j in range(1, n + 1):
-        i = j * stride
-        a = 1.0 - h2 * (q0[i] - energy * rho[i]) / 12.0
-        y = work[j]
-        w = y / a
-        if j == n:
-            y_last = y
-            w_last = w
-        if j < n:
-            dm += h2 * rho[i] * w * w
-        wt = 1.0 if j == n else (4.0 if j % 2 == 1 else 2.0)
+        inv = 1.0 / (1.0 - cq / 12.0)
+        w = z_prev * inv
+        work[j] = w
+        wt = 4.0 if j % 2 == 1 else 2.0
         u2 = g2[i] * w * w
-        norm += wt * u2
-        first += wt * u2 * r[i]
-        if y != 0.0:
-            if prev != 0.0 and (y < 0.0) != (prev < 0.0):
-                nodes += 1
-            prev = y
-        if want_u:
-            work[j] = w
+        dm_i += h2 * rho[i] * w * w
+        norm_i += wt * u2
+        first_i += wt * u2 * r[i]
+        if z * z_prev < 0.0:
+            nodes += 1
+        z_new = (2.0 + 10.0 * cq / 12.0) * inv * z_prev - z
+        z, z_prev = z_prev, z_new
+        if abs(z_prev) > 1e150:
+            z *= 1e-150
+            z_prev *= 1e-150
+            dm_i *= 1e-300
+            norm_i *= 1e-300
+            first_i *= 1e-300
+            for jj in range(j, n + 1):
+                work[jj] *= 1e-150
+    # now z = Y^in_{m+1}, z_prev = Y^in_m
+    scale = y_out_m / z_prev
+    residual = z * scale - y_out_next  # Y^in_{m+1} − Y^out_{m+1}
+    if z * scale * y_out_m < 0.0:
+        nodes += 1
+    s2 = scale * scale
+    dm = dm_o + s2 * dm_i
+    norm = norm_o + s2 * norm_i
+    first = first_o + s2 * first_i
+    if want_u:
+        for j in range(m + 1, n + 1):
+            work[j] *= scale
+    y_last = an * scale
+    w_last = scale
     # the last row's derivative in E, by a central difference of its (scalar) closed form
     de = 1e-7 * max(abs(energy), 1e-12)
     dlast = (_last_diagonal(q0, rho, stride, n, h, energy + de, kind, l, mass, p, R, g_end, gp_end)
@@ -374,8 +385,9 @@ def solve_level(q0, rho, r, g2, stride, n, h, k, energy, lo, hi, locate, kappa_m
     ``kappa_mode``: Newton in κ = √(−2μE) (bound levels); else in E.
 
     Returns (energy, status, passes, ∫u² dr, ∫r u² dr, u(R)²) (the integrals over the box, of
-    the joined solution in its own normalisation): status 0 converged, 1 no level k below
-    the grid's floor, 2 Newton did not settle, 3 wrong node count, 4 no level k below the
+    the joined solution in its own normalisation): status 0 converged, 1 level k lies below the
+    grid's floor (energy is then the floor, an upper bound), 2
+    Newton did not settle, 3 wrong node count, 4 no level k below the
     grid's top (hi, or threshold).
     ``work`` (≥ n + 2) holds the joined w when ``want_u``."""
     passes = 0
@@ -412,7 +424,7 @@ def solve_level(q0, rho, r, g2, stride, n, h, k, energy, lo, hi, locate, kappa_m
                 passes += 1
                 if ct > k:
                     if trial == e_lo:
-                        return energy, 1, passes, 0.0, 0.0, 0.0  # level k lies below the grid's floor
+                        return e_lo, 1, passes, 0.0, 0.0, 0.0  # level k lies below the grid's floor
                     e_hi, c_hi = trial, ct
                     energy = trial
                     step *= 2.0
@@ -575,7 +587,7 @@ def design_map(rs, veff, energy, mass, l, r_min, R, theta, h_max, betas, r_core)
                 kmax = math.sqrt(qv)
         h = min(theta / kmax, h_max) if kmax > 0.0 else h_max
         # below the knee Q → (l + ½)²(1 + c)²: compress as far as θ allows
-        c = max(0.0, min(theta / (h * (l + 0.5)) - 1.0, C_MAX))
+        c = float(max(0, min(int(theta / (h * (l + 0.5)) - 1.0), C_MAX)))
         y = R / beta
         s1 = y + math.log(-math.expm1(-y)) if y > 30.0 else math.log(math.expm1(y))
         y0 = max(r_core, r_min) / beta

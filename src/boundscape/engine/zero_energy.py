@@ -90,6 +90,10 @@ class ZeroEnergyProblem:
             start = coarser[-1] if coarser else 0.0
             out = nv.solve_grid(a.a, self.problem.params(a, self.tail), stride, n, a.step(stride), k, start, start,
                                 np.empty(n + 2), False)
+            if out[1] == 1:
+                # deeper than this zero-energy grid resolves: the floor bounds it from above, and
+                # only its sign matters (counts, critical brackets)
+                out = (out[0], 0)
             if out[1] != 0:
                 raise ConvergenceError(f"zero-energy eigenvalue k={k}, l={self.l} of {self.pot} did not "
                                        f"converge (status {out[1]})")
