@@ -1,9 +1,15 @@
 """The radial problem and nothing else: families, the mapped grid and operator, the exterior
 solution, zero-energy counts and critical parameters, bound levels.
 
-Imports numpy and scipy only (xarray just to read a NetCDF potential table, when asked):
-no workflow, no plotting, no output files.
+Imports numpy, scipy and numba only (xarray just to read a NetCDF potential table, when
+asked): no workflow, no plotting, no output files.  The compiled kernels are cached on disk
+(see :mod:`.jitcache`).
 """
+
+from . import jitcache
+
+jitcache.load_kernels()  # before any module that uses the kernels: it sets where they are cached
+
 
 from .critical import critical_screening_length, critical_strength
 from .families import FAMILIES, Family, family_info

@@ -219,6 +219,16 @@ def _box(rs, veff, energy, mass, kind, tail_p, support, jumps, reach, decay, l):
 
 
 @njit(cache=True)
+def _fail(row, why, passes, tried):
+    row[0] = math.nan
+    row[1] = math.inf
+    row[2] = 1.0
+    row[3] = why
+    row[24] = passes
+    row[25] = tried
+
+
+@njit(cache=True)
 def _put(res, i, t):
     res[i, 0] = t[0]
     res[i, 1] = t[1]
@@ -239,7 +249,8 @@ def _level(code, fp, tx, tcoef, mass, l, kind, tail_p, support, jumps, scale, k,
     have = False
     best = math.nan
     err = math.inf
-    res = np.empty((3, 6))
+    res = np.empty((3, 6))  # the last attempt that reached all three grids
+    cur = np.empty((3, 6))
     R = 0.0
     beta = c = tc = t0 = t1 = 0.0
     n = 0
@@ -257,54 +268,70 @@ def _level(code, fp, tx, tcoef, mass, l, kind, tail_p, support, jumps, scale, k,
         a, g_end, gp_end = _build(code, fp, tx, tcoef, mass, l, beta, c, tc, t0, t1, n, R, 4)
         prm = _prm(mass, l, kind, tail_p, R, g_end, gp_end, scale, bound)
         h = (t1 - t0) / n
-        first = nv.solve_grid(a, prm, 4, n, h, k, energy, energy, np.empty(n + 2), False)
-        passes += first[2] * n
-        status = first[1]
-        if status == 1:
-            energy = 4.0 * energy if (bound and energy < 0.0) else energy - scale
-            why = 1
-            continue
-        if status == 4:
-            if closed or not bound:
-                why = 2
+        # the grids h, h/2, h/4 from one call site (the kernel is compiled, and inlined, once)
+        failed = False
+        refit = False
+        stop = False
+        for stage in range(3):
+            nn = n << stage
+            if stage == 0:
+                start = near = energy
+            elif stage == 1:
+                start = near = cur[0, 0]
+            else:
+                start = cur[1, 0] + (cur[1, 0] - cur[0, 0]) / 15.0
+                near = cur[1, 0]
+            out = nv.solve_grid(a, prm, 4 >> stage, nn, h / (1 << stage), k, start, near, np.empty(nn + 2), False)
+            passes += out[2] * nn
+            _put(cur, stage, out)
+            status = out[1]
+            if stage > 0:
+                if status != 0:
+                    why = 4
+                    failed = True
+                    break
+                continue
+            if status == 1:  # deeper than this grid resolves
+                energy = 4.0 * energy if (bound and energy < 0.0) else energy - scale
+                why = 1
+                failed = True
                 break
-            energy *= 1e-2
-            why = 2
+            if status == 4:  # not bound in this box: a larger box (or it is not resolved at all)
+                why = 2
+                if closed or not bound:
+                    stop = True
+                    break
+                energy *= 1e-2
+                failed = True
+                break
+            if status != 0:
+                why = 3
+                failed = True
+                break
+            if bound and not _fits(rs, veff, energy, out[0], R, closed, decay, support, mass):
+                energy = out[0]
+                refit = True
+                break
+        if stop:
+            break
+        if refit:
             continue
-        if status != 0:
-            why = 3
-            theta *= 0.6
+        if failed:
+            if why in (3, 4):
+                theta *= 0.6
             continue
-        e1 = first[0]
-        if bound and not _fits(rs, veff, energy, e1, R, closed, decay, support, mass):
-            energy = e1
-            continue
-        second = nv.solve_grid(a, prm, 2, 2 * n, h / 2.0, k, e1, e1, np.empty(2 * n + 2), False)
-        third = nv.solve_grid(a, prm, 1, 4 * n, h / 4.0, k, second[0] + (second[0] - e1) / 15.0, second[0],
-                              np.empty(4 * n + 2), False)
-        passes += second[2] * 2 * n + third[2] * 4 * n
-        if second[1] != 0 or third[1] != 0:
-            why = 4
-            theta *= 0.6
-            continue
-        _put(res, 0, first)
-        _put(res, 1, second)
-        _put(res, 2, third)
         have = True
-        best, err = _richardson(first[0], second[0], third[0])
+        res[:, :] = cur
+        best, err = _richardson(res[0, 0], res[1, 0], res[2, 0])
         err = max(err, roundoff * abs(best))
         energy = best
         if err <= rtol * abs(best) or theta < 0.05:
             break
         theta *= 0.6
+    if not have:
+        return _fail(row, why, passes, tried)
     row[24] = passes
     row[25] = tried
-    if not have:
-        row[0] = math.nan
-        row[1] = math.inf
-        row[2] = 1.0
-        row[3] = why
-        return
     row[0] = best
     row[1] = err
     ok = err <= rtol * abs(best) and math.isfinite(best)

@@ -164,13 +164,14 @@ def solve_grid(a, prm, stride, n, h, k, start, near, work, want_u):
     mass, l, kind, p, R, g_end, gp_end, scale = prm[0], int(prm[1]), int(prm[2]), prm[3], prm[4], prm[5], prm[6], prm[7]
     kappa_mode = prm[8] != 0.0
     lo, hi = prm[9], prm[10]
-    out = solve_level(a[3], a[4], a[0], a[1], stride, n, h, k, start, lo, hi, False, kappa_mode, scale,
-                      kind, l, mass, p, R, g_end, gp_end, work, want_u)
-    if out[1] == 0:
-        return out
-    again = solve_level(a[3], a[4], a[0], a[1], stride, n, h, k, near, lo, hi, True, kappa_mode, scale,
-                        kind, l, mass, p, R, g_end, gp_end, work, want_u)
-    return (again[0], again[1], again[2] + out[2], again[3], again[4], again[5])
+    spent = 0
+    for attempt in range(2):  # one call site: the kernel is compiled (and inlined) once
+        out = solve_level(a[3], a[4], a[0], a[1], stride, n, h, k, start if attempt == 0 else near, lo, hi,
+                          attempt == 1, kappa_mode, scale, kind, l, mass, p, R, g_end, gp_end, work, want_u)
+        spent += out[2]
+        if out[1] == 0 or attempt == 1:
+            return out[0], out[1], spent, out[3], out[4], out[5]
+    return out[0], out[1], spent, out[3], out[4], out[5]
 
 
 @njit(cache=True)
@@ -375,6 +376,69 @@ def _join(q0, rho, r, g2, stride, n, h, energy, kind, l, mass, p, R, g_end, gp_e
 
 
 @njit(cache=True)
+def _isolate(q0, rho, stride, n, h, k, energy, lo, top, kappa_mode, scale, kind, l, mass, p, R, g_end, gp_end):
+    """A bracket (e_lo, e_hi) holding level k alone (Sturm counts k and k + 1 at its ends),
+    narrow enough for Newton's method: grown geometrically from ``energy``, then bisected
+    (geometrically in κ).  Returns (e_lo, e_hi, status, counts): status 1 if level k lies below
+    ``lo``, 4 if it is not below ``top``.  One count per step, from one call site (a smaller
+    compiled kernel)."""
+    e_lo, e_hi = lo, top
+    c_lo, c_hi = -1, -1
+    trial = energy
+    step = max(abs(energy) * 0.5, 1e-3 * scale)
+    at_floor = False
+    at_top = False
+    counts = 0
+    for _ in range(400):
+        ct = sturm_count(q0, rho, stride, n, h, trial, kind, l, mass, p, R, g_end, gp_end)
+        counts += 1
+        if ct > k:
+            if at_floor:
+                return e_lo, e_hi, 1, counts
+            e_hi, c_hi = trial, ct
+        else:
+            if at_top:
+                return e_lo, e_hi, 4, counts
+            e_lo, c_lo = trial, ct
+        if c_lo < 0:  # downward from the lowest energy counted above k
+            if kappa_mode and e_hi < 0.0:
+                trial = -((math.sqrt(-2.0 * mass * e_hi) * 1.6) ** 2) / (2.0 * mass)
+            else:
+                trial = e_hi - step
+                step *= 2.0
+            if trial <= lo:
+                trial = lo
+                at_floor = True
+        elif c_hi < 0:  # upward from the highest energy counted at or below k
+            if kappa_mode:
+                kap = 0.25 * math.sqrt(-2.0 * mass * e_lo) if e_lo < 0.0 else 0.0
+                trial = -kap * kap / (2.0 * mass)
+                if kap < 1e-9 * math.sqrt(2.0 * mass * abs(lo)) or trial >= top:
+                    trial = top if math.isfinite(top) else 0.0
+                    at_top = True
+            else:
+                trial = e_lo + step
+                step *= 2.0
+                if trial >= top:
+                    trial = top
+                    at_top = True
+        else:
+            if kappa_mode:
+                klo = math.sqrt(-2.0 * mass * e_lo)
+                khi = math.sqrt(-2.0 * mass * min(e_hi, 0.0))
+                narrow = klo - khi <= 0.05 * klo
+                kmid = math.sqrt(klo * khi) if khi > 1e-3 * klo else 0.5 * (klo + khi)
+                mid = -kmid * kmid / (2.0 * mass)
+            else:
+                narrow = e_hi - e_lo <= 0.02 * max(abs(e_lo), abs(e_hi))
+                mid = 0.5 * (e_lo + e_hi)
+            if (c_lo == k and c_hi == k + 1 and narrow) or not (e_lo < mid < e_hi):
+                break
+            trial = mid
+    return e_lo, e_hi, 0, counts
+
+
+@njit(cache=True)
 def solve_level(q0, rho, r, g2, stride, n, h, k, energy, lo, hi, locate, kappa_mode, scale,
                 kind, l, mass, p, R, g_end, gp_end, work, want_u):
     """Eigenvalue k (0-based) of the discrete problem on one grid (nodes every ``stride``-th
@@ -403,80 +467,11 @@ def solve_level(q0, rho, r, g2, stride, n, h, k, energy, lo, hi, locate, kappa_m
                 energy = lo + 0.5 * (top - lo) if lo > -1e299 else top - 1.0
             else:
                 energy = lo + 1.0
-        c0 = sturm_count(q0, rho, stride, n, h, energy, kind, l, mass, p, R, g_end, gp_end)
-        passes += 1
-        e_lo, e_hi = lo, top
-        c_lo, c_hi = -1, -1
-        if c0 > k:
-            e_hi, c_hi = energy, c0
-        else:
-            e_lo, c_lo = energy, c0
-        # grow the bracket geometrically from the start
-        step = max(abs(energy) * 0.5, 1e-3 * scale)
-        for _ in range(200):
-            if c_lo < 0:
-                trial = energy - step
-                if kappa_mode:
-                    trial = -((math.sqrt(-2.0 * mass * energy) * 1.6) ** 2) / (2.0 * mass) if energy < 0 else energy - step
-                if trial <= e_lo:
-                    trial = e_lo
-                ct = sturm_count(q0, rho, stride, n, h, trial, kind, l, mass, p, R, g_end, gp_end)
-                passes += 1
-                if ct > k:
-                    if trial == e_lo:
-                        return e_lo, 1, passes, 0.0, 0.0, 0.0  # level k lies below the grid's floor
-                    e_hi, c_hi = trial, ct
-                    energy = trial
-                    step *= 2.0
-                else:
-                    e_lo, c_lo = trial, ct
-            elif c_hi < 0:
-                if kappa_mode:
-                    kap = math.sqrt(-2.0 * mass * energy) if energy < 0 else 0.0
-                    trial = -((kap / 4.0) ** 2) / (2.0 * mass)
-                    if kap / 4.0 < 1e-9 * math.sqrt(2.0 * mass * abs(e_lo)) or trial >= e_hi:
-                        trial = e_hi if math.isfinite(e_hi) else 0.0
-                else:
-                    trial = energy + step
-                    if trial >= e_hi:
-                        trial = e_hi
-                ct = sturm_count(q0, rho, stride, n, h, trial, kind, l, mass, p, R, g_end, gp_end)
-                passes += 1
-                if ct <= k:
-                    if trial == e_hi or trial == 0.0:
-                        return energy, 4, passes, 0.0, 0.0, 0.0  # level k is not below the grid's top
-                    e_lo, c_lo = trial, ct
-                    energy = trial
-                    step *= 2.0
-                else:
-                    e_hi, c_hi = trial, ct
-            else:
-                break
-        # bisect (geometrically in κ) until level k alone is in the bracket and it is narrow
-        for _ in range(200):
-            if c_lo == k and c_hi == k + 1:
-                if kappa_mode:
-                    klo = math.sqrt(-2.0 * mass * e_lo)
-                    khi = math.sqrt(-2.0 * mass * min(e_hi, 0.0))
-                    if klo - khi <= 0.05 * klo:
-                        break
-                elif e_hi - e_lo <= 0.02 * max(abs(e_lo), abs(e_hi)):
-                    break
-            if kappa_mode:
-                klo = math.sqrt(-2.0 * mass * e_lo)
-                khi = math.sqrt(-2.0 * mass * min(e_hi, 0.0))
-                kmid = math.sqrt(klo * khi) if khi > 1e-3 * klo else 0.5 * (klo + khi)
-                mid = -kmid * kmid / (2.0 * mass)
-            else:
-                mid = 0.5 * (e_lo + e_hi)
-            if not (e_lo < mid < e_hi):
-                break
-            cm = sturm_count(q0, rho, stride, n, h, mid, kind, l, mass, p, R, g_end, gp_end)
-            passes += 1
-            if cm > k:
-                e_hi, c_hi = mid, cm
-            else:
-                e_lo, c_lo = mid, cm
+        e_lo, e_hi, status, spent = _isolate(q0, rho, stride, n, h, k, energy, lo, top, kappa_mode, scale, kind, l,
+                                             mass, p, R, g_end, gp_end)
+        passes += spent
+        if status != 0:
+            return (e_lo if status == 1 else energy), status, passes, 0.0, 0.0, 0.0
         lo, hi = e_lo, e_hi
         if kappa_mode:
             klo = math.sqrt(-2.0 * mass * e_lo)
@@ -524,9 +519,12 @@ def solve_level(q0, rho, r, g2, stride, n, h, k, energy, lo, hi, locate, kappa_m
         # relative to |E| (with a floor for eigenvalues near zero in E mode): stop once a step is
         # both small and a thousandth of the one before (Newton's quadratic contraction: the
         # next one would be at roundoff), or at roundoff, or when steps stop shrinking there
-        size = abs(energy) if kappa_mode else abs(energy) + 1e-2 * scale
-        if (step <= 1e-9 * size and step <= 1e-3 * last_step) or step <= 4e-16 * size or (
-                step <= 1e-13 * size and step >= 0.5 * last_step):
+        # (E mode serves the zero-energy problem, whose μ near zero decide counts and critical
+        # parameters: there only roundoff ends the iteration)
+        size = abs(energy) if kappa_mode else abs(energy) + 1e-4 * scale
+        quick = 1e-9 if kappa_mode else 1e-13
+        if (step <= quick * size and step <= 1e-3 * last_step) or step <= 4e-16 * size or (
+                step <= 1e-8 * size and step >= 0.5 * last_step):
             status = 0 if nodes == k else 3
             break
         last_step = step

@@ -129,15 +129,22 @@ class ZeroEnergyProblem:
         return self.extrapolated(k)
 
 
-def zero_energy_problem(pot: Potential, l: int, m: int | None = None, theta: float = fd.THETA) -> ZeroEnergyProblem:
-    """The E = 0 problem of ``pot`` and ``l`` on a grid designed at ``theta`` (or with ``m`` steps)."""
+def zero_energy_problem(pot: Potential, l: int, m: int | None = None, theta: float = fd.THETA,
+                        like: fd.MappedGrid | None = None) -> ZeroEnergyProblem:
+    """The E = 0 problem of ``pot`` and ``l`` on a grid designed at ``theta`` (or with ``m`` steps),
+    or on the map of ``like`` (its β, c, tc, start and steps) stretched to this potential's range:
+    along a root search the grid then moves smoothly with the parameter."""
     if pot.tail != "short":
         raise InputError(
             f"family {pot.family!r} has a {pot.tail} tail: it binds infinitely many states, there is no finite count"
         )
     R = float(pot.support)
     problem = RadialProblem(pot, l, R)
-    g = problem.design(0.0, R, theta)
+    if like is not None:
+        g = fd.MappedGrid(like.r_min, R, like.beta, like.c, like.tc, like.t0,
+                          float(nv.t_of_r(like.beta, like.c, like.tc, R)), like.n)
+    else:
+        g = problem.design(0.0, R, theta)
     if m is not None:
         g = g.with_steps(m)
     return ZeroEnergyProblem(pot, l, g, problem)
