@@ -210,8 +210,9 @@ def _sigma_t(kind, l, mass, p, energy, R, g_end, gp_end):
 
 
 @njit(cache=True)
-def _last_diagonal(q0, rho, stride, n, h, energy, kind, l, mass, p, R, g_end, gp_end):
-    """Symmetrised diagonal of the last row (ghost node carrying the Robin condition)."""
+def _last_excess(q0, rho, stride, n, h, energy, kind, l, mass, p, R, g_end, gp_end):
+    """Symmetrised diagonal of the last row (ghost node carrying the Robin condition) minus 1,
+    formed without cancellation (b/a − 2 = c/(1 − c/12) with c = h²Q): it sets Y_{N−1}/Y_N."""
     h2 = h * h
     i_m = (n - 1) * stride
     i_n = n * stride
@@ -222,11 +223,11 @@ def _last_diagonal(q0, rho, stride, n, h, energy, kind, l, mass, p, R, g_end, gp
     am = 1.0 - h2 * qm / 12.0
     an = 1.0 - h2 * qn / 12.0
     ag = 1.0 - h2 * qg / 12.0
-    dn = (2.0 + 10.0 * h2 * qn / 12.0) / an
     sig = _sigma_t(kind, l, mass, p, energy, R, g_end, gp_end)
     dq = (qg - qm) / (2.0 * h)
     cn = 2.0 * h * (sig + h2 * (dq + qn * sig) / 6.0)
-    return (dn - ag * cn / an) / (1.0 + ag / am)
+    excess = h2 * qn / an + (h2 * (qg - qm) / 12.0) / am - ag * cn / an
+    return excess / (1.0 + ag / am)
 
 
 @njit(cache=True)
@@ -244,7 +245,7 @@ def sturm_count(q0, rho, stride, n, h, energy, kind, l, mass, p, R, g_end, gp_en
             piv = -1e-300  # an exact zero pivot: count it, as LAPACK's dstebz does
         if piv < 0.0:
             count += 1
-    last = _last_diagonal(q0, rho, stride, n, h, energy, kind, l, mass, p, R, g_end, gp_end)
+    last = 1.0 + _last_excess(q0, rho, stride, n, h, energy, kind, l, mass, p, R, g_end, gp_end)
     if last - (1.0 / piv if n > 1 else 0.0) <= 0.0:
         count += 1
     return count
@@ -290,11 +291,15 @@ def _join(q0, rho, r, g2, stride, n, h, energy, kind, l, mass, p, R, g_end, gp_e
         if m < 0:
             m = n // 2
     m = max(2, min(m, n - 2))
-    # outward, Y_0 = 0, Y_1 = 1, summing as it goes (the sums and w of nodes 1..m)
+    # outward, Y_0 = 0, Y_1 = 1, summing as it goes (the sums and w of nodes 1..m).  The
+    # recurrence is carried in differences, ΔY_j = ΔY_{j−1} + (b/a − 2)_j Y_j with
+    # (b/a − 2) = c/(1 − c/12): the E-dependence sits in c = h²Q, which Y_{j+1} = (b/a)Y_j − Y_{j−1}
+    # would add to 2 and lose to rounding on fine grids (the summed form; Blatt, J. Comput.
+    # Phys. 1, 382 (1967), reference from memory).
     dm_o = norm_o = first_o = 0.0
     nodes = 0
     work[0] = 0.0
-    y_prev, y = 0.0, 1.0
+    y_prev, y, dy = 0.0, 1.0, 1.0  # Y_{j−1}, Y_j, Y_j − Y_{j−1}
     for j in range(1, m + 1):
         i = j * stride
         cq = h2 * (q0[i] - energy * rho[i])
@@ -308,28 +313,31 @@ def _join(q0, rho, r, g2, stride, n, h, energy, kind, l, mass, p, R, g_end, gp_e
         first_o += wt * u2 * r[i]
         if y * y_prev < 0.0:
             nodes += 1
-        y_next = (2.0 + 10.0 * cq / 12.0) * inv * y - y_prev
-        y_prev, y = y, y_next
+        dy = dy + cq * inv * y  # now Y_{j+1} − Y_j
+        y_prev, y = y, y + dy
         if abs(y) > 1e150:
             y *= 1e-150
             y_prev *= 1e-150
+            dy *= 1e-150
             dm_o *= 1e-300
             norm_o *= 1e-300
             first_o *= 1e-300
             for jj in range(j + 1):
                 work[jj] *= 1e-150
-    y_out_m, y_out_next = y_prev, y
-    # inward from w_N = 1, Y_{N−1} from the last row (the sums and w of nodes N..m+1)
+    y_out_m, dy_out = y_prev, dy  # Y_m and Y_{m+1} − Y_m
+    # inward from w_N = 1, Y_{N−1} from the last row (the sums and w of nodes N..m+1), in
+    # backward differences D_j = Y_{j−1} − Y_j = D_{j+1} + (b/a − 2)_j Y_j
     i_n = n * stride
     an = 1.0 - h2 * (q0[i_n] - energy * rho[i_n]) / 12.0
-    z = an
-    z_prev = _last_diagonal(q0, rho, stride, n, h, energy, kind, l, mass, p, R, g_end, gp_end) * an  # Y_{N−1}
+    z = an  # Y_N
+    dz = _last_excess(q0, rho, stride, n, h, energy, kind, l, mass, p, R, g_end, gp_end) * an  # Y_{N−1} − Y_N
+    z_prev = z + dz  # Y_{N−1}
     dm_i = 0.0
     norm_i = g2[i_n] * 1.0
     first_i = norm_i * r[i_n]
     work[n] = 1.0
     for j in range(n - 1, m, -1):
-        # here z = Y_{j+1}, z_prev = Y_j
+        # here z = Y_{j+1}, z_prev = Y_j, dz = Y_j − Y_{j+1}
         i = j * stride
         cq = h2 * (q0[i] - energy * rho[i])
         inv = 1.0 / (1.0 - cq / 12.0)
@@ -342,19 +350,20 @@ def _join(q0, rho, r, g2, stride, n, h, energy, kind, l, mass, p, R, g_end, gp_e
         first_i += wt * u2 * r[i]
         if z * z_prev < 0.0:
             nodes += 1
-        z_new = (2.0 + 10.0 * cq / 12.0) * inv * z_prev - z
-        z, z_prev = z_prev, z_new
+        dz = dz + cq * inv * z_prev  # now Y_{j−1} − Y_j
+        z, z_prev = z_prev, z_prev + dz
         if abs(z_prev) > 1e150:
             z *= 1e-150
             z_prev *= 1e-150
+            dz *= 1e-150
             dm_i *= 1e-300
             norm_i *= 1e-300
             first_i *= 1e-300
             for jj in range(j, n + 1):
                 work[jj] *= 1e-150
-    # now z = Y^in_{m+1}, z_prev = Y^in_m
+    # now z = Y^in_{m+1}, z_prev = Y^in_m, dz = Y^in_m − Y^in_{m+1}
     scale = y_out_m / z_prev
-    residual = z * scale - y_out_next  # Y^in_{m+1} − Y^out_{m+1}
+    residual = -dz * scale - dy_out  # Y^in_{m+1} − Y^out_{m+1}, from the differences (Y_m cancels)
     if z * scale * y_out_m < 0.0:
         nodes += 1
     s2 = scale * scale
@@ -368,8 +377,8 @@ def _join(q0, rho, r, g2, stride, n, h, energy, kind, l, mass, p, R, g_end, gp_e
     w_last = scale
     # the last row's derivative in E, by a central difference of its (scalar) closed form
     de = 1e-7 * max(abs(energy), 1e-12)
-    dlast = (_last_diagonal(q0, rho, stride, n, h, energy + de, kind, l, mass, p, R, g_end, gp_end)
-             - _last_diagonal(q0, rho, stride, n, h, energy - de, kind, l, mass, p, R, g_end, gp_end)) / (2.0 * de)
+    dlast = (_last_excess(q0, rho, stride, n, h, energy + de, kind, l, mass, p, R, g_end, gp_end)
+             - _last_excess(q0, rho, stride, n, h, energy - de, kind, l, mass, p, R, g_end, gp_end)) / (2.0 * de)
     dm -= dlast * y_last * y_last
     u_end2 = math.sqrt(g2[n * stride]) * w_last * w_last
     return residual * y_out_m, dm, nodes, norm * h / 3.0, first * h / 3.0, u_end2
@@ -525,9 +534,27 @@ def solve_level(q0, rho, r, g2, stride, n, h, k, energy, lo, hi, locate, kappa_m
         quick = 1e-9 if kappa_mode else 1e-13
         if (step <= quick * size and step <= 1e-3 * last_step) or step <= 4e-16 * size or (
                 step <= 1e-8 * size and step >= 0.5 * last_step):
-            status = 0 if nodes == k else 3
+            # after isolation the bracket's Sturm counts identify the level; else its nodes must
+            status = 0 if (nodes == k or (locate and lo < energy < hi)) else 3
             break
         last_step = step
+    if status == 2 and locate and math.isfinite(lo) and math.isfinite(hi):
+        # Newton did not settle inside an isolating bracket (two close levels can pull Cooley's
+        # correction astray): bisect on Sturm counts to roundoff, then one pass for the sums
+        for _ in range(200):
+            mid = 0.5 * (lo + hi)
+            if not (lo < mid < hi) or hi - lo <= 4e-16 * max(abs(lo), abs(hi), 1e-300):
+                break
+            if sturm_count(q0, rho, stride, n, h, mid, kind, l, mass, p, R, g_end, gp_end) > k:
+                hi = mid
+            else:
+                lo = mid
+            passes += 1
+        energy = 0.5 * (lo + hi)
+        num, den, nodes, norm, first, uend2 = _join(q0, rho, r, g2, stride, n, h, energy, kind, l, mass, p, R,
+                                                    g_end, gp_end, work, want_u)
+        passes += 1
+        status = 0  # the Sturm counts at the bracket's ends identify level k
     return energy, status, passes, norm, first, uend2
 
 
