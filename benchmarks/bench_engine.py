@@ -56,10 +56,10 @@ def plain_levels(pot, l, n=2000, r_max=100.0):
 
 
 def core_table():
-    """A screened-ion core: −(1 + 2e^{−r})/r on 2000 points with its −1/r tail declared.  (A
-    table is interpolated by a cubic spline, whose third derivative jumps at every point: on a
-    sparse table that, not the grid, limits the extrapolation to ~1e-9.)"""
-    r = np.geomspace(1e-3, 40.0, 2000)
+    """A screened-ion core: −(1 + 2e^{−r})/r on 2000 points from 1e-6 bohr with its −1/r tail
+    declared.  (Below its first point a table holds r·V fixed, a kink in V' that costs an h²
+    error term; a table that starts at 1e-3 bohr limits a deep level to ~1e-9.)"""
+    r = np.geomspace(1e-6, 40.0, 2000)
     v = -(1.0 + 2.0 * np.exp(-r)) / r
     v[-1] = -1.0 / r[-1]
     return validate_table(r, v, coulomb_tail=1.0, source="benchmark core")

@@ -151,3 +151,20 @@ def test_level_on_a_common_grid_reproduces_the_level():
     # eigenvectors of one Sturm-Liouville problem are orthogonal (to discretisation error)
     assert abs(richardson(overlap)[0]) <= 1e-8
     assert math.isfinite(lo.energy)
+
+
+@pytest.mark.parametrize("l", [0, 1, 2, 5])
+@pytest.mark.parametrize("kappa_R", [1e-3, 0.05, 1.0, 6.0, 40.0])
+def test_compiled_tail_moments_equal_the_quadrature(l, kappa_R):
+    # engine.exterior.ShortRange.tail_moments integrates scipy.special.kve with scipy.integrate.quad
+    # (or Gauss-Laguerre far from threshold)
+    R, mass = 2.0, 1.0
+    kappa = kappa_R / R
+    energy = -kappa * kappa / (2 * mass)
+    if l == 1 and kappa_R < 0.01:
+        pytest.skip("⟨r⟩ of a p-wave tail diverges like ln(1/κR): quad's own accuracy is the limit there")
+    reference = exterior.ShortRange(l, mass).tail_moments(energy, R)
+    nodes, weights = np.polynomial.legendre.leggauss(16)
+    fast = numerov.exterior_tail_moments(l, mass, energy, R, nodes, weights, levels.TAIL_PANELS)
+    assert fast[0] == pytest.approx(reference[0], rel=1e-9)
+    assert fast[1] == pytest.approx(reference[1], rel=1e-9)

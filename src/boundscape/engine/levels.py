@@ -45,6 +45,9 @@ DEFAULT_LEVELS = 20  # levels returned for potentials that bind infinitely many
 ROUNDOFF = 1e-14  # floor of an error estimate, relative
 RTOL = 1e-9  # the accuracy the sweep promises on every level (relative)
 ATTEMPTS = 8
+# Gauss–Legendre panels for the exterior's moments (16 nodes each: relative error < 1e-12)
+TAIL_PANELS = 24
+_GAUSS = np.polynomial.legendre.leggauss(16)
 
 @dataclass
 class BoundLevels:
@@ -181,7 +184,7 @@ def compiled_cell(pot, l, keep_max, rtol=RTOL):
         if status:
             reason = f"error estimate {err:.2e} hartree exceeds rtol {rtol:g}·|E|"
         R = float(row[col["R"]])
-        t0, t1 = exterior.tail_moments(energy, R) if row[col["closed"]] else (0.0, 0.0)
+        t0, t1 = _tail(pot, l, exterior, energy, R) if row[col["closed"]] else (0.0, 0.0)
         radii = [(row[col[f"first{j}"]] + t1 * row[col[f"uend{j}"]]) / (row[col[f"norm{j}"]] + t0 * row[col[f"uend{j}"]])
                  for j in range(3)]
         grid = fd.MappedGrid(problem.r_min, R, *(float(row[col[name]]) for name in ("beta", "c", "tc", "t0", "t1")),
@@ -189,6 +192,13 @@ def compiled_cell(pot, l, keep_max, rtol=RTOL):
         solved.append(LevelSolution(l, k, energy, err, fd.richardson(radii)[0], status, reason, grid,
                                     tuple(float(row[col[f"e{j}"]]) for j in range(3))))
     return count, solved
+
+
+def _tail(pot, l, exterior, energy, R):
+    """The exterior's share of the norm and of ⟨r⟩ (compiled for a short-range tail)."""
+    if pot.tail == "short":
+        return nv.exterior_tail_moments(int(l), float(pot.mass), float(energy), float(R), *_GAUSS, TAIL_PANELS)
+    return exterior.tail_moments(energy, R)
 
 
 def _attach_wavefunction(pot, lv):
