@@ -171,26 +171,22 @@ def compiled_cell(pot, l, keep_max, rtol=RTOL):
         fd.H_MAX, float(rtol), MARGIN, DECAY_LENGTHS, ORIGIN_TOLERANCE, SAMPLES, ATTEMPTS, ROUNDOFF)
     if count_status:
         raise ConvergenceError(f"zero-energy eigenvalue of l={l} for {pot} near threshold did not converge")
-    col = compiled.ROW
     solved = []
     exterior = pot.exterior(l)
-    for k, row in enumerate(rows):
-        energy, err = float(row[col["energy"]]), float(row[col["error"]])
-        status = int(row[col["status"]])
-        reason = compiled.REASONS[int(row[col["reason"]])]
+    r_min = problem.r_min
+    for k, row in enumerate(rows.tolist()):
+        energy, err, status, why, R, closed = row[:6]
         if not math.isfinite(energy):
-            solved.append(LevelSolution(l, k, math.nan, math.inf, math.nan, NOT_CONVERGED, reason))
+            solved.append(LevelSolution(l, k, math.nan, math.inf, math.nan, NOT_CONVERGED, compiled.REASONS[int(why)]))
             continue
-        if status:
-            reason = f"error estimate {err:.2e} hartree exceeds rtol {rtol:g}·|E|"
-        R = float(row[col["R"]])
-        t0, t1 = _tail(pot, l, exterior, energy, R) if row[col["closed"]] else (0.0, 0.0)
-        radii = [(row[col[f"first{j}"]] + t1 * row[col[f"uend{j}"]]) / (row[col[f"norm{j}"]] + t0 * row[col[f"uend{j}"]])
-                 for j in range(3)]
-        grid = fd.MappedGrid(problem.r_min, R, *(float(row[col[name]]) for name in ("beta", "c", "tc", "t0", "t1")),
-                             int(row[col["n"]]))
-        solved.append(LevelSolution(l, k, energy, err, fd.richardson(radii)[0], status, reason, grid,
-                                    tuple(float(row[col[f"e{j}"]]) for j in range(3))))
+        reason = f"error estimate {err:.2e} hartree exceeds rtol {rtol:g}·|E|" if status else ""
+        t0, t1 = _tail(pot, l, exterior, energy, R) if closed else (0.0, 0.0)
+        norm, first, uend = row[6:9], row[9:12], row[12:15]
+        radii = [(first[j] + t1 * uend[j]) / (norm[j] + t0 * uend[j]) for j in range(3)]
+        # Richardson over h, h/2, h/4 for an error series h⁴, h⁶ (as grid.richardson)
+        radius = (radii[0] - 80.0 * radii[1] + 1024.0 * radii[2]) / 945.0
+        grid = fd.MappedGrid(r_min, R, row[15], row[16], row[17], row[18], row[19], int(row[20]))
+        solved.append(LevelSolution(l, k, energy, err, radius, int(status), reason, grid, tuple(row[21:24])))
     return count, solved
 
 
