@@ -121,10 +121,10 @@ def _zero_energy_count(code, fp, tx, tcoef, mass, l, rs, veff, r_min, support, r
         k = count
     if k < 0:
         return count, 0
-    # μ_k on the grids h and h/2 (bracketed on h by the counts), and on h/4 if still unclear
-    lo, hi = (-delta, 0.0) if k == count - 1 else (0.0, delta)
+    # μ_k on the grids h and h/2, and on h/4 if still unclear (located from 0 by Sturm counts:
+    # in a wide box other μ, of states or of the box, may lie as close to 0)
     mu = np.zeros(3)
-    start = 0.5 * (lo + hi)
+    start = 0.0
     value = 0.0
     for i in range(3):
         if i == 0:
@@ -132,8 +132,6 @@ def _zero_energy_count(code, fp, tx, tcoef, mass, l, rs, veff, r_min, support, r
         else:
             fine, ge, gpe = _build(code, fp, tx, tcoef, mass, l, beta, c, tc, t0, t1, n, support, 2 * i)
         prm = _prm(mass, l, nv.TAIL_FIXED, fixed, support, ge, gpe, scale, False)
-        if i == 0:
-            prm[9], prm[10] = lo, hi
         nn = n * (1 if i == 0 else 2 * i)
         out = nv.solve_grid(fine, prm, 1, nn, (t1 - t0) / nn, k, start, start, np.empty(nn + 2), False)
         if out[1] == 1:
@@ -291,8 +289,8 @@ def _level(code, fp, tx, tcoef, mass, l, kind, tail_p, support, jumps, scale, k,
                     failed = True
                     break
                 continue
-            if status == 1:  # deeper than this grid resolves
-                energy = 4.0 * energy if (bound and energy < 0.0) else energy - scale
+            if status == 1:  # deeper than this grid resolves: below its floor, out[0]
+                energy = min(4.0 * energy, 1.2 * out[0]) if (bound and energy < 0.0) else energy - scale
                 why = 1
                 failed = True
                 break

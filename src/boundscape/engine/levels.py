@@ -354,8 +354,8 @@ def _solve(problem: RadialProblem, k: int, guess: float, rtol: float, want_u: bo
         arrays = problem.arrays(grid)
         prm = problem.params(arrays)
         e1, status, _, *_ = first = _pass(problem, arrays, prm, 4, k, energy)
-        if status == 1:  # deeper than this grid resolves
-            energy = 4.0 * energy if bound and energy < 0 else energy - pot.energy_scale
+        if status == 1:  # deeper than this grid resolves: below its floor, e1
+            energy = min(4.0 * energy, 1.2 * e1) if bound and energy < 0 else energy - pot.energy_scale
             why = "level below the grid's reach"
             continue
         if status == 4:  # not bound in this box: a larger box (or it is not resolved at all)

@@ -110,9 +110,10 @@ class ZeroEnergyProblem:
     def count(self) -> int:
         """The exact number of bound states: negative μ_k, the marginal ones settled.
 
-        Only the μ_k on either side of zero can be misjudged by the coarse count: the highest
-        negative one if it lies within MARGIN of zero, the lowest positive one likewise (in a
-        wide box the positive μ_k near zero are mostly box states, settled at once)."""
+        Only the μ_k on either side of zero can be misjudged by the coarse count (two states
+        within discretisation error of threshold at once do not occur): the highest negative one
+        if it lies within MARGIN of zero, the lowest positive one likewise (in a wide box the
+        positive μ_k near zero are mostly box states, settled at once)."""
         delta = MARGIN * self.scale
         count = self.coarse_count()
         if count > 0 and self._count_below(-delta) < count and self.settled(count - 1) >= 0.0:
