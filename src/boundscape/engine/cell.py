@@ -14,6 +14,10 @@ import math
 import numpy as np
 from numba import njit
 
+from . import jitcache
+
+_saved_cache_dir = jitcache.enter()  # this module's kernels are cached by jitcache's rule
+
 from . import numerov as nv
 from .compiled_potentials import potential_at
 
@@ -348,3 +352,6 @@ def _level(code, fp, tx, tcoef, mass, l, kind, tail_p, support, jumps, scale, k,
     row[18] = t0
     row[19] = t1
     row[20] = n
+
+
+jitcache.leave(_saved_cache_dir)

@@ -14,6 +14,10 @@ import math
 import numpy as np
 from numba import njit
 
+from . import jitcache
+
+_saved_cache_dir = jitcache.enter()  # this module's kernels are cached by jitcache's rule
+
 __all__ = ["kernel_of", "potential_at", "CODES"]
 
 CODES = {"coulomb": 1, "yukawa": 2, "ecsc": 3, "hulthen": 4, "square_well": 5, "harmonic": 6, "tabulated": 7}
@@ -75,3 +79,6 @@ def potential_at(code, prm, x, c, r, continued):
     if prm[3] != 0.0:
         v *= math.exp(-r / lam)
     return v
+
+
+jitcache.leave(_saved_cache_dir)

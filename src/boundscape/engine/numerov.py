@@ -29,6 +29,10 @@ import math
 import numpy as np
 from numba import njit
 
+from . import jitcache
+
+_saved_cache_dir = jitcache.enter()  # this module's kernels are cached by jitcache's rule
+
 __all__ = ["map_point", "map_nodes", "t_of_r", "assemble", "exterior_log_derivative", "sturm_count", "sturm",
            "solve_level", "solve_grid", "design_map", "wkb_energy", "outward_solution", "exterior_tail_moments", "TAIL_SHORT", "TAIL_COULOMB",
            "TAIL_CONFINING", "TAIL_FIXED"]
@@ -703,3 +707,6 @@ def exterior_tail_moments(l, mass, energy, R, nodes, weights, panels):
             t0 += f
             t1 += f * r
     return t0, t1
+
+
+jitcache.leave(_saved_cache_dir)
