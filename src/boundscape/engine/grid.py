@@ -27,7 +27,9 @@ from functools import lru_cache
 
 import numpy as np
 
-from . import numerov as nv
+from .jitcache import lazy_module
+
+nv = lazy_module("numerov")
 
 __all__ = ["MappedGrid", "GridArrays", "design_grid", "build_arrays", "richardson", "richardson_weights",
            "THETA", "H_MAX", "REFINE", "STRIDES"]

@@ -28,15 +28,17 @@ import numpy as np
 from ..checks import quantum_number
 from ..errors import ConvergenceError
 from ..labels import state_label
-from . import cell as compiled
 from . import grid as fd
-from . import numerov as nv
-from .compiled_potentials import kernel_of
+from .jitcache import lazy_module
 from .effective import ORIGIN_TOLERANCE
 from .potential import Potential
 from .problem import DECAY_LENGTHS, SAMPLES, RadialProblem, problem_for
 from .status import NOT_CONVERGED, OK
 from .zero_energy import MARGIN, zero_energy_problem
+
+compiled = lazy_module("cell")
+nv = lazy_module("numerov")
+_potentials = lazy_module("compiled_potentials")
 
 __all__ = ["BoundLevels", "bound_levels", "LevelSolution", "solve_level", "level_on_grid",
            "DEFAULT_LEVELS", "RTOL"]
@@ -157,7 +159,7 @@ def _top(pot, l, keep):
 def compiled_cell(pot, l, keep_max, rtol=RTOL):
     """Count and levels of a cell in one compiled call (:mod:`.cell`); None if the family has no
     compiled formula.  ``keep_max``: levels wanted, −1 for all (short range only)."""
-    kernel = kernel_of(pot)
+    kernel = _potentials.kernel_of(pot)
     if kernel is None:
         return None
     code, fp, tx, tcoef = kernel

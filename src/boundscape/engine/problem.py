@@ -23,7 +23,7 @@ from functools import cached_property
 import numpy as np
 
 from . import grid as fd
-from . import numerov as nv
+from .jitcache import lazy_module
 from .effective import origin_radius
 from .potential import Potential
 
@@ -31,7 +31,8 @@ __all__ = ["RadialProblem", "DECAY_LENGTHS", "SAMPLES"]
 
 DECAY_LENGTHS = 20.0
 SAMPLES = 256  # log-spaced samples of V_eff, for boxes, grid design and guesses
-_TAIL_CODES = {"short": nv.TAIL_SHORT, "coulomb": nv.TAIL_COULOMB, "confining": nv.TAIL_CONFINING}
+nv = lazy_module("numerov")
+_TAIL_NAMES = ("short", "coulomb", "confining")  # in the order of numerov.TAIL_SHORT, _COULOMB, _CONFINING
 
 
 @dataclass
@@ -61,7 +62,7 @@ class RadialProblem:
     def tail_code(self) -> tuple[int, float]:
         """(kind, parameter) of the outer condition for the compiled kernels."""
         pot = self.pot
-        kind = _TAIL_CODES[pot.tail]
+        kind = _TAIL_NAMES.index(pot.tail)
         if kind == nv.TAIL_COULOMB:
             return kind, float(pot.coulomb_charge)
         if kind == nv.TAIL_CONFINING:

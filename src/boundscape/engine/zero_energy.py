@@ -25,9 +25,11 @@ import numpy as np
 from ..checks import quantum_number
 from ..errors import ConvergenceError, InputError
 from . import grid as fd
-from . import numerov as nv
+from .jitcache import lazy_module
 from .potential import Potential
 from .problem import RadialProblem
+
+nv = lazy_module("numerov")
 
 __all__ = ["ZeroEnergyProblem", "zero_energy_problem", "count_bound", "zero_energy_solution",
            "MARGIN", "THETA_CRITICAL"]
