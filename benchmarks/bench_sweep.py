@@ -1,18 +1,25 @@
-"""End-to-end speed of the sweep workflow: the large sweep, then the same sweep at half the cells.
+"""End-to-end speed of the sweep workflow against the plain script on the same cores.
 
-    python benchmarks/bench_sweep.py [--cores 2] [--config config/sweeps/large.yaml] [--fraction 1.0]
+    python benchmarks/bench_sweep.py [--cores 2] [--config config/sweeps/large.yaml] [--warm] [--no-plain]
 
-Prints, side by side for the full and the half sweep: wall time, cells per second, the engine's
-own compute time summed over tiles and critical blocks (recorded by each job in its file), the
-jobs' total time from Snakemake's benchmark files, and the workflow's overhead as a fraction of
-the cores' wall time not spent in the engine; then the growth factor and the targets.
-Each run starts from scratch in a temporary directory; only the cube is built (no figures).
+Runs, in one process and one after the other:
+
+1. the plain script: every cell of the sweep with the plain approach (uniform grid, N = 2000,
+   r_max = 100 bohr, scipy.linalg.eigh_tridiagonal below zero), split over ``--cores`` worker
+   processes; its wall time, and its ideal time (its summed per-cell time over the cores);
+2. the workflow (Snakemake, the cube only, no figures) from scratch in a temporary directory,
+   with an empty kernel cache, so the one compilation of the engine's kernels is in the figure
+   (``--warm``: also a second run with the cache the first one filled).
+
+Printed: wall times, their ratio to the plain script's ideal time, the engine's own time summed
+over the jobs, the collect step's peak resident memory and the cube's size on disk.
 """
 
 from __future__ import annotations
 
 import argparse
 import csv
+import multiprocessing
 import os
 import subprocess
 import sys
@@ -20,91 +27,100 @@ import tempfile
 import time
 from pathlib import Path
 
+import numpy as np
 import xarray as xr
-import yaml
 
 from boundscape import sweep
 
 REPO = Path(__file__).resolve().parents[1]
-TARGETS = {"cells": 20_000, "wall_s": 60.0, "overhead": 0.15, "growth": 2.1}
 
 
-def with_lambda_points(config, num, cells_per_tile):
-    config = yaml.safe_load(yaml.safe_dump(config))
-    axis = config["grid"]["screening_length"]
-    if not isinstance(axis, dict):
-        raise SystemExit("bench_sweep: the sweep's screening_length must be a {start, stop, num} range")
-    axis["num"] = int(num)
-    # Same cells per tile in both sweeps, so half the cells means half the jobs.
-    config["tiles"]["cells"] = int(cells_per_tile)
-    return config
+def plain_cell(args):
+    """Bound levels of one cell, the plain way; returns the seconds it took."""
+    from scipy.linalg import eigh_tridiagonal
+
+    from boundscape import potential
+
+    family, Z, lam, l, mass = args
+    start = time.perf_counter()
+    pot = potential(family, Z, lam, mass)
+    n, r_max = 2000, 100.0
+    h = r_max / n
+    r = h * np.arange(1, n + 1)
+    v = pot(r) + l * (l + 1) / (2 * mass * r * r)
+    d = 1.0 / (mass * h * h) + v
+    e = np.full(n - 1, -0.5 / (mass * h * h))
+    eigh_tridiagonal(d, e, eigvals_only=True, select="v", select_range=(float(np.min(v)) - 1.0, 0.0))
+    return time.perf_counter() - start
 
 
-def run(config, cores, workdir):
-    workdir.mkdir(parents=True)
-    (workdir / "sweep.yaml").write_text(yaml.safe_dump(config))
-    plan = sweep.plan(config)
+def run_plain(plan, cores):
+    cells = [(plan.engine["family"], float(Z), float(lam), int(l), plan.engine["mass"])
+             for Z in plan.strength for lam in plan.screening_length for l in plan.l]
+    start = time.perf_counter()
+    with multiprocessing.Pool(cores) as pool:
+        seconds = pool.map(plain_cell, cells, chunksize=max(1, len(cells) // (8 * cores)))
+    wall = time.perf_counter() - start
+    return {"wall_s": wall, "ideal_s": sum(seconds) / cores, "per_cell_ms": 1e3 * sum(seconds) / len(cells)}
+
+
+def run_workflow(config_path, cores, workdir, cache_dir):
+    workdir.mkdir(parents=True, exist_ok=True)
+    plan = sweep.plan(sweep.load_config(config_path))
     cube = workdir / "results" / plan.sweep / "levels.nc"
     command = [sys.executable, "-m", "snakemake", str(cube.relative_to(workdir)), "--snakefile",
-               str(REPO / "workflow" / "Snakefile"), "--directory", str(workdir), "--configfile", str(workdir / "sweep.yaml"),
+               str(REPO / "workflow" / "Snakefile"), "--directory", str(workdir), "--configfile", str(config_path),
                "--cores", str(cores), "--quiet", "all"]
+    env = {**os.environ, "NUMBA_CACHE_DIR": str(cache_dir)}
     start = time.perf_counter()
-    proc = subprocess.run(command, capture_output=True, text=True)
+    proc = subprocess.run(command, capture_output=True, text=True, env=env)
     wall = time.perf_counter() - start
     if proc.returncode != 0:
         raise SystemExit(f"bench_sweep: snakemake failed:\n{proc.stdout[-2000:]}\n{proc.stderr[-2000:]}")
     with xr.open_dataset(cube) as ds:
         engine = float(ds.attrs["engine_seconds"])
         flagged = int((ds.status != 0).sum())
-    jobs = 0.0
-    for tsv in (workdir / "results" / plan.sweep / "benchmarks").glob("*.tsv"):
+    bench = workdir / "results" / plan.sweep / "benchmarks"
+    rows = {}
+    for tsv in bench.glob("*.tsv"):
         with tsv.open() as fh:
-            jobs += sum(float(row["s"]) for row in csv.DictReader(fh, delimiter="\t"))
-    return {"cells": plan.num_cells, "jobs": len(plan.tiles) + len(plan.critical_blocks) + 1, "wall_s": wall,
-            "cells_per_s": plan.num_cells / wall, "engine_s": engine, "job_s": jobs,
-            "overhead": 1.0 - engine / (cores * wall), "flagged": flagged}
+            rows[tsv.stem] = next(csv.DictReader(fh, delimiter="\t"))
+    kernels = float(rows.get("engine_kernels", {}).get("s", "nan"))
+    return {"cells": plan.num_cells, "jobs": len(rows), "wall_s": wall, "engine_s": engine,
+            "kernels_s": kernels, "collect_rss_mb": float(rows["collect"]["max_rss"]),
+            "cube_mb": cube.stat().st_size / 2**20, "flagged": flagged}
 
 
 def main():
     parser = argparse.ArgumentParser(description=__doc__.splitlines()[0])
     parser.add_argument("--cores", type=int, default=2)
     parser.add_argument("--config", default=str(REPO / "config" / "sweeps" / "large.yaml"))
-    parser.add_argument("--fraction", type=float, default=1.0,
-                        help="scale the number of screening lengths (for a quick look; 1.0 for the real figures)")
-    parser.add_argument("--only", choices=("full", "half"), help="run one of the two sweeps")
+    parser.add_argument("--warm", action="store_true", help="also run the workflow again with a filled kernel cache")
+    parser.add_argument("--no-plain", action="store_true", help="skip the plain script (e.g. for the scale sweep)")
     args = parser.parse_args()
 
-    base = sweep.load_config(args.config)
-    num = max(2, round(base["grid"]["screening_length"]["num"] * args.fraction))
-    cells = max(1, round(base["tiles"]["cells"] * args.fraction))
-    sweeps = {"full": with_lambda_points(base, num, cells), "half": with_lambda_points(base, max(1, num // 2), cells)}
-    if args.only:
-        sweeps = {args.only: sweeps[args.only]}
-    results = {}
+    plan = sweep.plan(sweep.load_config(args.config))
+    print(f"sweep {plan.sweep}: {plan.num_cells} cells, {len(plan.tiles)} tiles, {args.cores} cores", flush=True)
+    plain = None
+    if not args.no_plain:
+        plain = run_plain(plan, args.cores)
+        print(f"plain script: wall {plain['wall_s']:.1f} s, ideal {plain['ideal_s']:.1f} s "
+              f"({plain['per_cell_ms']:.2f} ms per cell)", flush=True)
     with tempfile.TemporaryDirectory(prefix="bench_sweep_") as tmp:
-        for name, config in sweeps.items():
-            print(f"running the {name} sweep ({sweep.plan(config).num_cells} cells) on {args.cores} cores ...",
-                  flush=True)
-            results[name] = run(config, args.cores, Path(tmp) / name)
-
-    rows = [("cells", "{:d}"), ("jobs", "{:d}"), ("wall_s", "{:.1f}"), ("cells_per_s", "{:.0f}"),
-            ("engine_s", "{:.1f}"), ("job_s", "{:.1f}"), ("overhead", "{:.1%}"), ("flagged", "{:d}")]
-    names = list(results)
-    print(f"\n{'':<14}" + "".join(f"{n:>12}" for n in names))
-    for key, fmt in rows:
-        print(f"{key:<14}" + "".join(f"{fmt.format(results[n][key]):>12}" for n in names))
-    print(f"\nengine_s: the engine's own time summed over all jobs; job_s: Snakemake's per-job times summed;\n"
-          f"overhead: 1 - engine_s / (cores x wall_s), i.e. the share of {args.cores} cores' wall time not in the engine.")
-    full = results.get("full")
-    print("\ntarget                       measured      goal")
-    if full:
-        print(f"cells in the sweep           {full['cells']:>8d}   >= {TARGETS['cells']}")
-        print(f"wall time (s)                {full['wall_s']:>8.1f}   <= {TARGETS['wall_s']:.0f}")
-        print(f"workflow overhead            {full['overhead']:>8.1%}   <= {TARGETS['overhead']:.0%}")
-    if len(results) == 2:
-        growth = results["full"]["wall_s"] / results["half"]["wall_s"]
-        print(f"wall(full) / wall(half)      {growth:>8.2f}   <= {TARGETS['growth']}")
-    print(f"(load average during the run: {os.getloadavg()[0]:.2f})")
+        cache = Path(tmp) / "numba_cache"
+        runs = {"cold": run_workflow(Path(args.config).resolve(), args.cores, Path(tmp) / "cold", cache)}
+        if args.warm:
+            runs["warm"] = run_workflow(Path(args.config).resolve(), args.cores, Path(tmp) / "warm", cache)
+    for name, res in runs.items():
+        line = (f"workflow ({name} kernel cache): wall {res['wall_s']:.1f} s for {res['cells']} cells "
+                f"({res['cells'] / res['wall_s']:.0f} cells/s), {res['jobs']} jobs, engine {res['engine_s']:.1f} s "
+                f"summed, kernels {res['kernels_s']:.1f} s, collect peak RSS {res['collect_rss_mb']:.0f} MB, "
+                f"cube {res['cube_mb']:.1f} MB, {res['flagged']} cells flagged")
+        print(line)
+        if plain:
+            print(f"  ratio to the plain script's ideal 2-core time: {res['wall_s'] / plain['ideal_s']:.2f} "
+                  f"(to its measured wall time: {res['wall_s'] / plain['wall_s']:.2f})")
+    print(f"(load average at the end: {os.getloadavg()[0]:.2f})")
 
 
 if __name__ == "__main__":

@@ -173,12 +173,13 @@ def test_resumes_after_a_kill(tmp_path):
     command = [sys.executable, "-m", "snakemake", "results/tiny/levels.nc", "--snakefile", str(REPO / "workflow" / "Snakefile"),
                "--directory", str(tmp_path), "--configfile", str(tmp_path / "sweep.yaml"), "--cores", "1"]
     process = subprocess.Popen(command, stdout=subprocess.DEVNULL, stderr=subprocess.DEVNULL, start_new_session=True)
-    logs = tmp_path / "results" / "tiny" / "logs"
+    benchmarks = tmp_path / "results" / "tiny" / "benchmarks"
     deadline = time.monotonic() + 120
     try:
-        # Wait until two tiles are done (their jobs printed after the file was renamed into place).
+        # Wait until two tiles are done: Snakemake writes a job's benchmark file once the job's
+        # process has ended (a job that printed but is still exiting counts as unfinished to it).
         while time.monotonic() < deadline:
-            done = [p for p in logs.glob("solve_tile_*.log") if "cells" in p.read_text()]
+            done = list(benchmarks.glob("solve_tile_*.tsv"))
             if len(done) >= 2:
                 break
             time.sleep(0.05)

@@ -6,11 +6,18 @@ The package is layered (see DEVELOPERS.md): ``engine`` (the radial problem), ``p
 ``plots`` and ``cli``.  The names below are the engine's.
 """
 
-from .engine import (FAMILIES, BoundLevels, Potential, Resonances, bound_levels, count_bound,
-                     critical_screening_length, critical_strength, dissolution_screening_length, potential, resonances,
-                     zero_energy_solution)
+from . import engine
+from .engine import FAMILIES, Potential, Resonances, dissolution_screening_length, potential, resonances
 from .errors import ConvergenceError, InputError
 from .version import VERSION as __version__
+
+
+def __getattr__(name):
+    # the solvers on first use (see boundscape.engine): importing the package stays light
+    if name in ("BoundLevels", "bound_levels", "count_bound", "critical_screening_length", "critical_strength",
+                "zero_energy_solution"):
+        return getattr(engine, name)
+    raise AttributeError(f"module {__name__!r} has no attribute {name!r}")
 
 __all__ = [
     "FAMILIES", "Potential", "potential", "BoundLevels", "bound_levels", "count_bound",

@@ -1,6 +1,26 @@
+# The engine's compiled kernels, compiled (or loaded from numba's cache) once before the
+# parallel jobs, which then load them instead of each compiling (boundscape.engine.jitcache).
+rule engine_kernels:
+    output:
+        f"{RESULTS}/engine_kernels.txt",
+    log:
+        f"{RESULTS}/logs/engine_kernels.log",
+    benchmark:
+        f"{RESULTS}/benchmarks/engine_kernels.tsv"
+    threads: 1
+    resources:
+        mem_mb=2000,
+        runtime=30,
+    conda:
+        "../envs/boundscape.yaml"
+    shell:
+        "python -m boundscape.engine.warmup > {output:q} 2> {log:q}"
+
+
 rule solve_tile:
     input:
         engine_inputs,
+        kernels=f"{RESULTS}/engine_kernels.txt",
     output:
         f"{RESULTS}/tiles/tile_{{tile}}.nc",
     params:
@@ -24,6 +44,7 @@ rule solve_tile:
 rule criticals:
     input:
         engine_inputs,
+        kernels=f"{RESULTS}/engine_kernels.txt",
     output:
         f"{RESULTS}/criticals/criticals_{{block}}.nc",
     params:

@@ -1,4 +1,10 @@
-"""Collect: merge a sweep's tiles and critical blocks into one cube, checked against the plan."""
+"""Collect: merge a sweep's tiles and critical blocks into one cube, checked against the plan.
+
+Streaming: the per-cell arrays (counts, status, reasons) are small and are gathered first; the
+per-level variables, the bulk of a cube, are written as NaN placeholders (a zero-stride view, no
+memory) and then filled tile by tile in the written file, so collect holds one tile's levels at
+a time whatever the sweep's size.
+"""
 
 from __future__ import annotations
 
@@ -15,7 +21,7 @@ from ..sweep.plan import plan as make_plan
 from ..sweep.tiles import CRITICAL_FLAGS
 from ..version import VERSION
 from .model import LEVEL_VARS, build_cube
-from .netcdf import read_part, write_cube
+from .netcdf import open_for_filling, read_part, read_part_variables, write_cube
 from .physical import add_physical_coordinates
 
 __all__ = ["collect"]
@@ -30,11 +36,36 @@ def _git_commit() -> str | None:
     return out.stdout.strip() or None
 
 
-def _read_checked(path, expected_spec):
-    arrays, attrs = read_part(path)
+def _read_checked(path, expected_spec, names=None):
+    """A part's attributes and its variables ``names`` (all if None), checked against the plan."""
+    if names is None:
+        arrays, attrs = read_part(path)
+    else:
+        import netCDF4
+
+        with netCDF4.Dataset(path) as nc:
+            attrs = {name: nc.getncattr(name) for name in nc.ncattrs()}
+        arrays = read_part_variables(path, names)
     if json.loads(attrs["spec_json"]) != expected_spec:
         raise InputError(f"{path} was computed for other cells or settings than the plan's; rerun the workflow")
     return arrays, attrs
+
+
+def _fill_levels(plan, tile_paths):
+    """Write each tile's levels into the cube file, one tile in memory at a time."""
+    def fill(cube_path):
+        nc = open_for_filling(cube_path)
+        try:
+            for tile, path in zip(plan.tiles, tile_paths):
+                arrays = read_part_variables(path, LEVEL_VARS)
+                s0, s1 = tile.strength_slice
+                index = list(tile.screening_length_index)
+                for name in LEVEL_VARS:
+                    nc.variables[name][s0:s1, index, :, :] = arrays[name]
+        finally:
+            nc.close()
+
+    return fill
 
 
 def collect(config: dict, tile_paths, critical_paths, output, summary=None) -> str:
@@ -62,15 +93,16 @@ def collect(config: dict, tile_paths, critical_paths, output, summary=None) -> s
         raise InputError(f"collect needs {len(plan.tiles)} tiles and {len(plan.critical_blocks)} "
                          f"critical blocks, got {len(tile_paths)} and {len(critical_paths)}")
     shape = (plan.strength.size, plan.screening_length.size, plan.l.size)
-    levels = {name: np.full(shape + (plan.n_r_max,), np.nan) for name in LEVEL_VARS}
+    placeholder = np.broadcast_to(np.float64(np.nan), shape + (plan.n_r_max,))
+    levels = {name: placeholder for name in LEVEL_VARS}
     levels["num_bound"] = np.zeros(shape, np.int32)
     levels["status"] = np.zeros(shape, np.int8)
     levels["reasons"] = []
     engine_seconds = 0.0
     for tile, path in zip(plan.tiles, tile_paths):
-        arrays, attrs = _read_checked(path, plan.tile_spec(tile))
+        arrays, attrs = _read_checked(path, plan.tile_spec(tile), ("num_bound", "status"))
         where = (slice(*tile.strength_slice), list(tile.screening_length_index))
-        for name in (*LEVEL_VARS, "num_bound", "status"):
+        for name in ("num_bound", "status"):
             levels[name][where] = arrays[name]
         engine_seconds += float(attrs["engine_seconds"])
         levels["reasons"] += [f"strength={tile.strength[i]!r} screening_length={tile.screening_length[j]!r} "
@@ -103,7 +135,7 @@ def collect(config: dict, tile_paths, critical_paths, output, summary=None) -> s
     ds.attrs["engine_seconds"] = engine_seconds
     # The physical reading of the axes travels with the cube as extra coordinates.
     ds = add_physical_coordinates(ds, from_config(config.get("preset")))
-    write_cube(ds, output)
+    write_cube(ds, output, fill=_fill_levels(plan, tile_paths))
     flagged = int(np.count_nonzero(levels["status"]))
     lines = [f"sweep {plan.sweep}: {plan.num_cells} cells ({' x '.join(map(str, shape))}), "
              f"{flagged} flagged, {len(criticals['reasons'])} critical lengths not converged; "

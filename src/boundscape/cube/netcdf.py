@@ -14,7 +14,8 @@ import numpy as np
 from ..errors import InputError
 from .model import chunk_shape
 
-__all__ = ["write_cube", "open_cube", "atomic_path", "replace_atomically", "write_part", "read_part"]
+__all__ = ["write_cube", "open_cube", "atomic_path", "replace_atomically", "write_part", "read_part",
+           "read_part_variables", "open_for_filling"]
 
 
 def atomic_path(path) -> Path:
@@ -37,8 +38,11 @@ def replace_atomically(write, path):
         temp.unlink(missing_ok=True)
 
 
-def write_cube(ds, path):
-    """Write the cube compressed and chunked, atomically."""
+def write_cube(ds, path, fill=None):
+    """Write the cube compressed and chunked, atomically.
+
+    ``fill(temp_path)``, if given, is called on the written file before it is renamed into
+    place: collect uses it to stream the tiles' levels into a cube written with placeholders."""
     encoding = {}
     for name, var in ds.variables.items():
         enc = {"_FillValue": None}
@@ -48,8 +52,12 @@ def write_cube(ds, path):
             if var.dtype.kind == "f":
                 enc["_FillValue"] = np.nan
         encoding[name] = enc
-    replace_atomically(lambda temp: ds.to_netcdf(temp, engine="netcdf4", format="NETCDF4",
-                                                 encoding=encoding), path)
+    def write(temp):
+        ds.to_netcdf(temp, engine="netcdf4", format="NETCDF4", encoding=encoding)
+        if fill is not None:
+            fill(temp)
+
+    replace_atomically(write, path)
 
 
 def open_cube(path):
@@ -103,3 +111,21 @@ def read_part(path) -> tuple[dict, dict]:
         arrays = {name: var[...] for name, var in nc.variables.items()}
         attrs = {name: nc.getncattr(name) for name in nc.ncattrs()}
     return arrays, attrs
+
+
+def read_part_variables(path, names) -> dict:
+    """Only the variables ``names`` of a part (the others stay on disk)."""
+    import netCDF4
+
+    with netCDF4.Dataset(path) as nc:
+        nc.set_auto_mask(False)
+        return {name: nc.variables[name][...] for name in names}
+
+
+def open_for_filling(path):
+    """The written cube opened to overwrite variables in place (netCDF4, append mode)."""
+    import netCDF4
+
+    nc = netCDF4.Dataset(path, "a")
+    nc.set_auto_mask(False)
+    return nc

@@ -2,18 +2,33 @@
 solution, zero-energy counts and critical parameters, bound levels, and what each lost state
 becomes past its threshold (resonances, virtual states).
 
-Imports numpy and scipy only (xarray just to read a NetCDF potential table, when asked):
-no workflow, no plotting, no output files.
+Imports numpy, scipy and numba only (xarray just to read a NetCDF potential table, when
+asked): no workflow, no plotting, no output files.  The compiled kernels are cached on disk
+(see :mod:`.jitcache`); the solvers are imported on first use.
 """
 
-from .critical import critical_screening_length, critical_strength
+import importlib
+
 from .families import FAMILIES, Family, family_info
-from .levels import BoundLevels, bound_levels
 from .potential import Potential, potential, potential_from_spec
 from .resonances import Resonances, dissolution_screening_length, resonances
 from .status import DISSOLVED, INPUT_REJECTED, LEVEL_STATUS, NOT_CONVERGED, OK, RESONANCE_STATUS
 from .tables import Table, load_table
-from .zero_energy import count_bound, zero_energy_solution
+
+# The solvers load numba and the compiled kernels (some 100 MB): only when first used, so that a
+# step that only reads cubes (collect, figures) stays light.
+_SOLVERS = {"BoundLevels": "levels", "bound_levels": "levels", "count_bound": "zero_energy",
+            "zero_energy_solution": "zero_energy", "critical_screening_length": "critical",
+            "critical_strength": "critical"}
+
+
+def __getattr__(name):
+    if name in _SOLVERS:
+        value = getattr(importlib.import_module(f".{_SOLVERS[name]}", __name__), name)
+        globals()[name] = value
+        return value
+    raise AttributeError(f"module {__name__!r} has no attribute {name!r}")
+
 
 __all__ = [
     "FAMILIES", "Family", "family_info", "Potential", "potential", "potential_from_spec", "Table", "load_table",

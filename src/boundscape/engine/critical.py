@@ -16,7 +16,7 @@ from ..checks import quantum_number
 from ..errors import InputError
 from .families import family_info
 from .potential import potential_from_spec
-from .zero_energy import zero_energy_problem
+from .zero_energy import THETA_CRITICAL, zero_energy_problem
 
 __all__ = ["critical_screening_length", "critical_strength"]
 
@@ -33,8 +33,8 @@ def _root_on(make, l: int, k: int, start: float, scale_up=2.0, span=1e12):
     """Find the parameter p at which state k appears, μ_k(p) = 0, μ_k decreasing in p.
 
     ``make(p)`` returns a Potential.  A bracket is grown geometrically from ``start`` on the
-    coarse count; the grid is then frozen (its size fixed at the bracket's upper end) so that
-    μ_k(p) is a smooth function of p for brentq."""
+    coarse count; the grid is then frozen (its map and size from the bracket's upper end, only
+    stretched to each potential's range) so that μ_k(p) is a smooth function of p for brentq."""
     def bound(p):
         return zero_energy_problem(make(p), l).coarse_count() > k
 
@@ -47,10 +47,10 @@ def _root_on(make, l: int, k: int, start: float, scale_up=2.0, span=1e12):
         hi, lo = lo, lo / scale_up
         if lo < start / span:
             return 0.0
-    m = zero_energy_problem(make(hi), l).grid.m
+    like = zero_energy_problem(make(hi), l, theta=THETA_CRITICAL).grid
 
     def mu(p):
-        return zero_energy_problem(make(p), l, m).extrapolated(k)
+        return zero_energy_problem(make(p), l, like=like).extrapolated(k)
 
     # the coarse bracket may be off by discretisation error: widen it on the extrapolated μ
     while mu(lo) < 0:

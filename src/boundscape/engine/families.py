@@ -9,7 +9,8 @@ A family knows its formula and the facts the solver needs about it:
   from it the exterior solution that closes a box (:mod:`.exterior`);
 * ``support`` -- a radius beyond which V is negligible against the centrifugal term (or
   exactly zero); the zero-energy solution is matched to A r^{l+1} + B r^{-l} there;
-* ``breakpoints`` -- radii where V is not smooth (the solver puts a grid node there);
+* ``breakpoints`` -- radii where V is not smooth (only the support may be one: the solver's box
+  then ends there, and ``continued`` gives V's interior formula just past it);
 * its energy and length scales (tolerances, where a grid starts) and the starting points of
   the critical-parameter searches.
 
@@ -59,6 +60,11 @@ class Family:
     def value(self, pot, r):
         """V(r) in hartree of the potential ``pot``."""
         return self.evaluate(r, pot.strength, pot.screening_length)
+
+    def continued(self, pot, r):
+        """V's interior formula continued past the support (hartree): where the solver needs V
+        just beyond the box it closes at the support.  Equal to :meth:`value` unless V jumps there."""
+        return self.value(pot, r)
 
     def tail_of(self, pot) -> str:
         return self.tail
@@ -159,6 +165,9 @@ class SquareWell(Family):
     def evaluate(self, r, Z, lam):
         # r = λ belongs to the inside: the box closes there with the exterior solution.
         return np.where(r <= lam, -Z, 0.0)
+
+    def continued(self, pot, r):
+        return np.full_like(np.asarray(r, dtype=float), -pot.strength)
 
     def support(self, pot):
         return float(pot.screening_length)

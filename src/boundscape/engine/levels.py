@@ -1,20 +1,21 @@
 """Bound levels of one central potential and one angular momentum l.
 
-Method (see ``grid`` for the discretisation):
+Method (the discretisation is in :mod:`.grid`, the compiled kernels in :mod:`.numerov`):
 
-1. Survey.  The exact count N_b comes from the zero-energy problem (``threshold``); its
-   eigenvalues are also lower estimates of the energies (its outer condition is the E = 0 one).
-   Coulomb-tail and confining potentials bind infinitely many levels: the lowest ``n_r_max``
-   (default 20) are surveyed in a box sized from the hydrogenic or oscillator estimate.
-2. Per level.  Each level gets its own box: out to R = r_t + C/κ (r_t its outer turning point,
-   κ = √(2μ|E|)) or to the end of the potential's range if that comes first, where the exact
-   exterior log-derivative closes the box.  So a level near threshold, which spreads like 1/κ,
-   is never squeezed, and no level pays for a box it does not need.  The outer condition depends
-   on E; it is solved by Newton's method on E = eig_k(T(E)), whose derivative is the
-   first-order sensitivity of the eigenvalue to the boundary row.
-3. Extrapolation.  Energies and ⟨r⟩ on five refinements of the level's grid are Richardson-
-   extrapolated; the change against the extrapolation without the coarsest grid is the error
-   estimate, and a level whose estimate exceeds the tolerance is flagged, not dropped.
+1. Count.  For a short-range potential the exact count N_b comes from the zero-energy problem
+   (:mod:`.zero_energy`).  Coulomb-tail and confining potentials bind infinitely many levels:
+   the lowest ``n_r_max`` (default 20) are returned.
+2. Per level.  A Langer-WKB guess sets the level's own box (:mod:`.problem`) and grid; the
+   level is isolated there by Sturm counts and converged by Newton's method with Cooley's
+   energy correction, the exterior condition at R taken at the current energy.  If the solved
+   level asks for another box or grid than its guess gave, the grid is designed again from it.
+3. Extrapolation.  Energies and ⟨r⟩ on the grids h, h/2, h/4 are Richardson-extrapolated
+   (error series h⁴, h⁶); the change against the extrapolation without the coarsest grid is
+   the error estimate.  A level whose estimate exceeds the tolerance is solved again on a finer
+   design grid, and flagged, not dropped, if it still does.
+
+Every number depends only on the cell (potential, l): no state is kept between calls except
+cached critical lengths, so a cell gives the same bits whatever was solved before it.
 """
 
 from __future__ import annotations
@@ -28,20 +29,27 @@ from ..checks import quantum_number
 from ..errors import ConvergenceError
 from ..labels import state_label
 from . import grid as fd
-from .effective import effective_potential, origin_radius
+from .jitcache import lazy_module
+from .effective import ORIGIN_TOLERANCE
 from .potential import Potential
+from .problem import DECAY_LENGTHS, SAMPLES, RadialProblem, problem_for
 from .status import NOT_CONVERGED, OK
-from .zero_energy import zero_energy_problem
+from .zero_energy import MARGIN, zero_energy_problem
 
-__all__ = ["BoundLevels", "bound_levels", "DEFAULT_LEVELS", "RTOL"]
+compiled = lazy_module("cell")
+nv = lazy_module("numerov")
+_potentials = lazy_module("compiled_potentials")
+
+__all__ = ["BoundLevels", "bound_levels", "LevelSolution", "solve_level", "level_on_grid",
+           "DEFAULT_LEVELS", "RTOL"]
 
 DEFAULT_LEVELS = 20  # levels returned for potentials that bind infinitely many
-# Box margin beyond the turning point, in decay lengths 1/κ: the density there is e^{-2C}.
-DECAY_LENGTHS = 24.0
-FACTORS = (2, 3, 4, 5, 6)
-ROUNDOFF = 1e-14  # floor of an error estimate, relative: cancellation in E = <T> + <V>
+ROUNDOFF = 1e-14  # floor of an error estimate, relative
 RTOL = 1e-9  # the accuracy the sweep promises on every level (relative)
-
+ATTEMPTS = 8
+# Gauss–Legendre panels for the exterior's moments (16 nodes each: relative error < 1e-12)
+TAIL_PANELS = 24
+_GAUSS = np.polynomial.legendre.leggauss(16)
 
 @dataclass
 class BoundLevels:
@@ -67,6 +75,7 @@ class BoundLevels:
         return [state_label(int(n), self.l) for n in self.n]
 
 
+
 def bound_levels(pot: Potential, l: int, n_r_max: int | None = None, wavefunctions: bool = False,
                  rtol: float = RTOL) -> BoundLevels:
     """Every bound level of angular momentum ``l`` (or the lowest ``n_r_max``).
@@ -80,8 +89,9 @@ def bound_levels(pot: Potential, l: int, n_r_max: int | None = None, wavefunctio
     n_r_max : int, optional
         Keep levels n_r = 0 .. n_r_max-1.  Default: all (20 for Coulomb-tail and confining potentials).
     wavefunctions : bool
-        Also return the grid ``r`` and the normalised u(r) of each level (finest grid; the part
-        beyond the box, if any, is analytic and not sampled).
+        Also return, per level, the radii ``r`` and the normalised u(r) on its finest grid (the
+        part beyond the box, if any, is analytic and not sampled); see :func:`solve_level` for
+        every grid of a level and :func:`level_on_grid` for a grid of your choice.
     rtol : float
         Relative tolerance on each energy; levels whose error estimate exceeds it get status 1.
 
@@ -92,226 +102,316 @@ def bound_levels(pot: Potential, l: int, n_r_max: int | None = None, wavefunctio
     l = quantum_number(l)
     if n_r_max is not None:
         n_r_max = quantum_number(n_r_max, "n_r_max")
-    if pot.tail == "short":
-        problem = zero_energy_problem(pot, l)
-        count = problem.count()
-        keep = count if n_r_max is None else min(count, n_r_max)
-        if keep:
-            op, s0 = problem.operator(1)
-            # rough guesses only: each level is located again on its own grid
-            guesses = fd.eigenvalues_by_index(op.diagonal(s0), op.off, 0, keep - 1, pot.energy_scale, 1e-8)[0]
-        else:
-            guesses = np.array([])
+    keep_max = -1 if n_r_max is None else n_r_max
+    if pot.tail != "short" and n_r_max is None:
+        keep_max = DEFAULT_LEVELS
+    cell = compiled_cell(pot, l, keep_max, rtol)
+    if cell is not None:
+        count, solved = cell
     else:
-        count = -1
-        keep = DEFAULT_LEVELS if n_r_max is None else n_r_max
-        guesses = _survey_infinite(pot, l, keep)
-
-    levels = [_refine(pot, l, k, float(guesses[k]), rtol, wavefunctions) for k in range(keep)]
+        count, solved = _python_cell(pot, l, keep_max, rtol, wavefunctions)
+    keep = len(solved)
     out = BoundLevels(
         l=l,
-        energy=np.array([lv.energy for lv in levels]),
+        energy=np.array([lv.energy for lv in solved]),
         n_r=np.arange(keep),
-        energy_error=np.array([lv.error for lv in levels]),
-        mean_radius=np.array([lv.mean_radius for lv in levels]),
-        status=np.array([lv.status for lv in levels], dtype=np.int8),
-        reason=[lv.reason for lv in levels],
+        energy_error=np.array([lv.error for lv in solved]),
+        mean_radius=np.array([lv.mean_radius for lv in solved]),
+        status=np.array([lv.status for lv in solved], dtype=np.int8),
+        reason=[lv.reason for lv in solved],
         num_bound=count,
     )
     finite = out.energy[np.isfinite(out.energy)]
     if np.any(np.diff(finite) <= 0):
         raise ConvergenceError(f"levels of l={l} came out unordered for {pot}: {out.energy}")
     if wavefunctions:
-        out.r = [lv.r for lv in levels]
-        out.u = [lv.u for lv in levels]
+        for lv in solved:
+            if lv.u is None and lv.grid is not None:
+                _attach_wavefunction(pot, lv)
+        out.r = [lv.r for lv in solved]
+        out.u = [lv.u for lv in solved]
     return out
 
 
+def _python_cell(pot, l, keep_max, rtol, want_u):
+    """The count and levels of a cell step by step in Python (families without compiled V)."""
+    count = zero_energy_problem(pot, l).count() if pot.tail == "short" else -1
+    keep = count if keep_max < 0 else (min(count, keep_max) if count >= 0 else keep_max)
+    problem = problem_for(pot, l, max(keep, DEFAULT_LEVELS) if pot.tail != "short" else keep)
+    return count, [_solve(problem, k, _guess(problem, k, keep), rtol, want_u) for k in range(keep)]
+
+
+def _reach(pot, l, keep):
+    """Farthest radius a box of the lowest ``keep`` levels may need (bohr)."""
+    if math.isfinite(pot.support):
+        return float(pot.support)
+    _, reach = pot.exterior(l).survey_window(max(keep, DEFAULT_LEVELS, 1), DECAY_LENGTHS)
+    return 1.5 * reach
+
+
+def _top(pot, l, keep):
+    """Top of the energy window the guesses are sought in (hartree)."""
+    if pot.tail != "confining":
+        return 0.0
+    return 1.5 * pot.exterior(l).survey_window(max(keep, DEFAULT_LEVELS), 8.0)[0]
+
+
+def compiled_cell(pot, l, keep_max, rtol=RTOL):
+    """Count and levels of a cell in one compiled call (:mod:`.cell`); None if the family has no
+    compiled formula.  ``keep_max``: levels wanted, −1 for all (short range only)."""
+    kernel = _potentials.kernel_of(pot)
+    if kernel is None:
+        return None
+    code, fp, tx, tcoef = kernel
+    problem = RadialProblem(pot, l, 0.0)
+    kind, p = problem.tail_code
+    support = float(pot.support)
+    count, count_status, rows = compiled.solve_cell(
+        code, fp, tx, tcoef, float(pot.mass), int(l), kind, p, support, problem.jumps_at_support,
+        float(pot.length_scale), float(pot.energy_scale), _reach(pot, l, keep_max), _top(pot, l, keep_max),
+        int(keep_max), fd.THETA,
+        fd.H_MAX, float(rtol), MARGIN, DECAY_LENGTHS, ORIGIN_TOLERANCE, SAMPLES, ATTEMPTS, ROUNDOFF)
+    if count_status:
+        raise ConvergenceError(f"zero-energy eigenvalue of l={l} for {pot} near threshold did not converge")
+    solved = []
+    exterior = pot.exterior(l)
+    r_min = problem.r_min
+    for k, row in enumerate(rows.tolist()):
+        energy, err, status, why, R, closed = row[:6]
+        if not math.isfinite(energy):
+            solved.append(LevelSolution(l, k, math.nan, math.inf, math.nan, NOT_CONVERGED, compiled.REASONS[int(why)]))
+            continue
+        reason = f"error estimate {err:.2e} hartree exceeds rtol {rtol:g}·|E|" if status else ""
+        t0, t1 = _tail(pot, l, exterior, energy, R) if closed else (0.0, 0.0)
+        norm, first, uend = row[6:9], row[9:12], row[12:15]
+        radii = [(first[j] + t1 * uend[j]) / (norm[j] + t0 * uend[j]) for j in range(3)]
+        # Richardson over h, h/2, h/4 for an error series h⁴, h⁶ (as grid.richardson)
+        radius = (radii[0] - 80.0 * radii[1] + 1024.0 * radii[2]) / 945.0
+        grid = fd.MappedGrid(r_min, R, row[15], row[16], row[17], row[18], row[19], int(row[20]))
+        solved.append(LevelSolution(l, k, energy, err, radius, int(status), reason, grid, tuple(row[21:24])))
+    return count, solved
+
+
+def _tail(pot, l, exterior, energy, R):
+    """The exterior's share of the norm and of ⟨r⟩ (compiled for a short-range tail)."""
+    if pot.tail == "short":
+        return nv.exterior_tail_moments(int(l), float(pot.mass), float(energy), float(R), *_GAUSS, TAIL_PANELS)
+    return exterior.tail_moments(energy, R)
+
+
+def _attach_wavefunction(pot, lv):
+    """u(r) of a solved level on its finest grid, normalised with the exterior part."""
+    problem = RadialProblem(pot, lv.l, lv.grid.r_max)
+    arrays = problem.arrays(lv.grid)
+    e, status, _, norm, _, uend2, w = _pass(problem, arrays, problem.params(arrays), 1, lv.n_r, lv.grid_energies[2],
+                                            want_u=True)
+    R = lv.grid.r_max
+    t0 = pot.exterior(lv.l).tail_moments(lv.energy, R)[0] if problem.box_is_closed_exactly(R) else 0.0
+    n = arrays.steps(1)
+    lv.r = arrays.r[: n + 1].copy()
+    lv.u = _oriented(np.sqrt(np.sqrt(arrays.g2[: n + 1])) * w[: n + 1] / math.sqrt(norm + t0 * uend2))
+
+
 @dataclass
-class _Level:
+class LevelSolution:
+    """One level, converged: its extrapolated energy, error estimate and ⟨r⟩, and what it was
+    solved on — the design grid (``grid``; the solver's grids are it refined 1, 2 and 4 times)
+    and the discrete eigenvalue on each (``grid_energies``).
+
+    ``r`` and ``u`` (when asked for) are u(r) on the finest grid, normalised to
+    ∫₀^∞ u² dr = 1 with the exterior part beyond r[-1] (see :func:`level_on_grid`)."""
+
+    l: int
+    n_r: int
     energy: float
     error: float
     mean_radius: float
     status: int
     reason: str
-    r: np.ndarray | None = None
-    u: np.ndarray | None = None
+    grid: fd.MappedGrid | None = None
+    grid_energies: tuple = ()
+    r: np.ndarray | None = field(default=None, repr=False)
+    u: np.ndarray | None = field(default=None, repr=False)
 
 
-def _survey_infinite(pot: Potential, l: int, keep: int) -> np.ndarray:
-    """Lower levels of a Coulomb-tail or confining potential, from one box sized for the highest."""
-    e_top, R = pot.exterior(l).survey_window(keep, DECAY_LENGTHS)
-    v_eff = effective_potential(pot, l)
-    g = fd.design_grid(v_eff, pot.mass, e_top, origin_radius(pot, l), R)
-    op = fd.build_operator(g, v_eff, pot.mass)
-    s = g.end_log_derivative_to_s(_exterior_log_derivative(pot, l, e_top, R))
-    return fd.eigenvalues_by_index(op.diagonal(s), op.off, 0, keep - 1, pot.energy_scale, 1e-8)[0]
+def solve_level(pot: Potential, l: int, n_r: int, rtol: float = RTOL, wavefunction: bool = True) -> LevelSolution:
+    """Level (n_r, l) alone, as :func:`bound_levels` solves it, with its grids.
 
+    Parameters
+    ----------
+    pot : Potential
+    l, n_r : int
+        Angular momentum and node count of the level (it must be bound).
+    rtol : float
+        Relative tolerance on the energy.
+    wavefunction : bool
+        Also return u(r) on the finest grid.
 
-def _exterior_log_derivative(pot, l, energy, R):
-    return pot.exterior(l).log_derivative(energy, R)
-
-
-def _outer_turning_point(pot, l, energy, r_lo, r_hi):
-    r = np.geomspace(r_lo, r_hi, 2000)
-    allowed = effective_potential(pot, l)(r) < energy
-    if not np.any(allowed):
-        return r_lo
-    return float(r[np.nonzero(allowed)[0][-1]])
-
-
-def _box(pot, l, energy):
-    """Outer radius for a level of this energy: turning point plus DECAY_LENGTHS/κ, capped at the range."""
-    kappa = math.sqrt(2.0 * pot.mass * abs(energy)) if energy < 0 else math.sqrt(2 * pot.mass * pot.energy_scale)
-    reach = pot.support if math.isfinite(pot.support) else 1e12 / pot.mass
-    if pot.tail == "confining":
-        return pot.exterior(l).box(energy)
-    r_t = _outer_turning_point(pot, l, energy, origin_radius(pot, l), min(reach, 1e3 / kappa + 10 * pot.length_scale))
-    return min(reach, r_t + DECAY_LENGTHS / kappa)
-
-
-def _refine(pot: Potential, l: int, k: int, guess: float, rtol: float, want_u: bool) -> _Level:
-    """One level: its own box and grid, refined until the error estimate meets ``rtol``."""
-    energy = guess
-    v_eff = effective_potential(pot, l)
-    theta = fd.THETA
-    R = _box(pot, l, energy)
-    for _attempt in range(6):
-        base = fd.design_grid(v_eff, pot.mass, energy, origin_radius(pot, l), R, theta=theta)
-        ops = [fd.build_operator(base.refined(f), v_eff, pot.mass) for f in FACTORS]
-        try:
-            new, e_err, _, ys = _self_consistent(pot, l, k, ops, energy)
-        except ConvergenceError as exc:
-            return _Level(math.nan, math.inf, math.nan, NOT_CONVERGED, f"{exc} (grid of {base.m} points)")
-        next_R = _box(pot, l, new)  # the box the solved level asks for; used by a next attempt
-        box_ok = R >= pot.support or next_R <= 1.05 * R
-        energy, R = new, next_R
-        if not box_ok:
-            continue  # the level came out shallower than the box assumed: a wider box
-        if e_err <= rtol * abs(energy) or theta < 0.05:
-            break
-        theta *= 0.6  # not resolved to tolerance (shallow levels are the usual case): finer grid
-    R = ops[0].grid.r_max  # the box the levels were solved in (the same on every grid)
-    tail = pot.exterior(l).tail_moments(energy, R)
-    radii = [_mean_radius(op, y, tail) for op, y in zip(ops, ys)]
-    r_best, _ = fd.richardson(radii, FACTORS)
-    status, reason = OK, ""
-    if not (e_err <= rtol * abs(energy)) or not math.isfinite(energy):
-        status = NOT_CONVERGED
-        reason = f"error estimate {e_err:.2e} hartree exceeds rtol {rtol:g}·|E|"
-    lv = _Level(energy, e_err, r_best, status, reason)
-    if want_u:
-        lv.r, lv.u = ops[-1].r, _u_of(ops[-1], ys[-1])
+    Returns
+    -------
+    LevelSolution
+        The same energy bits as :func:`bound_levels` gives for this level.
+    """
+    l = quantum_number(l)
+    n_r = quantum_number(n_r, "n_r")
+    keep = max(n_r + 1, DEFAULT_LEVELS) if pot.tail != "short" else n_r + 1
+    cell = compiled_cell(pot, l, keep, rtol)
+    count, solved = cell if cell is not None else _python_cell(pot, l, keep, rtol, False)
+    if n_r >= len(solved):
+        raise ConvergenceError(f"level n_r={n_r}, l={l} is not bound in {pot} (it binds {count})")
+    lv = solved[n_r]
+    if wavefunction and lv.grid is not None and lv.u is None:
+        _attach_wavefunction(pot, lv)
     return lv
 
 
-def _self_consistent(pot, l, k, ops, energy):
-    """Solve E = Ê_k(s(E)): Ê_k(s) is the eigenvalue extrapolated over the grids at a fixed outer
-    condition s, and s depends on E through the exterior solution.
+def level_on_grid(pot: Potential, l: int, n_r: int, grid: fd.MappedGrid, energy: float):
+    """The discrete eigenpair of level (n_r, l) on a grid of your choice, for matrix elements
+    between levels on one common grid (then Richardson-extrapolated over ``grid.refined(f)``,
+    f = 1, 2, 4, with :func:`boundscape.engine.grid.richardson`).
 
-    The extrapolation is done at fixed s because only there is the error an even series in h
-    (s(E) is not analytic in E at threshold).  The unknown is κ = √(2μ|E|), in which the
-    condition is smooth down to κ = 0 (an l = 0 level's E vanishes quadratically in the distance
-    to threshold, κ only linearly): ψ(κ) = Ê_k(s(κ)) + κ²/2μ increases with κ, ψ(0) < 0 for a
-    bound level.  Newton's method, its derivative from the first-order sensitivity of the
-    eigenvalue to the boundary row, safeguarded by a bracket.  Deep levels, whose boundary row
-    does not matter, take one step.  A confining tail has no κ: one step at the guess."""
-    R = ops[0].grid.r_max
-    scale = pot.energy_scale
-    mass = pot.mass
-    confining = pot.tail == "confining"
-    kappa = 0.0 if confining else math.sqrt(2.0 * mass * max(-energy, 1e-300))
-    lo, hi = 0.0, math.inf
-    guesses = None
-    for _ in range(60):
-        e_now = energy if confining else -kappa * kappa / (2.0 * mass)
-        s = ops[0].grid.end_log_derivative_to_s(_exterior_log_derivative(pot, l, e_now, R))
-        values, ys = [], []
-        for i, op in enumerate(ops):
-            if guesses is None:
-                # first pass: locate on the coarsest grid by bisection, then follow it to finer
-                # grids by inverse iteration from the previous grid's value
-                guess = values[-1] if values else e_now
-                e_i, y = _eigenpair(op, k, s, guess, scale, locate=not values)
-            else:
-                e_i, y = _eigenpair(op, k, s, guesses[i], scale, locate=False)
-            values.append(e_i)
-            ys.append(y)
-        guesses = values
-        extrap, err = fd.richardson(values, FACTORS)
-        err = max(err, ROUNDOFF * abs(extrap))  # two extrapolants can agree by chance
-        op = ops[-1]
-        if confining:
-            return extrap, err, s, ys
-        dlog_dk = _dlog_dkappa(pot, l, kappa, R)
-        sens = op.end_sensitivity(ys[-1][-1]) * op.g[-1]  # ∂eig/∂(u'/u at R)
-        if abs(sens * dlog_dk) * kappa < 1e-13 * abs(extrap):
-            return extrap, err, s, ys  # the outer condition does not matter
-        psi = extrap + kappa * kappa / (2.0 * mass)
-        if psi < 0:
-            lo = max(lo, kappa)
-        else:
-            hi = min(hi, kappa)
-        dpsi = sens * dlog_dk + kappa / mass
-        new = kappa - psi / dpsi if dpsi > 0 else math.nan
-        if not (lo < new < hi):
-            new = 0.5 * (lo + hi) if math.isfinite(hi) else 2.0 * max(lo, kappa, 1e-12)
-        e_new = -new * new / (2.0 * mass)
-        # E = Ê(s(E)) holds, to the extrapolation's error or the Rayleigh quotient's roundoff
-        settled = abs(psi) <= max(10.0 * err, 1e-13 * abs(e_now), 1e-15 * scale)
-        if settled and (abs(new - kappa) <= 1e-14 * new or abs(e_new - e_now) <= 1e-3 * err):
-            return extrap, err, s, ys
-        kappa = new
-    raise ConvergenceError(f"level n_r={k}, l={l}: outer boundary iteration did not converge (last κ={kappa:.6g})")
+    Parameters
+    ----------
+    pot : Potential
+    l, n_r : int
+    grid : MappedGrid
+        E.g. ``solve_level(...).grid`` of the level with the larger box; its end must lie where
+        the exterior solution applies.
+    energy : float
+        A start close to the level (e.g. its converged energy).
+
+    Returns
+    -------
+    energy : float
+        The discrete eigenvalue on ``grid``.
+    r, u : ndarray
+        Nodes 0..n and u there, normalised to ∫₀^∞ u² dr = 1 including the exterior part
+        beyond r[-1] when the grid ends at the potential's range.
+    weights : ndarray
+        Simpson's weights in t times g = dr/dt at the nodes: Σ weights·f(r)·u_a·u_b approximates
+        ∫ f u_a u_b dr over the box with an error series in h⁴, h⁶.
+    """
+    problem = problem_for(pot, quantum_number(l), quantum_number(n_r, "n_r") + 1)
+    arrays = problem.arrays(grid)  # ``grid`` refined REFINE times: ``grid`` itself is stride REFINE
+    e, status, _, norm, _, uend2, w = _pass(problem, arrays, problem.params(arrays), fd.REFINE, n_r, energy,
+                                            want_u=True)
+    if status != 0:
+        raise ConvergenceError(f"level n_r={n_r}, l={l}: no discrete eigenvalue found on the given grid (status {status})")
+    R = grid.r_max
+    t0 = problem.pot.exterior(l).tail_moments(e, R)[0] if problem.box_is_closed_exactly(R) else 0.0
+    stride = fd.REFINE
+    n = grid.n
+    idx = np.arange(n + 1) * stride
+    r = arrays.r[idx]
+    g = np.sqrt(arrays.g2[idx])
+    u = np.sqrt(g) * w[: n + 1]
+    scale = math.sqrt(norm + t0 * uend2)
+    u = u / scale
+    simpson = np.where(np.arange(n + 1) % 2 == 1, 4.0, 2.0)
+    simpson[0] = simpson[-1] = 1.0
+    weights = simpson * grid.h / 3.0 * g  # dr = g dt
+    return e, r, _oriented(u), weights
 
 
-def _dlog_dkappa(pot, l, kappa, R):
-    """d(u'/u at R)/dκ of the exterior solution, by a central difference."""
-    dk = 1e-6 * kappa + 1e-12
-    up = _exterior_log_derivative(pot, l, -((kappa + dk) ** 2) / (2 * pot.mass), R)
-    down_k = max(kappa - dk, 0.0)
-    down = _exterior_log_derivative(pot, l, -(down_k**2) / (2 * pot.mass), R)
-    return (up - down) / (kappa + dk - down_k)
+def _oriented(u):
+    head = u[: max(2, u.size // 50)]
+    return u if head[np.argmax(np.abs(head))] >= 0 else -u
 
 
-def _eigenpair(op: fd.Operator, k: int, s: float, guess: float, scale: float, locate: bool = True):
-    """Eigenvalue k (as a Rayleigh quotient) and eigenvector of T with outer condition s.
-
-    With ``locate`` the eigenvalue is first bracketed by bisection (to a loose tolerance: the
-    Rayleigh quotient supplies the digits); otherwise ``guess`` is trusted as a shift close to
-    eigenvalue k, and the node count of the result checks that trust."""
-    if not locate:
-        y = op.eigenvector(s, guess, iterations=2, scale=scale)
-        e = op.rayleigh(s, y)
-        y = op.eigenvector(s, e, iterations=1, scale=scale)  # one Rayleigh-quotient step
-        e2 = op.rayleigh(s, y)
-        # trusted only if the Rayleigh step barely moved it (a shift far from eigenvalue k gives
-        # a mixture whose quotient lies between eigenvalues) and the node count is k
-        if abs(e2 - e) <= 1e-8 * max(abs(e2), 1e-6 * scale) and fd.node_count(y) == k:
-            return e2, y
-    diag = op.diagonal(s)
-    delta = 0.05 * abs(guess) + 1e-9 * scale
-    w, _, _ = fd.eigenvalue_near(diag, op.off, k, guess, delta, rtol=1e-8)
-    y = op.eigenvector(s, float(w[0]), scale=scale)
-    e = op.rayleigh(s, y)
-    y = op.eigenvector(s, e, iterations=1, scale=scale)
-    return op.rayleigh(s, y), y
+def _guess(problem: RadialProblem, k: int, keep: int) -> float:
+    """First guess of level k: Langer-WKB below the top of the spectrum searched."""
+    pot = problem.pot
+    if pot.tail == "confining":
+        e_top = 1.5 * pot.exterior(problem.l).survey_window(max(keep, DEFAULT_LEVELS), 8.0)[0]
+    else:
+        e_top = 0.0
+    guess = problem.wkb_guess(k, e_top)
+    if not math.isfinite(guess) or (pot.tail != "confining" and guess >= 0):
+        guess = -1e-10 * pot.energy_scale  # not enough phase: a level near threshold
+    return guess
 
 
-def _mean_radius(op: fd.Operator, y, tail):
-    """⟨r⟩ = ∫ r u² / ∫ u², the part beyond R from the exterior solution's moments ``tail``."""
-    h = op.grid.h
-    w_end = y[-1] / math.sqrt(op.weight[-1])
-    u_end2 = op.g[-1] * w_end * w_end
-    t0, t1 = tail
-    norm = h * float(y @ y) + u_end2 * t0
-    first = h * float((y * y) @ op.r) + u_end2 * t1
-    return first / norm
+def _pass(problem, arrays, prm, stride, k, start, near=None, want_u=False):
+    """Level k on the grid of ``stride`` in ``arrays`` (see :func:`numerov.solve_grid`): Newton
+    from ``start``, Sturm bisection from ``near`` if that fails; returns its results and w."""
+    n = arrays.steps(stride)
+    work = np.empty(n + 2)
+    out = nv.solve_grid(arrays.a, prm, stride, n, arrays.step(stride), k, start, start if near is None else near,
+                        work, want_u)
+    return (*out, work)
 
 
-def _u_of(op: fd.Operator, y):
-    w = y / np.sqrt(op.weight)
-    u = np.sqrt(op.g) * w
-    norm = op.grid.h * float(y @ y)
-    u = u / math.sqrt(norm)
-    return u if u[np.argmax(np.abs(u[: max(2, u.size // 50)]))] >= 0 else -u
+def _solve(problem: RadialProblem, k: int, guess: float, rtol: float, want_u: bool) -> LevelSolution:
+    """Level k of ``problem``: its own box and grids, redesigned until they fit the level and
+    refined until the error estimate meets ``rtol``."""
+    pot, l = problem.pot, problem.l
+    bound = pot.tail != "confining"
+    energy = guess
+    theta = fd.THETA
+    why = "no attempt converged"
+    values = None
+    for _attempt in range(ATTEMPTS):
+        R = problem.box(energy)
+        grid = problem.design(energy, R, theta)
+        arrays = problem.arrays(grid)
+        prm = problem.params(arrays)
+        e1, status, _, *_ = first = _pass(problem, arrays, prm, 4, k, energy)
+        if status == 1:  # deeper than this grid resolves: below its floor, e1
+            energy = min(4.0 * energy, 1.2 * e1) if bound and energy < 0 else energy - pot.energy_scale
+            why = "level below the grid's reach"
+            continue
+        if status == 4:  # not bound in this box: a larger box (or it is not resolved at all)
+            if problem.box_is_closed_exactly(R) or not bound:
+                why = "level not bound on its grid (within discretisation error of threshold)"
+                break
+            energy *= 1e-2
+            why = "level not bound in its box"
+            continue
+        if status != 0:
+            why = f"Newton iteration on the coarse grid failed (status {status})"
+            theta *= 0.6
+            continue
+        if bound and not _fits(problem, energy, e1, R):
+            energy = e1
+            continue
+        second = _pass(problem, arrays, prm, 2, k, e1)
+        third = _pass(problem, arrays, prm, 1, k, second[0] + (second[0] - e1) / 15.0, second[0])
+        if second[1] != 0 or third[1] != 0:
+            why = f"Newton iteration on a finer grid failed (status {second[1]}, {third[1]})"
+            theta *= 0.6
+            continue
+        values = (first, second, third)
+        best, err = fd.richardson([v[0] for v in values])
+        err = max(err, ROUNDOFF * abs(best))
+        energy = best
+        if err <= rtol * abs(best) or theta < 0.05:
+            break
+        theta *= 0.6
+    if values is None:
+        return LevelSolution(l, k, math.nan, math.inf, math.nan, NOT_CONVERGED, why)
+    R = grid.r_max
+    tail = pot.exterior(l).tail_moments(best, R) if problem.box_is_closed_exactly(R) else (0.0, 0.0)
+    radii = [(v[4] + tail[1] * v[5]) / (v[3] + tail[0] * v[5]) for v in values]
+    r_best, _ = fd.richardson(radii)
+    status, reason = OK, ""
+    if not (err <= rtol * abs(best)) or not math.isfinite(best):
+        status, reason = NOT_CONVERGED, f"error estimate {err:.2e} hartree exceeds rtol {rtol:g}·|E|"
+    out = LevelSolution(l, k, best, err, r_best, status, reason, grid, tuple(v[0] for v in values))
+    if want_u:
+        e, status_u, _, norm, _, uend2, w = _pass(problem, arrays, prm, 1, k, values[2][0], want_u=True)
+        n = arrays.steps(1)
+        g = np.sqrt(arrays.g2[: n + 1])
+        out.r = arrays.r[: n + 1].copy()
+        out.u = _oriented(np.sqrt(g) * w[: n + 1] / math.sqrt(norm + tail[0] * uend2))
+    return out
+
+
+def _fits(problem, designed_for, energy, R) -> bool:
+    """Whether a grid designed for ``designed_for`` in the box R suits a level found at ``energy``:
+    the box reaches its decay length margin and the design's κ is within 30 %."""
+    if energy >= 0 or designed_for >= 0:
+        return False
+    if not (problem.box_is_closed_exactly(R) or problem.box(energy) <= 1.05 * R):
+        return False
+    ratio = math.sqrt(energy / designed_for)
+    return (1 / 1.3 <= ratio <= 1.3) or problem.box_is_closed_exactly(R) and ratio < 1.3

@@ -8,8 +8,11 @@ appears when A and u(R) differ in sign (Sturm oscillation theorem; e.g. Courant 
 vol. 1, ch. VI).  So the number of bound states of that l is the number of negative μ_k, and
 state k is lost where μ_k crosses zero (:mod:`.critical`).
 
-The count in a cell and the critical lengths use the same extrapolated μ_k, so a cell just on
-either side of a threshold is counted consistently with the critical length.
+On the discrete (Numerov) problem the number of μ_k below a value is a Sturm count, one pass
+over the coarse grid.  The count at 0 can be wrong only for a μ_k within discretisation error
+of zero: the counts at ±MARGIN·(energy scale) agree otherwise, and where they do not, the μ_k
+between them are decided on their Richardson-extrapolated values, as the critical lengths are,
+so a cell just on either side of a threshold is counted consistently with its critical length.
 """
 
 from __future__ import annotations
@@ -19,16 +22,22 @@ from dataclasses import dataclass, field
 import numpy as np
 
 from ..checks import quantum_number
-from ..errors import InputError
+from ..errors import ConvergenceError, InputError
 from . import grid as fd
-from .effective import effective_potential, origin_radius
+from .jitcache import lazy_module
 from .potential import Potential
+from .problem import RadialProblem
 
-__all__ = ["ZeroEnergyProblem", "zero_energy_problem", "count_bound", "zero_energy_solution", "FINE"]
+nv = lazy_module("numerov")
 
-# Refinements of the design grid for decisions at threshold: μ_k must be resolved against its
-# slope in λ, which is small for extended states (measured on Hulthén n ≤ 7 against n²/2Z).
-FINE = (3, 4, 5, 6, 7)
+__all__ = ["ZeroEnergyProblem", "zero_energy_problem", "count_bound", "zero_energy_solution",
+           "MARGIN", "THETA_CRITICAL"]
+
+# Coarse-grid μ_k are within ~1e-7 of the scale of their extrapolated values on the test
+# cells; a margin 100× wider decides which need extrapolating.
+MARGIN = 1e-5
+# Critical parameters are root searches on extrapolated μ_k: a finer design for them.
+THETA_CRITICAL = 0.15
 
 
 @dataclass
@@ -38,86 +47,109 @@ class ZeroEnergyProblem:
     pot: Potential
     l: int
     grid: fd.MappedGrid
+    problem: RadialProblem
+    _arrays: fd.GridArrays | None = field(default=None, repr=False)
+    _coarse: fd.GridArrays | None = field(default=None, repr=False)
     _cache: dict = field(default_factory=dict, repr=False)
 
-    def operator(self, factor: int):
-        """The operator on the design grid refined by ``factor``, and its outer condition s."""
-        g = self.grid.refined(factor)
-        op = fd.build_operator(g, effective_potential(self.pot, self.l), self.pot.mass)
-        return op, g.end_log_derivative_to_s(-self.l / g.r_max)
+    @property
+    def arrays(self) -> fd.GridArrays:
+        """The design grid refined REFINE times (built when an eigenvalue is asked for)."""
+        if self._arrays is None:
+            self._arrays = self.problem.arrays(self.grid)
+        return self._arrays
 
-    def coarse_count(self) -> int:
-        op, s = self.operator(1)
-        return fd.count_below(op.diagonal(s), op.off, 0.0)
-
-    def eigenvalue(self, k: int, factor: int) -> float:
-        """μ_k on the design grid refined by ``factor`` (cached; coarser results start the search).
-
-        Bisection locates it; the value is the Rayleigh quotient of its eigenvector, which is
-        accurate to ~eps of the kinetic energy (bisection alone only to ~eps·‖T‖)."""
-        key = (k, factor)
-        if key not in self._cache:
-            op, s = self.operator(factor)
-            d = op.diagonal(s)
-            known = [(f, v) for (kk, f), v in self._cache.items() if kk == k]
-            if known:
-                f0, guess = max(known)
-                delta = 2.0 * abs(guess - self._cache.get((k, 1), guess)) + 1e-3 * abs(guess) + 1e-9 * self.scale
-                w = fd.eigenvalue_near(d, op.off, k, guess, delta)[0][0]
-            else:
-                # located to 1e-10 of the scale; the Rayleigh quotient supplies the digits
-                w = fd.eigenvalues_by_index(d, op.off, k, k, self.scale, 1e-10)[0][0]
-            self._cache[key] = op.rayleigh(s, op.eigenvector(s, float(w), scale=self.scale))
-        return self._cache[key]
-
-    def eigenvalues(self, k: int, factors) -> np.ndarray:
-        if (k, 1) not in self._cache:
-            self.eigenvalue(k, 1)
-        return np.array([self.eigenvalue(k, f) for f in factors])
-
-    def extrapolated(self, k: int, factors=None) -> float:
-        """μ_k extrapolated to h → 0 from the refinements ``factors``."""
-        factors = factors or FINE
-        return fd.richardson(self.eigenvalues(k, factors), factors)[0]
-
-    def count(self) -> int:
-        """The exact number of bound states: negative μ_k, the marginal ones settled.
-
-        The coarse count can be off only for a state within discretisation error of threshold:
-        the marginal μ decide, each on the cheapest extrapolation whose error is clearly smaller."""
-        c = self.coarse_count()
-        while c > 0 and self.settled(c - 1) >= 0.0:
-            c -= 1
-        while c < self.grid.m and self.settled(c) < 0.0:
-            c += 1
-        return c
-
-    def settled(self, k: int) -> float:
-        """μ_k, extrapolated on more and finer grids until its sign is beyond its error estimate;
-        at worst on FINE, the refinements the critical parameters use."""
-        for factors in ((1, 2, 3), (2, 3, 4, 5)):
-            value, err = fd.richardson(self.eigenvalues(k, factors), factors)
-            if abs(value) > 10.0 * err:
-                return value
-        return self.extrapolated(k)
+    @property
+    def tail(self) -> tuple[int, float]:
+        return nv.TAIL_FIXED, -self.l / self.grid.r_max
 
     @property
     def scale(self) -> float:
         """An energy scale of the problem (hartree), for tolerances."""
         return self.pot.energy_scale
 
+    def _count_below(self, value: float) -> int:
+        """Sturm count on the design grid alone (built on its own: a count needs no refinement)."""
+        if self._coarse is None:
+            self._coarse = self.problem.arrays(self.grid, refine=1)
+            self._coarse_prm = self.problem.params(self._coarse, self.tail)
+        a = self._coarse
+        return int(nv.sturm(a.a, self._coarse_prm, 1, a.steps(1), a.step(1), value))
 
-def zero_energy_problem(pot: Potential, l: int, m: int | None = None) -> ZeroEnergyProblem:
+    def coarse_count(self) -> int:
+        """Number of μ_k below zero on the design grid."""
+        return self._count_below(0.0)
+
+    def eigenvalue(self, k: int, factor: int) -> float:
+        """μ_k on the design grid refined by ``factor`` (1, 2 or 4; cached)."""
+        key = (k, factor)
+        if key not in self._cache:
+            a = self.arrays
+            stride = fd.REFINE // factor
+            n = a.steps(stride)
+            coarser = [v for (kk, f), v in sorted(self._cache.items()) if kk == k and f < factor]
+            start = coarser[-1] if coarser else 0.0
+            out = nv.solve_grid(a.a, self.problem.params(a, self.tail), stride, n, a.step(stride), k, start, start,
+                                np.empty(n + 2), False)
+            if out[1] == 1:
+                # deeper than this zero-energy grid resolves: the floor bounds it from above, and
+                # only its sign matters (counts, critical brackets)
+                out = (out[0], 0)
+            if out[1] != 0:
+                raise ConvergenceError(f"zero-energy eigenvalue k={k}, l={self.l} of {self.pot} did not "
+                                       f"converge (status {out[1]})")
+            self._cache[key] = float(out[0])
+        return self._cache[key]
+
+    def eigenvalues(self, k: int, factors=fd.FACTORS) -> np.ndarray:
+        return np.array([self.eigenvalue(k, f) for f in factors])
+
+    def extrapolated(self, k: int) -> float:
+        """μ_k extrapolated to h → 0 from the grids h, h/2, h/4."""
+        return fd.richardson(self.eigenvalues(k))[0]
+
+    def count(self) -> int:
+        """The exact number of bound states: negative μ_k, the marginal ones settled.
+
+        Only the μ_k on either side of zero can be misjudged by the coarse count (two states
+        within discretisation error of threshold at once do not occur): the highest negative one
+        if it lies within MARGIN of zero, the lowest positive one likewise (in a wide box the
+        positive μ_k near zero are mostly box states, settled at once)."""
+        delta = MARGIN * self.scale
+        count = self.coarse_count()
+        if count > 0 and self._count_below(-delta) < count and self.settled(count - 1) >= 0.0:
+            count -= 1
+        elif self._count_below(delta) > count and self.settled(count) < 0.0:
+            count += 1
+        return count
+
+    def settled(self, k: int) -> float:
+        """μ_k on the grid h/2 if its sign is clearly beyond its error there, else extrapolated."""
+        coarse, fine = self.eigenvalue(k, 1), self.eigenvalue(k, 2)
+        if abs(fine) > 30.0 * abs(coarse - fine):
+            return fine
+        return self.extrapolated(k)
+
+
+def zero_energy_problem(pot: Potential, l: int, m: int | None = None, theta: float = fd.THETA,
+                        like: fd.MappedGrid | None = None) -> ZeroEnergyProblem:
+    """The E = 0 problem of ``pot`` and ``l`` on a grid designed at ``theta`` (or with ``m`` steps),
+    or on the map of ``like`` (its β, c, tc, start and steps) stretched to this potential's range:
+    along a root search the grid then moves smoothly with the parameter."""
     if pot.tail != "short":
         raise InputError(
             f"family {pot.family!r} has a {pot.tail} tail: it binds infinitely many states, there is no finite count"
         )
-    R = pot.support
-    r_min = origin_radius(pot, l)
-    g = fd.design_grid(effective_potential(pot, l), pot.mass, 0.0, r_min, R)
+    R = float(pot.support)
+    problem = RadialProblem(pot, l, R)
+    if like is not None:
+        g = fd.MappedGrid(like.r_min, R, like.beta, like.c, like.tc, like.t0,
+                          float(nv.t_of_r(like.beta, like.c, like.tc, R)), like.n)
+    else:
+        g = problem.design(0.0, R, theta)
     if m is not None:
         g = g.with_steps(m)
-    return ZeroEnergyProblem(pot, l, g)
+    return ZeroEnergyProblem(pot, l, g, problem)
 
 
 def count_bound(pot: Potential, l: int) -> int:
@@ -140,23 +172,14 @@ def zero_energy_solution(pot: Potential, l: int):
     on the extrapolated eigenvalues, which is exact also right at a threshold.)"""
     l = quantum_number(l)
     problem = zero_energy_problem(pot, l)
-    v_eff = effective_potential(pot, l)
-    g = problem.grid.refined(4)
-    r, gg, F = g.nodes()
-    q = 2.0 * pot.mass * (gg * gg * v_eff(r)) + F
-    # w'' = q w marched outward with the same three-point recurrence as the matrix (w_0 = 0).
-    # A loop: numpy has no variable-coefficient recurrence, and this runs once per call.
-    w = np.zeros(r.size + 1)
-    w[1] = 1e-300
-    h2 = g.h * g.h
-    for i in range(1, r.size):
-        w[i + 1] = (2.0 + h2 * q[i - 1]) * w[i] - w[i - 1]
-        if abs(w[i + 1]) > 1e250:
-            w[: i + 2] *= 1e-250
-    u = w[1:] * np.sqrt(gg)
+    a = problem.arrays
+    n = a.steps(1)
+    w = nv.outward_solution(a.a[3], a.a[4], 1, n, a.step(1), 0.0)
+    r = a.r[: n + 1]
+    u = w * np.sqrt(np.sqrt(a.g2[: n + 1]))
     u /= np.max(np.abs(u))
-    inside = int(np.count_nonzero(np.signbit(u[1:]) != np.signbit(u[:-1])))
-    # u'(R) from the last two points, converted back from x to r: du/dr = (du/dx)/g
+    inside = int(np.count_nonzero(np.signbit(u[2:]) != np.signbit(u[1:-1])))
+    # u'(R) from the last two points: A r^{l+1} + B r^{−l} has (2l+1)A R^l = u' + l u/R
     R = r[-1]
     du = (u[-1] - u[-2]) / (r[-1] - r[-2])
     A = (du + l * u[-1] / R) / ((2 * l + 1) * R**l)
