@@ -161,10 +161,10 @@ def test_compiled_tail_moments_equal_the_quadrature(l, kappa_R):
     R, mass = 2.0, 1.0
     kappa = kappa_R / R
     energy = -kappa * kappa / (2 * mass)
-    if l == 1 and kappa_R < 0.01:
-        pytest.skip("⟨r⟩ of a p-wave tail diverges like ln(1/κR): quad's own accuracy is the limit there")
     reference = exterior.ShortRange(l, mass).tail_moments(energy, R)
     nodes, weights = np.polynomial.legendre.leggauss(16)
     fast = numerov.exterior_tail_moments(l, mass, energy, R, nodes, weights, levels.TAIL_PANELS)
     assert fast[0] == pytest.approx(reference[0], rel=1e-9)
-    assert fast[1] == pytest.approx(reference[1], rel=1e-9)
+    # ⟨r⟩ of a p-wave tail diverges like ln(1/κR) near threshold: there quad's own accuracy
+    # (about 1e-7 here) is the limit of the reference, not the compiled moments
+    assert fast[1] == pytest.approx(reference[1], rel=1e-6 if (l == 1 and kappa_R < 0.01) else 1e-9)
