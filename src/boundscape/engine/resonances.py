@@ -162,7 +162,7 @@ def resonances(pot: Potential, l: int, n_r_max: int | None = None, *, num_bound:
     if angle is not None and not 0.0 <= angle < 90.0:
         raise InputError(f"contour_angle must be in [0, 90) degrees, got {contour_angle!r}")
     if num_bound is None:
-        from . import count_bound  # the engine's exact count, by its public name (not a module's internals)
+        from .zero_energy import count_bound  # lazily: it loads the compiled kernels
 
         num_bound = count_bound(pot, l)
     num_bound = quantum_number(num_bound, "num_bound")
