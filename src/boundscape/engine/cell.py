@@ -20,6 +20,7 @@ _saved_cache_dir = jitcache.enter()  # this module's kernels are cached by jitca
 
 from . import numerov as nv
 from .compiled_potentials import potential_at
+from .numerov import A1, A2, GRID_RESULT, b1, f8, i8  # the kernels' types
 
 __all__ = ["solve_cell", "ROW", "REASONS"]
 
@@ -33,7 +34,7 @@ REASONS = ("", "level below the reach of every grid tried", "level not bound on 
 _WIDTH = len(ROW)
 
 
-@njit(cache=True)
+@njit([(f8, f8, f8,)], cache=True)
 def _richardson(e0, e1, e2):
     # weights of grids h, h/2, h/4 for an error series h⁴, h⁶ (Σw = 1, Σw·f⁻⁴ = Σw·f⁻⁶ = 0), and
     # of h/2, h/4 for h⁴ alone: the error estimate is the difference of the two
@@ -42,7 +43,7 @@ def _richardson(e0, e1, e2):
     return best, abs(best - second)
 
 
-@njit(cache=True)
+@njit([(i8, A1, A1, A2, f8, i8, f8, f8, i8,)], cache=True)
 def _samples(code, fp, tx, tcoef, mass, l, r_min, reach, n):
     rs = np.empty(n)
     veff = np.empty(n)
@@ -59,7 +60,7 @@ def _samples(code, fp, tx, tcoef, mass, l, r_min, reach, n):
     return rs, veff, vl, dln
 
 
-@njit(cache=True)
+@njit([(A1, A1, f8,)], cache=True)
 def _turning_point(rs, veff, energy):
     j = -1
     for i in range(rs.size - 1, -1, -1):
@@ -74,7 +75,7 @@ def _turning_point(rs, veff, energy):
     return rs[j] + f * (rs[j + 1] - rs[j])
 
 
-@njit(cache=True)
+@njit([(i8, A1, A1, A2, f8, i8, f8, f8, f8, f8, f8, i8, f8, i8,)], cache=True)
 def _build(code, fp, tx, tcoef, mass, l, beta, c, tc, t0, t1, n, R, refine):
     n_fine = n * refine
     a = nv.map_nodes(beta, c, tc, t0, (t1 - t0) / n / refine, n_fine + refine + 1, R, n_fine)
@@ -86,7 +87,7 @@ def _build(code, fp, tx, tcoef, mass, l, beta, c, tc, t0, t1, n, R, refine):
     return a, g_end, gp_end
 
 
-@njit(cache=True)
+@njit([(A1, A1, f8, i8, f8, f8, f8, f8, f8, f8,)], cache=True)
 def _design(rs, veff, mass, l, energy, r_min, R, r_core, theta, h_max):
     kappa = math.sqrt(2.0 * mass * -energy) if energy < 0 else 0.0
     cand = np.array([R / 64.0, R / 16.0, R / 4.0, R, 4.0 * R, 0.5 / max(kappa, 1e-300), 1.0 / max(kappa, 1e-300),
@@ -101,13 +102,13 @@ def _design(rs, veff, mass, l, energy, r_min, R, r_core, theta, h_max):
     return nv.design_map(rs, veff, energy, mass, l, r_min, R, theta, h_max, keep[:k], max(r_core, r_min))
 
 
-@njit(cache=True)
+@njit([(f8, i8, i8, f8, f8, f8, f8, f8, b1,)], cache=True)
 def _prm(mass, l, kind, p, R, g_end, gp_end, scale, kappa_mode):
     return np.array([mass, float(l), float(kind), p, R, g_end, gp_end, scale, 1.0 if kappa_mode else 0.0,
                      -math.inf, math.inf])
 
 
-@njit(cache=True)
+@njit([(i8, A1, A1, A2, f8, i8, A1, A1, f8, f8, f8, f8, f8, f8, f8,)], cache=True)
 def _zero_energy_count(code, fp, tx, tcoef, mass, l, rs, veff, r_min, support, r_core, scale, theta, h_max, margin):
     """The exact count: Sturm counts on the E = 0 grid at 0 and ±margin·scale, the marginal μ_k
     settled on the grid h/2 or extrapolated (as ZeroEnergyProblem.count)."""
@@ -160,7 +161,7 @@ def _zero_energy_count(code, fp, tx, tcoef, mass, l, rs, veff, r_min, support, r
     return count, 0
 
 
-@njit(cache=True)
+@njit([(A1, A1, f8, f8, f8, b1, f8, f8, f8,)], cache=True)
 def _fits(rs, veff, designed_for, energy, R, closed, decay, support, mass):
     if energy >= 0.0 or designed_for >= 0.0:
         return False
@@ -172,40 +173,7 @@ def _fits(rs, veff, designed_for, energy, R, closed, decay, support, mass):
     return (1.0 / 1.3 <= ratio <= 1.3) or (closed and ratio < 1.3)
 
 
-@njit(cache=True)
-def solve_cell(code, fp, tx, tcoef, mass, l, kind, tail_p, support, jumps, length_scale, scale, reach, e_top,
-               keep_max, theta0, h_max, rtol, margin, decay, origin_tolerance, samples, attempts, roundoff):
-    """Count and levels of one cell.  ``kind`` the tail (numerov.TAIL_*), ``tail_p`` its charge or
-    ω; ``e_top`` the top of the window for first guesses; ``keep_max`` the levels wanted (−1: all,
-    short range only).  Returns (count, status of the
-    count, rows) with one row per level (columns in ROW)."""
-    r_min = length_scale * origin_tolerance ** (1.0 / (2 * l + 1))
-    r_core = 0.1 * length_scale
-    confining = kind == nv.TAIL_CONFINING
-    rs, veff, vl, dln = _samples(code, fp, tx, tcoef, mass, l, r_min, reach, samples)
-    count = -1
-    count_status = 0
-    if kind == nv.TAIL_SHORT:
-        count, count_status = _zero_energy_count(code, fp, tx, tcoef, mass, l, rs, veff, r_min, support, r_core,
-                                                 scale, theta0, h_max, margin)
-        keep = count if keep_max < 0 else min(count, keep_max)
-    else:
-        keep = keep_max
-    rows = np.full((keep, _WIDTH), np.nan)
-    e_lo = vl.min()
-    for k in range(keep):
-        guess = math.nan
-        if e_lo < e_top:
-            guess = nv.wkb_energy(rs, vl, mass, math.pi * (k + 0.5), e_lo, e_top, 40, dln)
-        if not math.isfinite(guess) or (not confining and guess >= 0.0):
-            guess = -1e-10 * scale
-        row = rows[k]
-        _level(code, fp, tx, tcoef, mass, l, kind, tail_p, support, jumps, scale, k, guess, theta0, h_max, rtol,
-               decay, r_min, r_core, rs, veff, attempts, roundoff, row)
-    return count, count_status, rows
-
-
-@njit(cache=True)
+@njit([(A1, A1, f8, f8, i8, f8, f8, b1, f8, f8, i8,)], cache=True)
 def _box(rs, veff, energy, mass, kind, tail_p, support, jumps, reach, decay, l):
     if kind == nv.TAIL_CONFINING:
         mw = mass * tail_p
@@ -220,7 +188,7 @@ def _box(rs, veff, energy, mass, kind, tail_p, support, jumps, reach, decay, l):
     return min(support, R)
 
 
-@njit(cache=True)
+@njit([(A1, i8, i8, i8,)], cache=True)
 def _fail(row, why, passes, tried):
     row[0] = math.nan
     row[1] = math.inf
@@ -230,7 +198,7 @@ def _fail(row, why, passes, tried):
     row[25] = tried
 
 
-@njit(cache=True)
+@njit([(A2, i8, GRID_RESULT,)], cache=True)
 def _put(res, i, t):
     res[i, 0] = t[0]
     res[i, 1] = t[1]
@@ -240,7 +208,7 @@ def _put(res, i, t):
     res[i, 5] = t[5]
 
 
-@njit(cache=True)
+@njit([(i8, A1, A1, A2, f8, i8, i8, f8, f8, b1, f8, i8, f8, f8, f8, f8, f8, f8, f8, A1, A1, i8, f8, A1,)], cache=True)
 def _level(code, fp, tx, tcoef, mass, l, kind, tail_p, support, jumps, scale, k, guess, theta0, h_max, rtol, decay,
            r_min, r_core, rs, veff, attempts, roundoff, row):
     """Level k (as levels._solve): fills ``row``."""
@@ -323,7 +291,9 @@ def _level(code, fp, tx, tcoef, mass, l, kind, tail_p, support, jumps, scale, k,
                 theta *= 0.6
             continue
         have = True
-        res[:, :] = cur
+        for i in range(3):  # element by element: a slice copy compiles a shape check that formats its error text
+            for j in range(6):
+                res[i, j] = cur[i, j]
         best, err = _richardson(res[0, 0], res[1, 0], res[2, 0])
         err = max(err, roundoff * abs(best))
         energy = best
@@ -352,6 +322,40 @@ def _level(code, fp, tx, tcoef, mass, l, kind, tail_p, support, jumps, scale, k,
     row[18] = t0
     row[19] = t1
     row[20] = n
+
+
+
+@njit([(i8, A1, A1, A2, f8, i8, i8, f8, f8, b1, f8, f8, f8, f8, i8, f8, f8, f8, f8, f8, f8, i8, i8, f8,)], cache=True)
+def solve_cell(code, fp, tx, tcoef, mass, l, kind, tail_p, support, jumps, length_scale, scale, reach, e_top,
+               keep_max, theta0, h_max, rtol, margin, decay, origin_tolerance, samples, attempts, roundoff):
+    """Count and levels of one cell.  ``kind`` the tail (numerov.TAIL_*), ``tail_p`` its charge or
+    ω; ``e_top`` the top of the window for first guesses; ``keep_max`` the levels wanted (−1: all,
+    short range only).  Returns (count, status of the
+    count, rows) with one row per level (columns in ROW)."""
+    r_min = length_scale * origin_tolerance ** (1.0 / (2 * l + 1))
+    r_core = 0.1 * length_scale
+    confining = kind == nv.TAIL_CONFINING
+    rs, veff, vl, dln = _samples(code, fp, tx, tcoef, mass, l, r_min, reach, samples)
+    count = -1
+    count_status = 0
+    if kind == nv.TAIL_SHORT:
+        count, count_status = _zero_energy_count(code, fp, tx, tcoef, mass, l, rs, veff, r_min, support, r_core,
+                                                 scale, theta0, h_max, margin)
+        keep = count if keep_max < 0 else min(count, keep_max)
+    else:
+        keep = keep_max
+    rows = np.full((keep, _WIDTH), np.nan)
+    e_lo = vl.min()
+    for k in range(keep):
+        guess = math.nan
+        if e_lo < e_top:
+            guess = nv.wkb_energy(rs, vl, mass, math.pi * (k + 0.5), e_lo, e_top, 40, dln)
+        if not math.isfinite(guess) or (not confining and guess >= 0.0):
+            guess = -1e-10 * scale
+        row = rows[k]
+        _level(code, fp, tx, tcoef, mass, l, kind, tail_p, support, jumps, scale, k, guess, theta0, h_max, rtol,
+               decay, r_min, r_core, rs, veff, attempts, roundoff, row)
+    return count, count_status, rows
 
 
 jitcache.leave(_saved_cache_dir)

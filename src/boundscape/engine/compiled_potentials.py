@@ -12,7 +12,7 @@ from __future__ import annotations
 import math
 
 import numpy as np
-from numba import njit
+from numba import njit, types
 
 from . import jitcache
 
@@ -21,6 +21,8 @@ _saved_cache_dir = jitcache.enter()  # this module's kernels are cached by jitca
 __all__ = ["kernel_of", "potential_at", "CODES"]
 
 CODES = {"coulomb": 1, "yukawa": 2, "ecsc": 3, "hulthen": 4, "square_well": 5, "harmonic": 6, "tabulated": 7}
+f8, i8, b1 = types.float64, types.int64, types.boolean
+A1, A2 = types.float64[::1], types.float64[:, ::1]
 _NO_TABLE = (np.zeros(2), np.zeros((4, 1)))
 
 
@@ -41,7 +43,7 @@ def kernel_of(pot):
     return code, params, x, c
 
 
-@njit(cache=True)
+@njit([(f8, A1, A2, f8,)], cache=True)
 def _table(r, x, c, charge):
     if r > x[-1]:
         return -charge / r
@@ -57,7 +59,7 @@ def _table(r, x, c, charge):
     return (((c[0, lo] * d + c[1, lo]) * d + c[2, lo]) * d + c[3, lo]) / r
 
 
-@njit(cache=True)
+@njit([(i8, A1, A1, A2, f8, b1,)], cache=True)
 def potential_at(code, prm, x, c, r, continued):
     """V(r) in hartree of family ``code``; ``continued``: the interior formula past the support."""
     Z, lam = prm[0], prm[1]

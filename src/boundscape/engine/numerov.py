@@ -27,7 +27,7 @@ from __future__ import annotations
 import math
 
 import numpy as np
-from numba import njit
+from numba import njit, types
 
 from . import jitcache
 
@@ -36,6 +36,15 @@ _saved_cache_dir = jitcache.enter()  # this module's kernels are cached by jitca
 __all__ = ["map_point", "map_nodes", "t_of_r", "assemble", "exterior_log_derivative", "sturm_count", "sturm",
            "solve_level", "solve_grid", "design_map", "wkb_energy", "outward_solution", "exterior_tail_moments", "TAIL_SHORT", "TAIL_COULOMB",
            "TAIL_CONFINING", "TAIL_FIXED"]
+
+# Every kernel has one explicit signature: it is compiled (or loaded from the cache) once, when
+# its module is imported, and calls with literal arguments from other kernels convert to it
+# instead of compiling a specialisation of the whole chain below them (e.g. of solve_level for
+# a literal stride 1 or want_u False: three copies, a third of the first compilation).
+f8, i8, b1 = types.float64, types.int64, types.boolean
+A1, A2 = types.float64[::1], types.float64[:, ::1]
+# what solve_grid and solve_level return: energy, status, passes, ∫u², ∫r u², u(R)²
+GRID_RESULT = types.Tuple((f8, i8, i8, f8, f8, f8))
 
 # Outer conditions: the decaying exterior solution of a short-range, Coulomb or oscillator tail,
 # or a fixed u'/u (the zero-energy problem's −l/R).
@@ -46,14 +55,14 @@ _ROW_LIMIT = 0.9
 C_MAX = 4
 
 
-@njit(cache=True)
+@njit([(f8,)], cache=True)
 def _softplus(y):
     if y > 0.0:
         return y + math.log1p(math.exp(-y))
     return math.log1p(math.exp(y))
 
 
-@njit(cache=True)
+@njit([(f8,)], cache=True)
 def _logistic(y):
     if y >= 0.0:
         return 1.0 / (1.0 + math.exp(-y))
@@ -61,7 +70,7 @@ def _logistic(y):
     return e / (1.0 + e)
 
 
-@njit(cache=True)
+@njit([(f8, f8, f8, f8,)], cache=True)
 def map_point(beta, c, tc, t):
     """r(t) = β·ln(1 + eˢ), s = t − c·ln(1 + e^{tc−t}); returns r, g = dr/dt, g'/g, g''/g."""
     sc = _logistic(tc - t)
@@ -78,7 +87,7 @@ def map_point(beta, c, tc, t):
     return r, g, gp, gpp
 
 
-@njit(cache=True)
+@njit([(f8, f8, f8, f8, f8, i8, f8, i8,)], cache=True)
 def map_nodes(beta, c, tc, t0, h, n, r_end, i_end):
     """Rows r, g², F = ¾(g'/g)² − ½g''/g (and room for Q's two parts, see :func:`assemble`) at
     t0 + i·h, i < n; node ``i_end`` is set to exactly ``r_end`` (the outer condition is
@@ -120,7 +129,7 @@ def map_nodes(beta, c, tc, t0, h, n, r_end, i_end):
     return out
 
 
-@njit(cache=True)
+@njit([(f8, f8, f8, f8,)], cache=True)
 def t_of_r(beta, c, tc, r):
     """Invert the map (one point): s from the softplus in closed form, t by Newton's method
     (s(t) is increasing and convex-concave with s' ≥ 1, so a few steps suffice)."""
@@ -139,7 +148,7 @@ def t_of_r(beta, c, tc, r):
     return t
 
 
-@njit(cache=True)
+@njit([(A2, A1, f8, i8,)], cache=True)
 def assemble(a, v, mass, l):
     """Rows 3 and 4 of ``a`` (from :func:`map_nodes`): Q0 = 2μg²V_eff + F and ρ = 2μg², so that
     Q(E) = Q0 − E·ρ; ``v`` is V at the nodes."""
@@ -151,34 +160,7 @@ def assemble(a, v, mass, l):
         a[3, i] = a[4, i] * v[i] + g2 * cen / (ri * ri) + a[2, i]
 
 
-@njit(cache=True)
-def sturm(a, prm, stride, n, h, energy):
-    """:func:`sturm_count` on the arrays of :func:`map_nodes` and the parameters of :func:`solve_grid`."""
-    return sturm_count(a[3], a[4], stride, n, h, energy, int(prm[2]), int(prm[1]), prm[0], prm[3], prm[4],
-                       prm[5], prm[6])
-
-
-@njit(cache=True)
-def solve_grid(a, prm, stride, n, h, k, start, near, work, want_u):
-    """Level k on the grid of every ``stride``-th node of ``a``: Newton's method from ``start``,
-    and if that does not settle on a level with k nodes, Sturm bisection from ``near`` first.
-
-    ``prm`` = (μ, l, tail kind, tail parameter, R, g(R), g'/g(R), energy scale, κ mode, lo, hi).
-    Returns (energy, status, passes, ∫u² dr, ∫r u² dr, u(R)²) as :func:`solve_level`."""
-    mass, l, kind, p, R, g_end, gp_end, scale = prm[0], int(prm[1]), int(prm[2]), prm[3], prm[4], prm[5], prm[6], prm[7]
-    kappa_mode = prm[8] != 0.0
-    lo, hi = prm[9], prm[10]
-    spent = 0
-    for attempt in range(2):  # one call site: the kernel is compiled (and inlined) once
-        out = solve_level(a[3], a[4], a[0], a[1], stride, n, h, k, start if attempt == 0 else near, lo, hi,
-                          attempt == 1, kappa_mode, scale, kind, l, mass, p, R, g_end, gp_end, work, want_u)
-        spent += out[2]
-        if out[1] == 0 or attempt == 1:
-            return out[0], out[1], spent, out[3], out[4], out[5]
-    return out[0], out[1], spent, out[3], out[4], out[5]
-
-
-@njit(cache=True)
+@njit([(i8, i8, f8, f8, f8, f8,)], cache=True)
 def exterior_log_derivative(kind, l, mass, p, energy, R):
     """u'/u at R of the exterior solution (see :mod:`.exterior`, whose formulas these mirror):
     short range r·k_l(κr) ∝ e^{−z} Σ_j (l+j)!/(j!(l−j)!)(2z)^{−j}, z = κR (A&S 10.2.15);
@@ -207,13 +189,13 @@ def exterior_log_derivative(kind, l, mass, p, energy, R):
     return kappa * (-1.0 - l / z + dpoly / poly)
 
 
-@njit(cache=True)
+@njit([(i8, i8, f8, f8, f8, f8, f8, f8,)], cache=True)
 def _sigma_t(kind, l, mass, p, energy, R, g_end, gp_end):
     # w'/w in t at the outer node, from u'/u in r: u = g^{1/2} w
     return g_end * exterior_log_derivative(kind, l, mass, p, energy, R) - 0.5 * gp_end
 
 
-@njit(cache=True)
+@njit([(A1, A1, i8, i8, f8, f8, i8, i8, f8, f8, f8, f8, f8,)], cache=True)
 def _last_excess(q0, rho, stride, n, h, energy, kind, l, mass, p, R, g_end, gp_end):
     """Symmetrised diagonal of the last row (ghost node carrying the Robin condition) minus 1,
     formed without cancellation (b/a − 2 = c/(1 − c/12) with c = h²Q): it sets Y_{N−1}/Y_N."""
@@ -234,7 +216,7 @@ def _last_excess(q0, rho, stride, n, h, energy, kind, l, mass, p, R, g_end, gp_e
     return excess / (1.0 + ag / am)
 
 
-@njit(cache=True)
+@njit([(A1, A1, i8, i8, f8, f8, i8, i8, f8, f8, f8, f8, f8,)], cache=True)
 def sturm_count(q0, rho, stride, n, h, energy, kind, l, mass, p, R, g_end, gp_end):
     """Number of discrete eigenvalues below ``energy`` (negative pivots of M(E) = LDLᵀ)."""
     h2 = h * h
@@ -255,7 +237,7 @@ def sturm_count(q0, rho, stride, n, h, energy, kind, l, mass, p, R, g_end, gp_en
     return count
 
 
-@njit(cache=True)
+@njit([(A1, A1, i8, i8, f8,)], cache=True)
 def _floor_energy(q0, rho, stride, n, h):
     """Lowest energy at which every row keeps h²Q/12 ≤ _ROW_LIMIT (below it the grid cannot hold a level)."""
     h2 = h * h
@@ -270,7 +252,7 @@ def _floor_energy(q0, rho, stride, n, h):
     return lowest
 
 
-@njit(cache=True)
+@njit([(A1, A1, A1, A1, i8, i8, f8, f8, i8, i8, f8, f8, f8, f8, f8, A1, b1,)], cache=True)
 def _join(q0, rho, r, g2, stride, n, h, energy, kind, l, mass, p, R, g_end, gp_end, work, want_u):
     """One Cooley pass at ``energy``: outward to the outer turning point, inward from R.
 
@@ -388,7 +370,7 @@ def _join(q0, rho, r, g2, stride, n, h, energy, kind, l, mass, p, R, g_end, gp_e
     return residual * y_out_m, dm, nodes, norm * h / 3.0, first * h / 3.0, u_end2
 
 
-@njit(cache=True)
+@njit([(A1, A1, i8, i8, f8, i8, f8, f8, f8, b1, f8, i8, i8, f8, f8, f8, f8, f8,)], cache=True)
 def _isolate(q0, rho, stride, n, h, k, energy, lo, top, kappa_mode, scale, kind, l, mass, p, R, g_end, gp_end):
     """A bracket (e_lo, e_hi) holding level k alone (Sturm counts k and k + 1 at its ends),
     narrow enough for Newton's method: grown geometrically from ``energy``, then bisected
@@ -451,7 +433,7 @@ def _isolate(q0, rho, stride, n, h, k, energy, lo, top, kappa_mode, scale, kind,
     return e_lo, e_hi, 0, counts
 
 
-@njit(cache=True)
+@njit([(A1, A1, A1, A1, i8, i8, f8, i8, f8, f8, f8, b1, b1, f8, i8, i8, f8, f8, f8, f8, f8, A1, b1,)], cache=True)
 def solve_level(q0, rho, r, g2, stride, n, h, k, energy, lo, hi, locate, kappa_mode, scale,
                 kind, l, mass, p, R, g_end, gp_end, work, want_u):
     """Eigenvalue k (0-based) of the discrete problem on one grid (nodes every ``stride``-th
@@ -562,7 +544,34 @@ def solve_level(q0, rho, r, g2, stride, n, h, k, energy, lo, hi, locate, kappa_m
     return energy, status, passes, norm, first, uend2
 
 
-@njit(cache=True)
+@njit([(A2, A1, i8, i8, f8, f8,)], cache=True)
+def sturm(a, prm, stride, n, h, energy):
+    """:func:`sturm_count` on the arrays of :func:`map_nodes` and the parameters of :func:`solve_grid`."""
+    return sturm_count(a[3], a[4], stride, n, h, energy, int(prm[2]), int(prm[1]), prm[0], prm[3], prm[4],
+                       prm[5], prm[6])
+
+
+@njit([(A2, A1, i8, i8, f8, i8, f8, f8, A1, b1,)], cache=True)
+def solve_grid(a, prm, stride, n, h, k, start, near, work, want_u):
+    """Level k on the grid of every ``stride``-th node of ``a``: Newton's method from ``start``,
+    and if that does not settle on a level with k nodes, Sturm bisection from ``near`` first.
+
+    ``prm`` = (μ, l, tail kind, tail parameter, R, g(R), g'/g(R), energy scale, κ mode, lo, hi).
+    Returns (energy, status, passes, ∫u² dr, ∫r u² dr, u(R)²) as :func:`solve_level`."""
+    mass, l, kind, p, R, g_end, gp_end, scale = prm[0], int(prm[1]), int(prm[2]), prm[3], prm[4], prm[5], prm[6], prm[7]
+    kappa_mode = prm[8] != 0.0
+    lo, hi = prm[9], prm[10]
+    spent = 0
+    for attempt in range(2):  # one call site: the kernel is compiled (and inlined) once
+        out = solve_level(a[3], a[4], a[0], a[1], stride, n, h, k, start if attempt == 0 else near, lo, hi,
+                          attempt == 1, kappa_mode, scale, kind, l, mass, p, R, g_end, gp_end, work, want_u)
+        spent += out[2]
+        if out[1] == 0 or attempt == 1:
+            return out[0], out[1], spent, out[3], out[4], out[5]
+    return out[0], out[1], spent, out[3], out[4], out[5]
+
+
+@njit([(A1, A1, i8, i8, f8, f8,)], cache=True)
 def outward_solution(q0, rho, stride, n, h, energy):
     """The outward Numerov solution w_0..w_N at ``energy`` (w_0 = 0), scaled to max |w| = 1."""
     h2 = h * h
@@ -588,7 +597,7 @@ def outward_solution(q0, rho, stride, n, h, energy):
     return w
 
 
-@njit(cache=True)
+@njit([(A1, A1, f8, f8, i8, f8, f8, f8, f8, A1, f8,)], cache=True)
 def design_map(rs, veff, energy, mass, l, r_min, R, theta, h_max, betas, r_core):
     """Choose β among ``betas``, the inner compression c and the coarse step h for the map, so
     that the local wavenumber |Q|^{1/2} in t is resolved to ``theta`` per step on [r_min, R].
@@ -641,7 +650,7 @@ def design_map(rs, veff, energy, mass, l, r_min, R, theta, h_max, betas, r_core)
     return beta, c, tc, t0, t1, n
 
 
-@njit(cache=True)
+@njit([(A1, A1, f8, f8, f8,)], cache=True)
 def _action(rs, vlanger, mass, e, dln):
     total = 0.0
     for j in range(rs.size):
@@ -651,7 +660,7 @@ def _action(rs, vlanger, mass, e, dln):
     return total * dln
 
 
-@njit(cache=True)
+@njit([(A1, A1, f8, f8, f8, f8, i8, f8,)], cache=True)
 def wkb_energy(rs, vlanger, mass, phase, e_lo, e_hi, iterations, dln):
     """Energy at which ∫√(2μ(E − V_L)) dr = ``phase`` (Langer's V_L; a sum in ln r over the
     log-spaced samples, step ``dln``), by bisection in [e_lo, e_hi]; NaN if even e_hi gives less phase."""
@@ -667,7 +676,7 @@ def wkb_energy(rs, vlanger, mass, phase, e_lo, e_hi, iterations, dln):
     return 0.5 * (a + b)
 
 
-@njit(cache=True)
+@njit([(i8, f8, f8, f8, A1, A1, i8,)], cache=True)
 def exterior_tail_moments(l, mass, energy, R, nodes, weights, panels):
     """∫_R^∞ (u/u(R))² dr and ∫_R^∞ r (u/u(R))² dr of the short-range exterior solution
     u ∝ e^{−z} z^{−l} Σ_j a_j z^{l−j} (z = κr, A&S 10.2.15), by Gauss–Legendre (``nodes``,

@@ -12,13 +12,19 @@ __all__ = ["warm_up"]
 
 
 def warm_up() -> float:
-    """Compile (or load from the cache) every kernel by solving a few small cells; seconds taken."""
+    """Compile (or load from the cache) every kernel, then solve a few small cells; seconds taken.
+
+    Each kernel has one explicit signature and is compiled when its module is imported, and the
+    families share one set of kernels (V is chosen by a code at run time), so importing the
+    kernel modules compiles all a sweep of any family needs; the cells check that they run."""
+    from .jitcache import load_kernels
     from .critical import critical_screening_length
     from .levels import bound_levels
     from .potential import potential
     from .zero_energy import zero_energy_solution
 
     start = time.perf_counter()
+    load_kernels()
     for family, strength, length in (("yukawa", 1.0, 10.0), ("coulomb", 1.0, None), ("harmonic", 1.0, None)):
         for l in (0, 1):
             bound_levels(potential(family, strength, length), l, n_r_max=2)
