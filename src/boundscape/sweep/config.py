@@ -71,6 +71,7 @@ def validate_config(config: dict) -> dict:
     pot = config["potential"]
     pot.setdefault("screened", False)
     config.setdefault("tiles", {}).setdefault("cells", DEFAULT_CELLS_PER_TILE)
+    config.setdefault("resonances", False)
 
     family = pot["family"]
     if family not in FAMILIES:
@@ -82,6 +83,8 @@ def validate_config(config: dict) -> dict:
         for key in ("table", "screened", "coulomb_tail"):
             if key in pot and (key != "screened" or pot[key]):
                 raise InputError(f"config key potential.{key}: only the tabulated family takes a table")
+    if config["resonances"]:
+        _check_resonances(pot)
     grid = config["grid"]
     uses_length = pot["screened"] if family == "tabulated" else FAMILIES[family].uses_screening_length
     if uses_length and "screening_length" not in grid:
@@ -127,6 +130,15 @@ def _check_table(pot):
         load_table(pot["table"], coulomb_tail=pot.get("coulomb_tail"))
     except InputError as exc:
         raise InputError(f"config key potential.table: {exc}") from None
+
+
+def _check_resonances(pot):
+    family = pot["family"]
+    tail = ("coulomb" if pot.get("coulomb_tail") and not pot["screened"] else "short") if family == "tabulated" \
+        else FAMILIES[family].tail
+    if tail != "short":
+        raise InputError(f"config key resonances: family {family} has a {tail} tail, so every state stays bound "
+                         "and none turns into a resonance; set resonances: false")
 
 
 def _check_strength_axis(grid, preset):
