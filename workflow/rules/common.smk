@@ -59,9 +59,18 @@ def critical_spec(wildcards):
     return json.dumps(PLAN.critical_spec(CRITICAL_BLOCKS[wildcards.block]))
 
 
+RESONANCES = bool(PLAN.engine.get("resonances"))
+TRAJECTORIES = f"{RESULTS}/resonance_trajectories.json"
+
+
 def engine_inputs(wildcards):
-    """A tabulated potential's table is an input, so editing the table reruns the tiles."""
-    return [PLAN.engine["table"]] if "table" in PLAN.engine else []
+    """A tabulated potential's table is an input, so editing the table reruns the tiles; with
+    resonances on, the poles' trajectories (computed once, rules/resonances.smk) are one too."""
+    return ([PLAN.engine["table"]] if "table" in PLAN.engine else []) + ([TRAJECTORIES] if RESONANCES else [])
+
+
+def trajectory_option(wildcards):
+    return f"--trajectories {TRAJECTORIES}" if RESONANCES else ""
 
 
 def print_summary():
