@@ -19,7 +19,7 @@ from .. import engine
 from ..engine import DISSOLVED, FAMILIES, NOT_CONVERGED, OK, RESONANCE_STATUS
 from ..errors import ConvergenceError, InputError
 
-__all__ = ["RESONANCE_VARS", "RESONANCE_FLAGS", "DISSOLUTION_VARS", "DISSOLUTION_FLAGS", "wanted", "empty_arrays",
+__all__ = ["RESONANCE_VARS", "RESONANCE_FLAGS", "BOUND", "NOT_SOLVED", "DISSOLUTION_VARS", "DISSOLUTION_FLAGS", "wanted", "empty_arrays",
            "solve_cell", "solve_dissolutions", "trajectories", "use_trajectories"]
 
 RESONANCE_VARS = ("resonance_energy", "resonance_width", "virtual_state_kappa", "resonance_status")
