@@ -38,6 +38,8 @@ HAS_CONDITION_MAP = isinstance(PRESET, (_presets.Plasma, _presets.Semiconductor)
 # (stem, caption, report category, subcategory) of each figure: a PNG in the report, a PDF beside it.
 FIGURE_LIST = [(f"threshold_map_l{l}", "threshold_map.rst", "Threshold maps", f"l = {l}") for l in PLAN.l]
 FIGURE_LIST.append(("level_fan", "level_fan.rst", "Level fans", None))
+if PLAN.engine.get("resonances"):
+    FIGURE_LIST.append(("resonance_fan", "resonance_fan.rst", "Resonance fans", None))
 if HAS_CONDITION_MAP:
     FIGURE_LIST.append(("condition_map", "condition_map.rst", "Physical conditions", None))
 TABLES = ("critical_screening_lengths.csv", "sweep_config.yaml")
