@@ -83,8 +83,6 @@ def validate_config(config: dict) -> dict:
         for key in ("table", "screened", "coulomb_tail"):
             if key in pot and (key != "screened" or pot[key]):
                 raise InputError(f"config key potential.{key}: only the tabulated family takes a table")
-    if config["resonances"]:
-        _check_resonances(pot)
     grid = config["grid"]
     uses_length = pot["screened"] if family == "tabulated" else FAMILIES[family].uses_screening_length
     if uses_length and "screening_length" not in grid:
@@ -93,6 +91,8 @@ def validate_config(config: dict) -> dict:
         why = "an unscreened table" if family == "tabulated" else f"family {family}"
         raise InputError(f"config key grid.screening_length: {why} has no screening length, so every value "
                          "would give the same cells; remove the key")
+    if config["resonances"]:
+        _check_resonances(pot)
     try:
         preset = from_config(config.get("preset"))
     except InputError as exc:
