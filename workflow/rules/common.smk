@@ -38,6 +38,8 @@ HAS_CONDITION_MAP = isinstance(PRESET, (_presets.Plasma, _presets.Semiconductor)
 # (stem, caption, report category, subcategory) of each figure: a PNG in the report, a PDF beside it.
 FIGURE_LIST = [(f"threshold_map_l{l}", "threshold_map.rst", "Threshold maps", f"l = {l}") for l in PLAN.l]
 FIGURE_LIST.append(("level_fan", "level_fan.rst", "Level fans", None))
+if PLAN.engine.get("resonances"):
+    FIGURE_LIST.append(("resonance_fan", "resonance_fan.rst", "Resonance fans", None))
 if HAS_CONDITION_MAP:
     FIGURE_LIST.append(("condition_map", "condition_map.rst", "Physical conditions", None))
 TABLES = ("critical_screening_lengths.csv", "sweep_config.yaml")
@@ -59,9 +61,18 @@ def critical_spec(wildcards):
     return json.dumps(PLAN.critical_spec(CRITICAL_BLOCKS[wildcards.block]))
 
 
+RESONANCES = bool(PLAN.engine.get("resonances"))
+TRAJECTORIES = f"{RESULTS}/resonance_trajectories.json"
+
+
 def engine_inputs(wildcards):
-    """A tabulated potential's table is an input, so editing the table reruns the tiles."""
-    return [PLAN.engine["table"]] if "table" in PLAN.engine else []
+    """A tabulated potential's table is an input, so editing the table reruns the tiles; with
+    resonances on, the poles' trajectories (computed once, rules/resonances.smk) are one too."""
+    return ([PLAN.engine["table"]] if "table" in PLAN.engine else []) + ([TRAJECTORIES] if RESONANCES else [])
+
+
+def trajectory_option(wildcards):
+    return f"--trajectories {TRAJECTORIES}" if RESONANCES else ""
 
 
 def print_summary():

@@ -25,6 +25,7 @@ rule solve_tile:
         f"{RESULTS}/tiles/tile_{{tile}}.nc",
     params:
         spec=tile_spec,
+        trajectories=trajectory_option,
     log:
         f"{RESULTS}/logs/solve_tile_{{tile}}.log",
     benchmark:
@@ -38,7 +39,7 @@ rule solve_tile:
     conda:
         "../envs/boundscape.yaml"
     shell:
-        "python -m boundscape.cli.steps solve-tile --spec {params.spec:q} --output {output:q} > {log:q} 2>&1"
+        "python -m boundscape.cli.steps solve-tile --spec {params.spec:q} --output {output:q} {params.trajectories} > {log:q} 2>&1"
 
 
 rule criticals:
@@ -49,6 +50,7 @@ rule criticals:
         f"{RESULTS}/criticals/criticals_{{block}}.nc",
     params:
         spec=critical_spec,
+        trajectories=trajectory_option,
     log:
         f"{RESULTS}/logs/criticals_{{block}}.log",
     benchmark:
@@ -62,4 +64,4 @@ rule criticals:
     conda:
         "../envs/boundscape.yaml"
     shell:
-        "python -m boundscape.cli.steps criticals --spec {params.spec:q} --output {output:q} > {log:q} 2>&1"
+        "python -m boundscape.cli.steps criticals --spec {params.spec:q} --output {output:q} {params.trajectories} > {log:q} 2>&1"

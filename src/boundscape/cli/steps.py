@@ -7,7 +7,10 @@ The Snakemake rules call these and contain no physics themselves:
 * ``criticals --spec JSON --output FILE``: critical screening lengths of one block of strengths;
 * ``collect --config-json JSON --tiles ... --criticals ... --output FILE --summary FILE``:
   merge into the cube and print how many cells were flagged;
-* ``figures CUBE OUTDIR``: render every figure and table of a cube.
+* ``figures CUBE OUTDIR``: render every figure and table of a cube;
+* ``trajectories --spec JSON --output FILE``: the poles' trajectories past threshold, computed
+  once for every tile (``resonances: true``); ``solve-tile`` and ``criticals`` take them with
+  ``--trajectories FILE``.
 """
 
 from __future__ import annotations
@@ -15,11 +18,12 @@ from __future__ import annotations
 import argparse
 import json
 import sys
+from pathlib import Path
 
 import numpy as np
 
 from ..errors import InputError
-from ..sweep import load_config, plan, solve_criticals, solve_tile
+from ..sweep import load_config, plan, resonance_tiles, solve_criticals, solve_tile
 
 
 def _solve_tile(args):
@@ -27,14 +31,20 @@ def _solve_tile(args):
     from ..cube.model import LEVEL_VARS
 
     spec = json.loads(args.spec)
+    _take_trajectories(args, spec)
     result = solve_tile(spec)
     dims = {**{name: LEVEL_DIMS for name in LEVEL_VARS}, "num_bound": CELL_DIMS, "status": CELL_DIMS}
-    write_part(args.output, {name: result[name] for name in dims}, dims,
-               {"spec_json": json.dumps(spec), "engine_seconds": result["engine_seconds"],
-                "reasons_json": json.dumps(result["reasons"])})
+    attrs = {"spec_json": json.dumps(spec), "engine_seconds": result["engine_seconds"],
+             "reasons_json": json.dumps(result["reasons"])}
+    if "resonance_status" in result:
+        dims.update(dict.fromkeys(resonance_tiles.RESONANCE_VARS, LEVEL_DIMS))
+        attrs.update(resonance_reasons_json=json.dumps(result["resonance_reasons"]),
+                     resonance_seconds=result["resonance_seconds"])
+    write_part(args.output, {name: result[name] for name in dims}, dims, attrs)
     cells = int(np.prod(result["status"].shape))
     print(f"tile {args.output}: {cells} cells, {np.count_nonzero(result['status'])} flagged, "
-          f"engine {result['engine_seconds']:.3f} s")
+          f"engine {result['engine_seconds']:.3f} s"
+          + (f" (past threshold {result['resonance_seconds']:.3f} s)" if "resonance_seconds" in result else ""))
     for i, j, k, text in result["reasons"]:
         print(f"  flagged strength={spec['strength'][i]!r} screening_length="
               f"{spec['screening_length'][j]!r} l={spec['l'][k]}: {text}")
@@ -44,13 +54,31 @@ def _criticals(args):
     from ..cube import CRITICAL_DIMS, write_part
 
     spec = json.loads(args.spec)
+    _take_trajectories(args, spec)
     result = solve_criticals(spec)
     names = ("critical_screening_length", "critical_flag")
-    write_part(args.output, {name: result[name] for name in names}, dict.fromkeys(names, CRITICAL_DIMS),
-               {"spec_json": json.dumps(spec), "engine_seconds": result["engine_seconds"],
-                "reasons_json": json.dumps(result["reasons"])})
+    attrs = {"spec_json": json.dumps(spec), "engine_seconds": result["engine_seconds"],
+             "reasons_json": json.dumps(result["reasons"])}
+    if "dissolution_flag" in result:
+        names += resonance_tiles.DISSOLUTION_VARS
+        attrs["dissolution_reasons_json"] = json.dumps(result["dissolution_reasons"])
+    write_part(args.output, {name: result[name] for name in names}, dict.fromkeys(names, CRITICAL_DIMS), attrs)
     print(f"criticals {args.output}: {result['critical_flag'].size} states, "
           f"engine {result['engine_seconds']:.3f} s")
+
+
+def _take_trajectories(args, spec):
+    if getattr(args, "trajectories", None):
+        resonance_tiles.use_trajectories(Path(args.trajectories).read_text(), spec)
+
+
+def _trajectories(args):
+    from ..cube.netcdf import replace_atomically
+
+    spec = json.loads(args.spec)
+    text = resonance_tiles.trajectories(spec)
+    replace_atomically(lambda temp: Path(temp).write_text(text), args.output)
+    print(f"trajectories {args.output}: {len(json.loads(text)['records'])} (l, n_r) trajectories")
 
 
 def _collect(args):
@@ -85,7 +113,12 @@ def main(argv=None):
         p = sub.add_parser(name)
         p.add_argument("--spec", required=True, help="the job's params, JSON")
         p.add_argument("--output", required=True)
+        p.add_argument("--trajectories", help="trajectories written by the trajectories step (resonances: true)")
         p.set_defaults(run=run)
+    p = sub.add_parser("trajectories")
+    p.add_argument("--spec", required=True, help="the sweep's critical-block params, JSON")
+    p.add_argument("--output", required=True)
+    p.set_defaults(run=_trajectories)
     p = sub.add_parser("collect")
     p.add_argument("--config-json", required=True)
     p.add_argument("--tiles", nargs="+", required=True)

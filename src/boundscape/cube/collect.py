@@ -23,6 +23,8 @@ from ..version import VERSION
 from .model import LEVEL_VARS, build_cube
 from .netcdf import open_for_filling, read_part, read_part_variables, write_cube
 from .physical import add_physical_coordinates
+from .resonances import RESONANCE_VARS, add_resonances
+from .resonances import placeholders as resonance_placeholders
 
 __all__ = ["collect"]
 
@@ -51,16 +53,16 @@ def _read_checked(path, expected_spec, names=None):
     return arrays, attrs
 
 
-def _fill_levels(plan, tile_paths):
+def _fill_levels(plan, tile_paths, names=LEVEL_VARS):
     """Write each tile's levels into the cube file, one tile in memory at a time."""
     def fill(cube_path):
         nc = open_for_filling(cube_path)
         try:
             for tile, path in zip(plan.tiles, tile_paths):
-                arrays = read_part_variables(path, LEVEL_VARS)
+                arrays = read_part_variables(path, names)
                 s0, s1 = tile.strength_slice
                 index = list(tile.screening_length_index)
-                for name in LEVEL_VARS:
+                for name in names:
                     nc.variables[name][s0:s1, index, :, :] = arrays[name]
         finally:
             nc.close()
@@ -98,6 +100,13 @@ def collect(config: dict, tile_paths, critical_paths, output, summary=None) -> s
     levels["num_bound"] = np.zeros(shape, np.int32)
     levels["status"] = np.zeros(shape, np.int8)
     levels["reasons"] = []
+    past = bool(plan.engine.get("resonances"))  # the states past threshold (cube/resonances.py)
+    if past:
+        past_levels = {**resonance_placeholders(shape + (plan.n_r_max,)), "reasons": []}
+        past_dissolution = {"dissolution_screening_length": np.full((plan.strength.size, plan.l.size, plan.n_r_max),
+                                                                    np.nan),
+                            "dissolution_flag": np.zeros((plan.strength.size, plan.l.size, plan.n_r_max), np.int8),
+                            "reasons": []}
     engine_seconds = 0.0
     for tile, path in zip(plan.tiles, tile_paths):
         arrays, attrs = _read_checked(path, plan.tile_spec(tile), ("num_bound", "status"))
@@ -107,6 +116,10 @@ def collect(config: dict, tile_paths, critical_paths, output, summary=None) -> s
         engine_seconds += float(attrs["engine_seconds"])
         levels["reasons"] += [f"strength={tile.strength[i]!r} screening_length={tile.screening_length[j]!r} "
                               f"l={int(plan.l[k])}: {text}" for i, j, k, text in json.loads(attrs["reasons_json"])]
+        if past:
+            past_levels["reasons"] += [
+                f"strength={tile.strength[i]!r} screening_length={tile.screening_length[j]!r} l={int(plan.l[k])} "
+                f"n_r={n_r}: {text}" for i, j, k, n_r, text in json.loads(attrs["resonance_reasons_json"])]
 
     crit_shape = (plan.strength.size, plan.l.size, plan.n_r_max)
     criticals = {"critical_screening_length": np.full(crit_shape, np.nan),
@@ -115,6 +128,11 @@ def collect(config: dict, tile_paths, critical_paths, output, summary=None) -> s
         arrays, attrs = _read_checked(path, plan.critical_spec(block))
         for name in ("critical_screening_length", "critical_flag"):
             criticals[name][slice(*block.strength_slice)] = arrays[name]
+        if past:
+            for name in ("dissolution_screening_length", "dissolution_flag"):
+                past_dissolution[name][slice(*block.strength_slice)] = arrays[name]
+            past_dissolution["reasons"] += [f"strength={block.strength[i]!r} l={int(plan.l[k])} n_r={n_r}: {text}"
+                                            for i, k, n_r, text in json.loads(attrs["dissolution_reasons_json"])]
         engine_seconds += float(attrs["engine_seconds"])
         criticals["reasons"] += [f"strength={block.strength[i]!r} l={int(plan.l[k])} n_r={n_r}: {text}"
                                  for i, k, n_r, text in json.loads(attrs["reasons_json"])]
@@ -133,9 +151,11 @@ def collect(config: dict, tile_paths, critical_paths, output, summary=None) -> s
     ds = build_cube({"strength": plan.strength, "screening_length": plan.screening_length,
                      "l": plan.l, "n_r_max": plan.n_r_max}, levels, criticals, provenance=provenance)
     ds.attrs["engine_seconds"] = engine_seconds
+    if past:
+        ds = add_resonances(ds, past_levels, past_dissolution)
     # The physical reading of the axes travels with the cube as extra coordinates.
     ds = add_physical_coordinates(ds, from_config(config.get("preset")))
-    write_cube(ds, output, fill=_fill_levels(plan, tile_paths))
+    write_cube(ds, output, fill=_fill_levels(plan, tile_paths, LEVEL_VARS + (RESONANCE_VARS if past else ())))
     flagged = int(np.count_nonzero(levels["status"]))
     lines = [f"sweep {plan.sweep}: {plan.num_cells} cells ({' x '.join(map(str, shape))}), "
              f"{flagged} flagged, {len(criticals['reasons'])} critical lengths not converged; "

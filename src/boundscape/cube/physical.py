@@ -12,6 +12,7 @@ from scipy import constants as sc
 
 from ..physics.presets import Nuclear, Plasma, Semiconductor, cube_units, from_config
 from ..physics.units import ATOMIC, FM_M
+from . import resonances as past
 
 __all__ = ["add_physical_coordinates", "preset_of"]
 
@@ -63,8 +64,8 @@ def add_physical_coordinates(ds, preset, cube_mass=None):
     return out
 
 
-_ENERGIES = ("energy", "energy_error")
-_LENGTHS = ("screening_length", "mean_radius", "critical_screening_length")
+_ENERGIES = ("energy", "energy_error") + past.ENERGY_VARS
+_LENGTHS = ("screening_length", "mean_radius", "critical_screening_length") + past.LENGTH_VARS
 _ATOMIC_ONLY = ("hartree_in_eV", "hartree_in_J", "bohr_in_m")
 
 
@@ -86,13 +87,15 @@ def _describe_units(out, preset, units, mass):
     if units is ATOMIC:
         return
     energy_eV = units.energy_J / sc.electron_volt
-    for name in _ENERGIES + _LENGTHS:
+    for name in _ENERGIES + _LENGTHS + past.INVERSE_LENGTH_VARS:
         if name not in out.variables:
             continue
         attrs = out[name].attrs
         for key in _ATOMIC_ONLY:
             attrs.pop(key, None)
-        if name in _LENGTHS:
+        if name in past.INVERSE_LENGTH_VARS:
+            attrs.update(past.inverse_length_attrs(units.length_m))
+        elif name in _LENGTHS:
             attrs.update(units=units.length_udunits(), length_unit_in_m=units.length_m)
         else:
             attrs.update(units=units.energy_udunits(), energy_unit_in_J=units.energy_J, energy_unit_in_eV=energy_eV)

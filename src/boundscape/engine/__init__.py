@@ -11,7 +11,8 @@ import importlib
 
 from .families import FAMILIES, Family, family_info
 from .potential import Potential, potential, potential_from_spec
-from .resonances import Resonances, dissolution_screening_length, resonances
+from .resonances import (Resonances, dissolution_screening_length, load_trajectory_records, resonances,
+                         shares_trajectories, trajectory_records)
 from .status import DISSOLVED, INPUT_REJECTED, LEVEL_STATUS, NOT_CONVERGED, OK, RESONANCE_STATUS
 from .tables import Table, load_table
 
@@ -35,5 +36,6 @@ __all__ = [
     "BoundLevels", "bound_levels", "count_bound", "zero_energy_solution",
     "critical_screening_length", "critical_strength",
     "Resonances", "resonances", "dissolution_screening_length",
+    "shares_trajectories", "trajectory_records", "load_trajectory_records",
     "LEVEL_STATUS", "OK", "NOT_CONVERGED", "INPUT_REJECTED", "RESONANCE_STATUS", "DISSOLVED",
 ]

@@ -63,7 +63,8 @@ from .siegert import Channel
 from .status import DISSOLVED, NOT_CONVERGED, OK
 from .tracking import Trajectory, momentum, refine, trace
 
-__all__ = ["Resonances", "resonances", "dissolution_screening_length", "DEFAULT_LOST", "RTOL"]
+__all__ = ["Resonances", "resonances", "dissolution_screening_length", "DEFAULT_LOST", "RTOL",
+           "shares_trajectories", "trajectory_records", "load_trajectory_records"]
 
 DEFAULT_LOST = 4  # states followed past the bound ones when n_r_max is not given
 RTOL = 1e-9  # relative tolerance on each pole
@@ -284,11 +285,59 @@ def _universal_potential(family: str) -> Potential:
     return potential_from_spec({"family": family, "mass": 1.0}, 1.0, 1.0)
 
 
-@lru_cache(maxsize=1024)
+# The one-scale trajectories of this process, by (family, l, n_r, angle, tail_tolerance);
+# filled on first use or from records another process computed (load_trajectory_records).
+_TRAJECTORIES: dict = {}
+
+
 def _universal_trajectory(family: str, l: int, n_r: int, angle, tail_tolerance) -> Trajectory | None:
     """The whole trajectory of (family, l, n_r) at Z = λ = μ = 1, from threshold until the pole
     is out of reach: every cell of the family reads its own point, so a cell's value does not
     depend on which cells were solved before it."""
+    key = (family, l, n_r, angle, tail_tolerance)
+    if key not in _TRAJECTORIES:
+        _TRAJECTORIES[key] = _trace_universal(family, l, n_r, angle, tail_tolerance)
+    return _TRAJECTORIES[key]
+
+
+def shares_trajectories(family: str) -> bool:
+    """Whether ``family``'s poles follow one trajectory per (l, n_r) whatever the cell (one-scale
+    families): :func:`trajectory_records` can then be computed once and shared between processes."""
+    info = potential_from_spec({"family": family, "mass": 1.0}, 1.0, 1.0).info
+    return bool(info.one_scale and info.uses_screening_length and family != "tabulated")
+
+
+def trajectory_records(family: str, l_values, n_r_max: int) -> list[dict]:
+    """The trajectories of (family, l, n_r < n_r_max) for the default method parameters, as plain
+    records (numbers and strings only; every float survives a JSON round trip exactly), so that
+    a sweep follows each pole from its threshold once rather than once per process."""
+    records = []
+    for l in l_values:
+        for n_r in range(int(n_r_max)):
+            traj = _universal_trajectory(family, int(l), n_r, None, CUT_TOLERANCE)
+            item = None
+            if traj is not None:
+                item = {"l": traj.l, "g_c": traj.g_c, "g_c_coarse": traj.g_c_coarse, "s": [float(v) for v in traj.s],
+                        "pole": [[complex(p).real, complex(p).imag] for p in traj.pole], "end": traj.end,
+                        "end_at": traj.end_at, "g_dissolved": traj.g_dissolved}
+            records.append({"family": family, "l": int(l), "n_r": n_r, "trajectory": item})
+    return records
+
+
+def load_trajectory_records(records) -> None:
+    """Take trajectories computed by :func:`trajectory_records` (in any process) as this process's:
+    a cell then gives the same bits as if they had been traced here."""
+    for rec in records:
+        item = rec["trajectory"]
+        traj = None
+        if item is not None:
+            poles = [float(re) if item["l"] == 0 else complex(re, im) for re, im in item["pole"]]
+            traj = Trajectory(item["l"], item["g_c"], item["g_c_coarse"], list(item["s"]), poles, item["end"],
+                              item["end_at"], item["g_dissolved"])
+        _TRAJECTORIES[(rec["family"], int(rec["l"]), int(rec["n_r"]), None, CUT_TOLERANCE)] = traj
+
+
+def _trace_universal(family: str, l: int, n_r: int, angle, tail_tolerance) -> Trajectory | None:
     base = _universal_potential(family)
     ch = Channel(base, l, angle=None if angle is None else math.radians(angle), tail_tolerance=tail_tolerance)
     return trace(ch, n_r, g_stop=0.0, g_start=base.info.critical_length_start(1.0, 1.0), scale=base.energy_scale)

@@ -9,6 +9,7 @@ import matplotlib
 from ..cube.physical import preset_of
 from .conditions import condition_map
 from .level_fan import level_fan
+from .resonance_fan import resonance_fan
 from .loss_table import write_critical_csv
 from .style import RC, save
 from .threshold_map import threshold_map
@@ -25,6 +26,8 @@ def render_all(ds, outdir):
         for l in ds["l"].values:
             written += save(threshold_map(ds, int(l), preset)[0], outdir / f"threshold_map_l{int(l)}")
         written += save(level_fan(ds, preset=preset)[0], outdir / "level_fan")
+        if "resonance_energy" in ds:  # a cube with resonances: always drawn, empty panels say so
+            written += save(resonance_fan(ds, preset=preset)[0], outdir / "resonance_fan")
         fig, _ = condition_map(ds, preset, settings)
         if fig is not None:
             written += save(fig, outdir / "condition_map")

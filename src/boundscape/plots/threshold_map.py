@@ -8,6 +8,7 @@ from matplotlib.figure import Figure
 
 from ..engine import INPUT_REJECTED
 from ..labels import state_label
+from .resonance_overlay import draw_resonance_bands, has_resonances
 from .style import (HALO, cell_edges, count_colorbar, count_norm, family_title, length_label, length_unit,
                     strength_label, strength_values, tidy_log_axis, unit_names, value_ticks)
 
@@ -39,8 +40,9 @@ def threshold_map(ds, l, preset=None):
     infinite = count < 0
     count = np.where(infinite, np.inf, count)
     cmap, norm = count_norm(top)
-    fig = Figure(figsize=(6.4, 4.6), layout="constrained")
-    ax = fig.add_subplot()
+    past = has_resonances(ds, l)  # resonance bands, and a panel below with each state's window
+    fig = Figure(figsize=(6.4, 6.4 if past else 4.6), layout="constrained")
+    ax, window_ax = fig.subplots(2, 1, height_ratios=(4.6, 1.6)) if past else (fig.add_subplot(), None)
     mesh = ax.pcolormesh(cell_edges(z), cell_edges(lam), np.ma.masked_invalid(np.minimum(count, top)).T,
                          cmap=cmap, norm=norm, rasterized=True)
     ax.set(xscale="log", yscale="log", xlim=cell_edges(z)[[0, -1]], ylim=cell_edges(lam)[[0, -1]],
@@ -69,6 +71,10 @@ def threshold_map(ds, l, preset=None):
             if spot is not None:
                 ax.annotate(name, spot, ha="center", va="center", color="white", fontsize=7.5,
                             path_effects=HALO, annotation_clip=True)
+    if past:  # past each loss curve: where the state lives on as a resonance
+        extra = draw_resonance_bands(ax, window_ax, ds, l, z, lambda v: f"{strength_label(ds, preset).split(' of ')[0]} = {v:.3g}")[1]
+        if extra:
+            ax.legend(handles=ax.get_legend_handles_labels()[0] + extra, loc="lower left", fontsize=7)
     if infinite.all():
         ax.text(0.5, 0.5, "infinitely many bound states in every cell\n(Coulomb tail or confining potential)",
                 transform=ax.transAxes, ha="center", va="center", color="black")

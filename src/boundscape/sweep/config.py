@@ -71,6 +71,7 @@ def validate_config(config: dict) -> dict:
     pot = config["potential"]
     pot.setdefault("screened", False)
     config.setdefault("tiles", {}).setdefault("cells", DEFAULT_CELLS_PER_TILE)
+    config.setdefault("resonances", False)
 
     family = pot["family"]
     if family not in FAMILIES:
@@ -90,6 +91,8 @@ def validate_config(config: dict) -> dict:
         why = "an unscreened table" if family == "tabulated" else f"family {family}"
         raise InputError(f"config key grid.screening_length: {why} has no screening length, so every value "
                          "would give the same cells; remove the key")
+    if config["resonances"]:
+        _check_resonances(pot)
     try:
         preset = from_config(config.get("preset"))
     except InputError as exc:
@@ -127,6 +130,15 @@ def _check_table(pot):
         load_table(pot["table"], coulomb_tail=pot.get("coulomb_tail"))
     except InputError as exc:
         raise InputError(f"config key potential.table: {exc}") from None
+
+
+def _check_resonances(pot):
+    family = pot["family"]
+    tail = ("coulomb" if pot.get("coulomb_tail") and not pot["screened"] else "short") if family == "tabulated" \
+        else FAMILIES[family].tail
+    if tail != "short":
+        raise InputError(f"config key resonances: family {family} has a {tail} tail, so every state stays bound "
+                         "and none turns into a resonance; set resonances: false")
 
 
 def _check_strength_axis(grid, preset):

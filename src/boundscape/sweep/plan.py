@@ -121,5 +121,7 @@ def plan(config: dict) -> Plan:
         engine.update(table=pot["table"], screened=bool(pot["screened"]),
                       coulomb_tail=pot.get("coulomb_tail"))
     engine["engine"] = f"boundscape {VERSION}"
+    if config["resonances"]:  # only when on, so that a sweep without them keeps its tiles' params
+        engine["resonances"] = True
     return Plan(config["sweep"], engine, strength, screening_length, l_values, n_r_max,
                 tuple(tiles), critical_blocks)

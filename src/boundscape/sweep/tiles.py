@@ -15,6 +15,7 @@ import numpy as np
 from .. import engine
 from ..engine import FAMILIES, INPUT_REJECTED, NOT_CONVERGED
 from ..errors import ConvergenceError, InputError
+from . import resonance_tiles
 
 __all__ = ["CRITICAL_FLAGS", "solve_tile", "solve_criticals"]
 
@@ -53,6 +54,9 @@ def solve_tile(spec: dict) -> dict:
     out["status"] = np.zeros(cell_shape, np.int8)
     reasons = []
     engine_seconds = 0.0
+    past = resonance_tiles.wanted(spec)  # also the states past threshold (resonance_tiles)
+    if past:
+        out.update(resonance_tiles.empty_arrays(cell_shape, n_r_max))
     for i, strength in enumerate(strengths):
         for j, lam in enumerate(lams):
             start = time.perf_counter()
@@ -74,6 +78,8 @@ def solve_tile(spec: dict) -> dict:
                     reasons.append((i, j, k, _one_line(exc)))
                     continue
                 _store_levels(out, (i, j, k), res, n_r_max, reasons)
+                if past:
+                    resonance_tiles.solve_cell(out, (i, j, k), pot, int(l), int(res.num_bound), n_r_max)
             engine_seconds += time.perf_counter() - start
     out["reasons"] = reasons
     out["engine_seconds"] = engine_seconds
@@ -135,5 +141,8 @@ def solve_criticals(spec: dict) -> dict:
                     critical[i, k, n_r] = value
                     if math.isinf(value):
                         flag[i, k, n_r] = CRITICAL_FLAGS.index("never_bound")
-    return {"critical_screening_length": critical, "critical_flag": flag, "reasons": reasons,
-            "engine_seconds": time.perf_counter() - start}
+    result = {"critical_screening_length": critical, "critical_flag": flag, "reasons": reasons}
+    if resonance_tiles.wanted(spec):
+        result.update(resonance_tiles.solve_dissolutions(spec))
+    result["engine_seconds"] = time.perf_counter() - start
+    return result
