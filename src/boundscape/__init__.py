@@ -15,12 +15,12 @@ from .version import VERSION as __version__
 def __getattr__(name):
     # the solvers on first use (see boundscape.engine): importing the package stays light
     if name in ("BoundLevels", "bound_levels", "count_bound", "critical_screening_length", "critical_strength",
-                "zero_energy_solution"):
+                "zero_energy_solution", "Lines", "lines"):
         return getattr(engine, name)
     raise AttributeError(f"module {__name__!r} has no attribute {name!r}")
 
 __all__ = [
     "FAMILIES", "Potential", "potential", "BoundLevels", "bound_levels", "count_bound",
     "critical_screening_length", "critical_strength", "zero_energy_solution", "Resonances", "resonances", "dissolution_screening_length",
-    "InputError", "ConvergenceError", "__version__",
+    "Lines", "lines", "InputError", "ConvergenceError", "__version__",
 ]

@@ -1,6 +1,6 @@
 """The radial problem and nothing else: families, the mapped grid and operator, the exterior
-solution, zero-energy counts and critical parameters, bound levels, and what each lost state
-becomes past its threshold (resonances, virtual states).
+solution, zero-energy counts and critical parameters, bound levels, what each lost state
+becomes past its threshold (resonances, virtual states), and the E1 lines between levels.
 
 Imports numpy, scipy and numba only (xarray just to read a NetCDF potential table, when
 asked): no workflow, no plotting, no output files.  The compiled kernels are cached on disk
@@ -19,7 +19,7 @@ from .tables import Table, load_table
 # step that only reads cubes (collect, figures) stays light.
 _SOLVERS = {"BoundLevels": "levels", "bound_levels": "levels", "count_bound": "zero_energy",
             "zero_energy_solution": "zero_energy", "critical_screening_length": "critical",
-            "critical_strength": "critical"}
+            "critical_strength": "critical", "Lines": "lines", "lines": "lines"}
 
 
 def __getattr__(name):
@@ -34,6 +34,6 @@ __all__ = [
     "FAMILIES", "Family", "family_info", "Potential", "potential", "potential_from_spec", "Table", "load_table",
     "BoundLevels", "bound_levels", "count_bound", "zero_energy_solution",
     "critical_screening_length", "critical_strength",
-    "Resonances", "resonances", "dissolution_screening_length",
+    "Resonances", "resonances", "dissolution_screening_length", "Lines", "lines",
     "LEVEL_STATUS", "OK", "NOT_CONVERGED", "INPUT_REJECTED", "RESONANCE_STATUS", "DISSOLVED",
 ]
