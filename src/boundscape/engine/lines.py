@@ -4,8 +4,9 @@ Method
 ------
 A line joins levels (n, l) and (n′, l ± 1).  Its radial integral R = ∫ u_a r u_b dr is taken
 with both levels re-solved on one common grid (:func:`.levels.level_on_grid`): the map and box
-of the level with the larger box, its step the finer of the two levels' design steps, its
-inner end the smaller of their two origin radii.  Simpson sums on that grid refined f = 1, 2,
+of the level with the larger box, its step the finer of the two levels' design steps (and no
+more than θ of the deeper level's decay far out), its inner end the smaller of their two
+origin radii.  Simpson sums on that grid refined f = 1, 2,
 4 times are Richardson-extrapolated in h⁴, h⁶ (:func:`.grid.richardson`), as the energies are.
 Where the box ends at the potential's range, the part beyond it is added in closed form:
 both levels are u(R)·√(r/R)·K_{l+½}(κr)/K_{l+½}(κR) there (A&S 10.2), integrated by
@@ -129,8 +130,9 @@ def lines(pot: Potential, n_max: int, l_max: int | None = None, pairs=None, rtol
     pairs : iterable of ((n, l), (n′, l′)), optional
         Only these pairs of levels (each within n_max); the sweep asks for its configured lines.
     rtol : float
-        Relative tolerance on the energies and radial integrals; lines that miss it get
-        status ``not_converged``.
+        Relative tolerance on the energies and on the radial integrals (relative to the larger
+        of |R| and √(⟨r⟩⟨r′⟩), so that a vanishing integral is judged on the levels' size);
+        lines that miss it get status ``not_converged``.
 
     Returns
     -------
@@ -173,7 +175,7 @@ def lines(pot: Potential, n_max: int, l_max: int | None = None, pairs=None, rtol
 def _line(pot, lo, hi, cache, rtol):
     """(ΔE, |R|, error of R, status, reason) of one line."""
     de = hi.energy - lo.energy
-    grid = common_grid(lo.grid, hi.grid)
+    grid = common_grid(lo.grid, hi.grid, math.sqrt(2.0 * pot.mass * -lo.energy) if lo.energy < 0 else 0.0)
     values = []
     for f in REFINEMENTS:
         g = grid.refined(f)
@@ -186,7 +188,7 @@ def _line(pot, lo, hi, cache, rtol):
     status, reason = OK, ""
     if lo.status != OK or hi.status != OK:
         status, reason = NOT_CONVERGED, "a level of the line is not converged"
-    elif not err <= rtol * max(abs(best), 1e-300):
+    elif not err <= rtol * max(abs(best), math.sqrt(abs(lo.mean_radius * hi.mean_radius))):
         status, reason = NOT_CONVERGED, f"radial integral error estimate {err:.2e} exceeds rtol {rtol:g}"
     return de, abs(best), err, status, reason
 
@@ -200,11 +202,16 @@ def _on_grid(pot, lv, grid, cache):
     return cache[key]
 
 
-def common_grid(a: fd.MappedGrid, b: fd.MappedGrid) -> fd.MappedGrid:
-    """One grid for two levels: the map and box of the one with the larger box, the finer of
-    their two steps, and its start moved down to the smaller of their two inner ends."""
+def common_grid(a: fd.MappedGrid, b: fd.MappedGrid, kappa: float = 0.0) -> fd.MappedGrid:
+    """One grid for two levels: the map and box of the one with the larger box, its start moved
+    down to the smaller of their two inner ends, and the finer of their two steps — finer still
+    where the deeper level (decay constant ``kappa``) would decay by more than THETA per step at
+    the box's end, where the larger box's map is coarsest."""
     base, other = (a, b) if (a.r_max, -a.h) >= (b.r_max, -b.h) else (b, a)
     h = min(base.h, other.h)
+    g_end = nv.map_point(base.beta, base.c, base.tc, base.t1)[1]
+    if kappa > 0:
+        h = min(h, fd.THETA / (kappa * g_end))
     t0 = base.t0
     r_start = min(base.r_min, other.r_min)
     # r(t) falls at least like e^{t}: step back until the map reaches r_start
