@@ -7,7 +7,7 @@ The package is layered (see DEVELOPERS.md): ``engine`` (the radial problem), ``p
 """
 
 from . import engine
-from .engine import FAMILIES, Potential, Resonances, dissolution_screening_length, potential, resonances
+from .engine import FAMILIES, Lines, Potential, Resonances, dissolution_screening_length, lines, potential, resonances
 from .errors import ConvergenceError, InputError
 from .version import VERSION as __version__
 
@@ -15,7 +15,7 @@ from .version import VERSION as __version__
 def __getattr__(name):
     # the solvers on first use (see boundscape.engine): importing the package stays light
     if name in ("BoundLevels", "bound_levels", "count_bound", "critical_screening_length", "critical_strength",
-                "zero_energy_solution", "Lines", "lines"):
+                "zero_energy_solution"):
         return getattr(engine, name)
     raise AttributeError(f"module {__name__!r} has no attribute {name!r}")
 

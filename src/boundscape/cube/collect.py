@@ -20,6 +20,7 @@ from ..sweep.config import config_text
 from ..sweep.plan import plan as make_plan
 from ..sweep.tiles import CRITICAL_FLAGS
 from ..version import VERSION
+from .lines import add_lines, fill_lines
 from .model import LEVEL_VARS, build_cube
 from .netcdf import open_for_filling, read_part, read_part_variables, write_cube
 from .physical import add_physical_coordinates
@@ -62,6 +63,8 @@ def _fill_levels(plan, tile_paths):
                 index = list(tile.screening_length_index)
                 for name in LEVEL_VARS:
                     nc.variables[name][s0:s1, index, :, :] = arrays[name]
+                if plan.lines:
+                    fill_lines(nc, plan, tile, path)
         finally:
             nc.close()
 
@@ -133,6 +136,8 @@ def collect(config: dict, tile_paths, critical_paths, output, summary=None) -> s
     ds = build_cube({"strength": plan.strength, "screening_length": plan.screening_length,
                      "l": plan.l, "n_r_max": plan.n_r_max}, levels, criticals, provenance=provenance)
     ds.attrs["engine_seconds"] = engine_seconds
+    if plan.lines:
+        ds = add_lines(ds, plan, tile_paths)
     # The physical reading of the axes travels with the cube as extra coordinates.
     ds = add_physical_coordinates(ds, from_config(config.get("preset")))
     write_cube(ds, output, fill=_fill_levels(plan, tile_paths))

@@ -63,7 +63,7 @@ def add_physical_coordinates(ds, preset, cube_mass=None):
     return out
 
 
-_ENERGIES = ("energy", "energy_error")
+_ENERGIES = ("energy", "energy_error", "line_energy", "line_shift")
 _LENGTHS = ("screening_length", "mean_radius", "critical_screening_length")
 _ATOMIC_ONLY = ("hartree_in_eV", "hartree_in_J", "bohr_in_m")
 

@@ -11,6 +11,7 @@ import importlib
 
 from .families import FAMILIES, Family, family_info
 from .potential import Potential, potential, potential_from_spec
+from .lines import Lines, lines  # the function shadows its module's name: import it, not lazily
 from .resonances import Resonances, dissolution_screening_length, resonances
 from .status import DISSOLVED, INPUT_REJECTED, LEVEL_STATUS, NOT_CONVERGED, OK, RESONANCE_STATUS
 from .tables import Table, load_table
@@ -19,7 +20,7 @@ from .tables import Table, load_table
 # step that only reads cubes (collect, figures) stays light.
 _SOLVERS = {"BoundLevels": "levels", "bound_levels": "levels", "count_bound": "zero_energy",
             "zero_energy_solution": "zero_energy", "critical_screening_length": "critical",
-            "critical_strength": "critical", "Lines": "lines", "lines": "lines"}
+            "critical_strength": "critical"}
 
 
 def __getattr__(name):

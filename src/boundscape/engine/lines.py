@@ -52,7 +52,8 @@ from .status import LEVEL_STATUS, NOT_CONVERGED, OK
 
 nv = lazy_module("numerov")
 
-__all__ = ["Lines", "lines", "einstein_A", "oscillator_strength", "wavelength_nm", "RTOL", "DEGENERATE"]
+__all__ = ["Lines", "lines", "unscreened", "einstein_A", "oscillator_strength", "wavelength_nm", "RTOL",
+           "DEGENERATE"]
 
 RTOL = 1e-9  # relative tolerance on each radial integral
 DEGENERATE = 100.0  # a Δn = 0 line needs ΔE above this many times the levels' error estimates
@@ -170,6 +171,24 @@ def lines(pot: Potential, n_max: int, l_max: int | None = None, pairs=None, rtol
         radial_integral_error=np.array([r[2] for r in rows], dtype=float),
         oscillator_strength=f.reshape(-1), einstein_A=a_rate.reshape(-1),
         status=np.array([r[3] for r in rows], dtype=np.int8), reason=[r[4] for r in rows])
+
+
+# Families whose λ → ∞ limit is the Coulomb potential −Z/r (V·r → −Z as r/λ → 0).
+SCREENED_COULOMB = ("yukawa", "ecsc", "hulthen")
+
+
+def unscreened(pot: Potential) -> Potential | None:
+    """The potential ``pot`` becomes without screening (λ → ∞), against which a line's shift is
+    measured: −Z/r for the screened-Coulomb families, the bare table for a screened table;
+    ``pot`` itself if it has no screening length; None where the limit binds nothing
+    (square well)."""
+    if pot.family in SCREENED_COULOMB:
+        return Potential("coulomb", pot.strength, math.inf, pot.mass)
+    if pot.family == "tabulated" and pot.screened:
+        return Potential("tabulated", pot.strength, math.inf, pot.mass, pot.table, False)
+    if pot.family in ("coulomb", "harmonic") or pot.family == "tabulated":
+        return pot
+    return None
 
 
 def _line(pot, lo, hi, cache, rtol):
