@@ -40,6 +40,9 @@ FIGURE_LIST = [(f"threshold_map_l{l}", "threshold_map.rst", "Threshold maps", f"
 FIGURE_LIST.append(("level_fan", "level_fan.rst", "Level fans", None))
 if HAS_CONDITION_MAP:
     FIGURE_LIST.append(("condition_map", "condition_map.rst", "Physical conditions", None))
+FIGURE_LIST += [(f"line_shift_{line}", "line_shift.rst", "Spectral lines", line) for line in PLAN.lines]
+if PLAN.lines:
+    FIGURE_LIST.append(("line_survival", "line_survival.rst", "Spectral lines", "survival"))
 TABLES = ("critical_screening_lengths.csv", "sweep_config.yaml")
 
 
