@@ -146,3 +146,19 @@ def test_bad_lines_are_one_line_naming_the_key(bad, words):
 def test_n_max_form_lists_every_pair_of_distinct_n():
     plan = sweep.plan({**CONFIG, "grid": {**CONFIG["grid"], "n_r_max": 3}, "lines": {"n_max": 3}})
     assert plan.lines == ("1s-2p", "1s-3p", "2s-3p", "2p-3s", "2p-3d")
+
+
+def test_readable_shows_line_energies_in_the_presets_units(tmp_path):
+    from boundscape.cube import readable
+
+    config = {**CONFIG, "grid": {**CONFIG["grid"], "strength": [1.0]},
+              "preset": {"kind": "plasma", "species": "electrons", "temperature_eV": 20.0}}
+    ds, _ = build(tmp_path, config)
+    shown = readable(ds, "preset")
+    assert shown.line_energy.attrs["units"] == "eV" and shown.line_shift.attrs["units"] == "eV"
+    # 1 hartree = 27.211386... eV (CODATA via scipy.constants)
+    from scipy.constants import physical_constants
+
+    np.testing.assert_allclose(shown.line_energy.values, ds.line_energy.values
+                               * physical_constants["Hartree energy in eV"][0], rtol=1e-14)
+    assert "units" not in shown.oscillator_strength.attrs
