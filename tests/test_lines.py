@@ -10,7 +10,8 @@ import numpy as np
 import pytest
 from scipy import constants
 from scipy.integrate import quad, solve_ivp
-from scipy.special import genlaguerre
+from scipy.optimize import brentq
+from scipy.special import genlaguerre, spherical_jn, spherical_kn
 
 import boundscape as bs
 from test_engine_crosscheck import Shooter, origin_start
@@ -217,3 +218,52 @@ def test_bad_input_is_one_line():
         bs.lines(pot, -1)
     with pytest.raises(bs.InputError, match="n_max"):
         bs.lines(pot, 2.5)
+
+
+class SquareWellLevel:
+    """A bound level of the well −V0 (r < a) in closed form: r·j_l(qr) inside, C·r·k_l(κr)
+    outside (scipy.special spherical Bessel functions), E from the continuity of u'/u at a
+    (scipy.optimize.brentq on the Wronskian), normalised by quad."""
+
+    def __init__(self, V0, a, l, energy):
+        self.a, self.l, self.E = a, l, energy
+        self.q, self.kappa = math.sqrt(2 * (V0 + energy)), math.sqrt(-2 * energy)
+        self.C = spherical_jn(l, self.q * a) / spherical_kn(l, self.kappa * a)
+        self.scale = 1.0
+        self.scale = 1.0 / math.sqrt(self.overlap(self, power=0))
+
+    def __call__(self, r):
+        inside = r * spherical_jn(self.l, self.q * r)
+        return self.scale * (inside if r <= self.a else self.C * r * spherical_kn(self.l, self.kappa * r))
+
+    def overlap(self, other, power=1):
+        f = lambda r: r**power * self(r) * other(r)
+        return (quad(f, 0.0, self.a, epsabs=0.0, epsrel=1e-13, limit=200)[0]
+                + quad(f, self.a, np.inf, epsabs=0.0, epsrel=1e-13, limit=200)[0])
+
+
+def square_well_levels(V0, a, l):
+    def wronskian(E):
+        q, kappa = math.sqrt(2 * (V0 + E)), math.sqrt(-2 * E)
+        return (q * spherical_jn(l, q * a, derivative=True) * spherical_kn(l, kappa * a)
+                - kappa * spherical_kn(l, kappa * a, derivative=True) * spherical_jn(l, q * a))
+
+    grid = np.linspace(-V0 * (1 - 1e-9), -1e-9, 4001)
+    values = [wronskian(E) for E in grid]
+    return [brentq(wronskian, grid[i], grid[i + 1], xtol=1e-15, rtol=1e-15)
+            for i in range(grid.size - 1) if np.sign(values[i]) != np.sign(values[i + 1])]
+
+
+def test_square_well_lines_with_the_exterior_tail_in_closed_form():
+    # the box ends at the well's edge: the part of each level beyond it enters in closed form
+    V0, a = 3.0, 2.0
+    found = bs.lines(bs.potential("square_well", strength=V0, screening_length=a), 3)
+    assert found.labels and all(s == bs.engine.OK for s in found.status)
+    levels = {l: square_well_levels(V0, a, l) for l in range(3)}
+    for i, (lo, up) in enumerate(zip(found.lower, found.upper)):
+        (n1, l1), (n2, l2) = parse(lo), parse(up)
+        ref_lo = SquareWellLevel(V0, a, l1, levels[l1][n1 - l1 - 1])
+        ref_up = SquareWellLevel(V0, a, l2, levels[l2][n2 - l2 - 1])
+        assert abs(found.energy[i] / (ref_up.E - ref_lo.E) - 1) <= 1e-8, (lo, up)
+        radial = abs(ref_lo.overlap(ref_up))
+        assert abs(found.radial_integral[i] / radial - 1) <= 1e-8, (lo, up, found.radial_integral[i], radial)
