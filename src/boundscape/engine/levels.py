@@ -305,24 +305,21 @@ def level_on_grid(pot: Potential, l: int, n_r: int, grid: fd.MappedGrid, energy:
         ∫ f u_a u_b dr over the box with an error series in h⁴, h⁶.
     """
     problem = problem_for(pot, quantum_number(l), quantum_number(n_r, "n_r") + 1)
-    arrays = problem.arrays(grid)  # ``grid`` refined REFINE times: ``grid`` itself is stride REFINE
-    e, status, _, norm, _, uend2, w = _pass(problem, arrays, problem.params(arrays), fd.REFINE, n_r, energy,
-                                            want_u=True)
+    arrays = problem.arrays(grid, refine=1)  # the nodes of ``grid`` only (stride 1)
+    prm = problem.params(arrays)
+    e, status, _, norm, _, uend2, w = _pass(problem, arrays, prm, 1, n_r, energy, want_u=True)
     if status != 0:
         raise ConvergenceError(f"level n_r={n_r}, l={l}: no discrete eigenvalue found on the given grid (status {status})")
     # Newton stops once its step is small, and w is joined at the energy before that step
     # (~1e-9 relative off): a second pass from the converged energy joins w at it.
-    e2, status, _, norm, _, uend2, w = _pass(problem, arrays, problem.params(arrays), fd.REFINE, n_r, e,
-                                             want_u=True)
+    e2, status, _, norm, _, uend2, w = _pass(problem, arrays, prm, 1, n_r, e, want_u=True)
     if status == 0:
         e = e2
     R = grid.r_max
     t0 = problem.pot.exterior(l).tail_moments(e, R)[0] if problem.box_is_closed_exactly(R) else 0.0
-    stride = fd.REFINE
     n = grid.n
-    idx = np.arange(n + 1) * stride
-    r = arrays.r[idx]
-    g = np.sqrt(arrays.g2[idx])
+    r = arrays.r[: n + 1].copy()
+    g = np.sqrt(arrays.g2[: n + 1])
     u = np.sqrt(g) * w[: n + 1]
     scale = math.sqrt(norm + t0 * uend2)
     u = u / scale

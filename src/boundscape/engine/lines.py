@@ -233,7 +233,10 @@ def common_grid(a: fd.MappedGrid, b: fd.MappedGrid, kappa: float = 0.0) -> fd.Ma
         h = min(h, fd.THETA / (kappa * g_end))
     t0 = base.t0
     r_start = min(base.r_min, other.r_min)
-    # r(t) falls at least like e^{t}: step back until the map reaches r_start
+    if r_start < base.r_min:
+        # far below the knee r ≈ β·e^{(1+c)t − c·tc}: jump there, then step back until r(t0) ≤ r_start
+        target = (math.log(r_start / base.beta) + base.c * base.tc) / (1.0 + base.c)
+        t0 -= max(0, math.floor((t0 - target) / h)) * h
     while nv.map_point(base.beta, base.c, base.tc, t0)[0] > r_start * (1 + 1e-12):
         t0 -= h
     n = int(math.ceil((base.t1 - t0) / h - 1e-9))
