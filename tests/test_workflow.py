@@ -34,10 +34,12 @@ TINY = {
     # λ from 0.5 bohr (below the 1s critical length of Z = 1, 0.84 bohr) to 50 bohr.
     "grid": {"strength": [1.0, 2.0], "screening_length": {"start": 0.5, "stop": 50.0, "num": 5, "spacing": "log"},
              "l": [0, 1], "n_r_max": 3},
+    "lines": ["1s-2p", "2s-3p"],
     "tiles": {"cells": 4},
 }
 ARRAYS = ("energy", "energy_error", "mean_radius", "num_bound", "status", "critical_screening_length",
-          "critical_screening_length_flag")
+          "critical_screening_length_flag", "line_energy", "oscillator_strength", "einstein_A", "line_shift",
+          "line_status")
 
 
 def with_changes(**changes):

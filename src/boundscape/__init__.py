@@ -7,7 +7,7 @@ The package is layered (see DEVELOPERS.md): ``engine`` (the radial problem), ``p
 """
 
 from . import engine
-from .engine import FAMILIES, Potential, Resonances, dissolution_screening_length, potential, resonances
+from .engine import FAMILIES, Lines, Potential, Resonances, dissolution_screening_length, lines, potential, resonances
 from .errors import ConvergenceError, InputError
 from .version import VERSION as __version__
 
@@ -22,5 +22,5 @@ def __getattr__(name):
 __all__ = [
     "FAMILIES", "Potential", "potential", "BoundLevels", "bound_levels", "count_bound",
     "critical_screening_length", "critical_strength", "zero_energy_solution", "Resonances", "resonances", "dissolution_screening_length",
-    "InputError", "ConvergenceError", "__version__",
+    "Lines", "lines", "InputError", "ConvergenceError", "__version__",
 ]

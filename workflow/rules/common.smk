@@ -42,6 +42,9 @@ if PLAN.engine.get("resonances"):
     FIGURE_LIST.append(("resonance_fan", "resonance_fan.rst", "Resonance fans", None))
 if HAS_CONDITION_MAP:
     FIGURE_LIST.append(("condition_map", "condition_map.rst", "Physical conditions", None))
+FIGURE_LIST += [(f"line_shift_{line}", "line_shift.rst", "Spectral lines", line) for line in PLAN.lines]
+if PLAN.lines:
+    FIGURE_LIST.append(("line_survival", "line_survival.rst", "Spectral lines", "survival"))
 TABLES = ("critical_screening_lengths.csv", "sweep_config.yaml")
 
 

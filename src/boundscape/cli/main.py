@@ -5,6 +5,7 @@
     boundscape levels   --family yukawa --preset nuclear --reduced-mass 469.459 --coupling 50 \
                         --screening-length 1.4 --length-unit fm
     boundscape convert  ...        (physical conditions <-> engine inputs)
+    boundscape lines    --family yukawa --strength 1 --screening-length 10 --n-max 3
 """
 
 from __future__ import annotations
@@ -16,7 +17,7 @@ import math
 import os
 import sys
 
-from . import convert, resonances
+from . import convert, lines, resonances
 from .options import describe, make_potential, parse_l_values, potential_args, title
 from .readings import engine_strength, reading_of, significant
 from ..engine import FAMILIES, bound_levels, critical_screening_length
@@ -56,6 +57,7 @@ def build_parser() -> argparse.ArgumentParser:
 
     convert.register(sub)
     resonances.register(sub)
+    lines.register(sub)
     return parser
 
 

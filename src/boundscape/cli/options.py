@@ -35,7 +35,7 @@ def parse_l_values(text: str) -> list[int]:
     return sorted(set(out))
 
 
-def potential_args(p: argparse.ArgumentParser, *, levels: bool):
+def potential_args(p: argparse.ArgumentParser, *, levels: bool, l_values: bool = True):
     p.add_argument("--family", required=True, help=f"potential family: {', '.join(sorted(FAMILIES))}")
     p.add_argument("--strength", type=float, default=None,
                    help="required: Z (charge number; for an ion, its nuclear charge); depth in hartree "
@@ -45,7 +45,8 @@ def potential_args(p: argparse.ArgumentParser, *, levels: bool):
                        help="λ in --length-unit, bohr by default (the radius for square_well); "
                             "not used by coulomb and harmonic")
     p.add_argument("--mass", type=float, default=None, help="reduced mass μ in electron masses (default 1)")
-    p.add_argument("--l", default="0", help="angular momenta: 0-3, 0,2,5 or 1 (default 0)")
+    if l_values:
+        p.add_argument("--l", default="0", help="angular momenta: 0-3, 0,2,5 or 1 (default 0)")
     p.add_argument("--table", default=None, help="tabulated family: CSV (r,V in bohr,hartree) or NetCDF with r, V")
     if levels:
         p.add_argument("--screened", action="store_true", help="tabulated family: multiply the table by exp(-r/λ)")

@@ -3,7 +3,7 @@
 The Snakemake rules call these and contain no physics themselves:
 
 * ``plan --config FILE``: print the cells and tiles of a configuration;
-* ``solve-tile --spec JSON --output FILE``: bound levels of one tile;
+* ``solve-tile --spec JSON --output FILE``: bound levels (and configured lines) of one tile;
 * ``criticals --spec JSON --output FILE``: critical screening lengths of one block of strengths;
 * ``collect --config-json JSON --tiles ... --criticals ... --output FILE --summary FILE``:
   merge into the cube and print how many cells were flagged;
@@ -34,13 +34,21 @@ def _solve_tile(args):
     _take_trajectories(args, spec)
     result = solve_tile(spec)
     dims = {**{name: LEVEL_DIMS for name in LEVEL_VARS}, "num_bound": CELL_DIMS, "status": CELL_DIMS}
-    attrs = {"spec_json": json.dumps(spec), "engine_seconds": result["engine_seconds"],
-             "reasons_json": json.dumps(result["reasons"])}
+    attrs = {"spec_json": json.dumps(spec), "reasons_json": json.dumps(result["reasons"])}
     if "resonance_status" in result:
         dims.update(dict.fromkeys(resonance_tiles.RESONANCE_VARS, LEVEL_DIMS))
         attrs.update(resonance_reasons_json=json.dumps(result["resonance_reasons"]),
                      resonance_seconds=result["resonance_seconds"])
-    write_part(args.output, {name: result[name] for name in dims}, dims, attrs)
+    if spec.get("lines"):
+        from ..cube.lines import LINE_DIMS
+        from ..sweep.line_tiles import LINE_VARS, solve_line_tile
+
+        lines = solve_line_tile(spec)
+        dims.update(dict.fromkeys((*LINE_VARS, "line_status"), LINE_DIMS))
+        result.update(lines, engine_seconds=result["engine_seconds"] + lines["engine_seconds"])
+        attrs["line_reasons_json"] = json.dumps(lines["line_reasons"])
+    write_part(args.output, {name: result[name] for name in dims}, dims,
+               {**attrs, "engine_seconds": result["engine_seconds"]})
     cells = int(np.prod(result["status"].shape))
     print(f"tile {args.output}: {cells} cells, {np.count_nonzero(result['status'])} flagged, "
           f"engine {result['engine_seconds']:.3f} s"

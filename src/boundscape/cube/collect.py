@@ -20,6 +20,7 @@ from ..sweep.config import config_text
 from ..sweep.plan import plan as make_plan
 from ..sweep.tiles import CRITICAL_FLAGS
 from ..version import VERSION
+from .lines import add_lines, fill_lines
 from .model import LEVEL_VARS, build_cube
 from .netcdf import open_for_filling, read_part, read_part_variables, write_cube
 from .physical import add_physical_coordinates
@@ -64,6 +65,8 @@ def _fill_levels(plan, tile_paths, names=LEVEL_VARS):
                 index = list(tile.screening_length_index)
                 for name in names:
                     nc.variables[name][s0:s1, index, :, :] = arrays[name]
+                if plan.lines:
+                    fill_lines(nc, plan, tile, path)
         finally:
             nc.close()
 
@@ -153,6 +156,8 @@ def collect(config: dict, tile_paths, critical_paths, output, summary=None) -> s
     ds.attrs["engine_seconds"] = engine_seconds
     if past:
         ds = add_resonances(ds, past_levels, past_dissolution)
+    if plan.lines:
+        ds = add_lines(ds, plan, tile_paths)
     # The physical reading of the axes travels with the cube as extra coordinates.
     ds = add_physical_coordinates(ds, from_config(config.get("preset")))
     write_cube(ds, output, fill=_fill_levels(plan, tile_paths, LEVEL_VARS + (RESONANCE_VARS if past else ())))

@@ -17,7 +17,7 @@ from .physical import preset_of
 
 __all__ = ["readable", "DISPLAY_UNITS"]
 
-_ENERGIES = ("energy", "energy_error", "binding_energy")
+_ENERGIES = ("energy", "energy_error", "binding_energy", "line_energy", "line_shift")
 _LENGTHS = ("screening_length", "mean_radius", "critical_screening_length")
 
 # (energy unit, its size in J, length unit, its size in m) of each reading.

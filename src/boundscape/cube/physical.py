@@ -64,7 +64,7 @@ def add_physical_coordinates(ds, preset, cube_mass=None):
     return out
 
 
-_ENERGIES = ("energy", "energy_error") + past.ENERGY_VARS
+_ENERGIES = ("energy", "energy_error", "line_energy", "line_shift") + past.ENERGY_VARS
 _LENGTHS = ("screening_length", "mean_radius", "critical_screening_length") + past.LENGTH_VARS
 _ATOMIC_ONLY = ("hartree_in_eV", "hartree_in_J", "bohr_in_m")
 

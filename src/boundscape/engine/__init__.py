@@ -1,6 +1,6 @@
 """The radial problem and nothing else: families, the mapped grid and operator, the exterior
-solution, zero-energy counts and critical parameters, bound levels, and what each lost state
-becomes past its threshold (resonances, virtual states).
+solution, zero-energy counts and critical parameters, bound levels, what each lost state
+becomes past its threshold (resonances, virtual states), and the E1 lines between levels.
 
 Imports numpy, scipy and numba only (xarray just to read a NetCDF potential table, when
 asked): no workflow, no plotting, no output files.  The compiled kernels are cached on disk
@@ -11,6 +11,7 @@ import importlib
 
 from .families import FAMILIES, Family, family_info
 from .potential import Potential, potential, potential_from_spec
+from .lines import Lines, lines  # the function shadows its module's name: import it, not lazily
 from .resonances import (Resonances, dissolution_screening_length, load_trajectory_records, resonances,
                          shares_trajectories, trajectory_records)
 from .status import DISSOLVED, INPUT_REJECTED, LEVEL_STATUS, NOT_CONVERGED, OK, RESONANCE_STATUS
@@ -35,7 +36,7 @@ __all__ = [
     "FAMILIES", "Family", "family_info", "Potential", "potential", "potential_from_spec", "Table", "load_table",
     "BoundLevels", "bound_levels", "count_bound", "zero_energy_solution",
     "critical_screening_length", "critical_strength",
-    "Resonances", "resonances", "dissolution_screening_length",
+    "Resonances", "resonances", "dissolution_screening_length", "Lines", "lines",
     "shares_trajectories", "trajectory_records", "load_trajectory_records",
     "LEVEL_STATUS", "OK", "NOT_CONVERGED", "INPUT_REJECTED", "RESONANCE_STATUS", "DISSOLVED",
 ]

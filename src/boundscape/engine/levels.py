@@ -40,7 +40,7 @@ compiled = lazy_module("cell")
 nv = lazy_module("numerov")
 _potentials = lazy_module("compiled_potentials")
 
-__all__ = ["BoundLevels", "bound_levels", "LevelSolution", "solve_level", "level_on_grid",
+__all__ = ["BoundLevels", "bound_levels", "LevelSolution", "solve_level", "level_solutions", "level_on_grid",
            "DEFAULT_LEVELS", "RTOL"]
 
 DEFAULT_LEVELS = 20  # levels returned for potentials that bind infinitely many
@@ -265,6 +265,19 @@ def solve_level(pot: Potential, l: int, n_r: int, rtol: float = RTOL, wavefuncti
     return lv
 
 
+def level_solutions(pot: Potential, l: int, keep: int, rtol: float = RTOL) -> list:
+    """The lowest ``keep`` levels of ``l`` that are bound (fewer if fewer are), each a
+    :class:`LevelSolution` with its grids, as :func:`bound_levels` solves them."""
+    l = quantum_number(l)
+    keep = quantum_number(keep, "keep")
+    if keep == 0:
+        return []
+    wanted = max(keep, DEFAULT_LEVELS) if pot.tail != "short" else keep
+    cell = compiled_cell(pot, l, wanted, rtol)
+    _, solved = cell if cell is not None else _python_cell(pot, l, wanted, rtol, False)
+    return solved[:keep]
+
+
 def level_on_grid(pot: Potential, l: int, n_r: int, grid: fd.MappedGrid, energy: float):
     """The discrete eigenpair of level (n_r, l) on a grid of your choice, for matrix elements
     between levels on one common grid (then Richardson-extrapolated over ``grid.refined(f)``,
@@ -292,18 +305,21 @@ def level_on_grid(pot: Potential, l: int, n_r: int, grid: fd.MappedGrid, energy:
         ∫ f u_a u_b dr over the box with an error series in h⁴, h⁶.
     """
     problem = problem_for(pot, quantum_number(l), quantum_number(n_r, "n_r") + 1)
-    arrays = problem.arrays(grid)  # ``grid`` refined REFINE times: ``grid`` itself is stride REFINE
-    e, status, _, norm, _, uend2, w = _pass(problem, arrays, problem.params(arrays), fd.REFINE, n_r, energy,
-                                            want_u=True)
+    arrays = problem.arrays(grid, refine=1)  # the nodes of ``grid`` only (stride 1)
+    prm = problem.params(arrays)
+    e, status, _, norm, _, uend2, w = _pass(problem, arrays, prm, 1, n_r, energy, want_u=True)
     if status != 0:
         raise ConvergenceError(f"level n_r={n_r}, l={l}: no discrete eigenvalue found on the given grid (status {status})")
+    # Newton stops once its step is small, and w is joined at the energy before that step
+    # (~1e-9 relative off): a second pass from the converged energy joins w at it.
+    e2, status, _, norm, _, uend2, w = _pass(problem, arrays, prm, 1, n_r, e, want_u=True)
+    if status == 0:
+        e = e2
     R = grid.r_max
     t0 = problem.pot.exterior(l).tail_moments(e, R)[0] if problem.box_is_closed_exactly(R) else 0.0
-    stride = fd.REFINE
     n = grid.n
-    idx = np.arange(n + 1) * stride
-    r = arrays.r[idx]
-    g = np.sqrt(arrays.g2[idx])
+    r = arrays.r[: n + 1].copy()
+    g = np.sqrt(arrays.g2[: n + 1])
     u = np.sqrt(g) * w[: n + 1]
     scale = math.sqrt(norm + t0 * uend2)
     u = u / scale

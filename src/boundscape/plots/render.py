@@ -9,8 +9,9 @@ import matplotlib
 from ..cube.physical import preset_of
 from .conditions import condition_map
 from .level_fan import level_fan
-from .resonance_fan import resonance_fan
+from .line_maps import line_shift_map, line_survival_chart
 from .loss_table import write_critical_csv
+from .resonance_fan import resonance_fan
 from .style import RC, save
 from .threshold_map import threshold_map
 
@@ -31,6 +32,10 @@ def render_all(ds, outdir):
         fig, _ = condition_map(ds, preset, settings)
         if fig is not None:
             written += save(fig, outdir / "condition_map")
+        if "line_energy" in ds:
+            for m, label in enumerate(ds["line_label"].values):
+                written += save(line_shift_map(ds, m, preset)[0], outdir / f"line_shift_{label}")
+            written += save(line_survival_chart(ds, preset)[0], outdir / "line_survival")
     write_critical_csv(ds, outdir / "critical_screening_lengths.csv", preset)
     # The configuration the cube was computed from, as stored in it, for the report.
     config = outdir / "sweep_config.yaml"

@@ -18,6 +18,7 @@ import yaml
 from ..engine import FAMILIES, load_table
 from ..errors import InputError
 from ..physics.presets import Nuclear, Plasma, Semiconductor, from_config
+from .lines import check_lines
 
 __all__ = ["SCHEMA_PATH", "load_config", "schema_error", "validate_config", "config_text", "axis_values",
            "DEFAULT_CELLS_PER_TILE"]
@@ -116,6 +117,7 @@ def validate_config(config: dict) -> dict:
             raise InputError(f"config key grid.{name}: values must be finite")
         if np.unique(values).size != values.size:
             raise InputError(f"config key grid.{name}: repeated values")
+    check_lines(config)
     return config
 
 

@@ -17,6 +17,7 @@ from ..engine import FAMILIES
 from ..physics.presets import from_config
 from ..version import VERSION
 from .config import axis_values, validate_config
+from .lines import label_of, line_pairs
 
 __all__ = ["Plan", "Tile", "plan"]
 
@@ -52,6 +53,7 @@ class Plan:
     n_r_max: int
     tiles: tuple[Tile, ...]
     critical_blocks: tuple[Tile, ...]
+    lines: tuple[str, ...] = ()  # the configured E1 lines, e.g. "1s-2p" (lower n first)
 
     @property
     def num_cells(self) -> int:
@@ -59,15 +61,19 @@ class Plan:
 
     def tile_spec(self, tile: Tile) -> dict:
         """Everything a tile job needs, and nothing else: its params."""
-        return {**self.engine, "n_r_max": self.n_r_max, "strength": list(tile.strength),
+        spec = {**self.engine, "n_r_max": self.n_r_max, "strength": list(tile.strength),
                 "screening_length": list(tile.screening_length), "l": [int(v) for v in self.l],
                 "strength_slice": list(tile.strength_slice),
                 "screening_length_index": list(tile.screening_length_index)}
+        if self.lines:
+            spec["lines"] = list(self.lines)
+        return spec
 
     def critical_spec(self, block: Tile) -> dict:
         spec = self.tile_spec(block)
         # Critical lengths do not depend on the λ grid; only its ends decide the flags in collect.
         spec.pop("screening_length"), spec.pop("screening_length_index")
+        spec.pop("lines", None)
         return spec
 
 
@@ -124,4 +130,4 @@ def plan(config: dict) -> Plan:
     if config["resonances"]:  # only when on, so that a sweep without them keeps its tiles' params
         engine["resonances"] = True
     return Plan(config["sweep"], engine, strength, screening_length, l_values, n_r_max,
-                tuple(tiles), critical_blocks)
+                tuple(tiles), critical_blocks, tuple(label_of(p) for p in line_pairs(config.get("lines"))))
