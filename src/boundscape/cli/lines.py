@@ -14,8 +14,7 @@ import json
 from ..engine import lines
 from ..errors import InputError
 from ..physics.units import HARTREE_EV
-from .options import describe, make_potential, potential_args, title
-from .readings import engine_strength, reading_of
+from .options import atomic_potential, describe, potential_args, title
 
 __all__ = ["register", "run"]
 
@@ -46,14 +45,7 @@ def run(args) -> int:
         raise InputError(f"--n-max must be at least 2 (a line joins two levels), got {args.n_max}")
     if args.l_max is not None and args.l_max < 1:
         raise InputError(f"--l-max must be at least 1 (a line joins l and l + 1), got {args.l_max}")
-    reading = reading_of(args)
-    if reading.preset is not None or reading.energy_unit != "hartree":
-        # The JSON shape scripts rely on is in hartree and bohr; a preset's units would need their own keys.
-        raise InputError("lines prints atomic units (hartree, bohr): leave out --preset, and give "
-                         "--screening-length in bohr or with --length-unit")
-    strength, strength_text = engine_strength(args, reading)
-    lam = None if args.screening_length is None else reading.engine_length(args.screening_length, args.length_unit)
-    pot = make_potential(args, strength, lam)
+    pot, reading, strength_text = atomic_potential(args, "lines")
     found = lines(pot, args.n_max, l_max=args.l_max)
     rows = found.rows()
     if args.format == "json":

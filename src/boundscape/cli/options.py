@@ -9,7 +9,7 @@ import math
 from ..engine import FAMILIES, potential_from_spec
 from ..errors import InputError
 from ..labels import FAMILY_NAMES
-from .readings import add_preset_arguments, significant
+from .readings import add_preset_arguments, engine_strength, reading_of, significant
 
 __all__ = ["parse_l_values", "potential_args", "make_potential", "describe", "title"]
 
@@ -81,3 +81,15 @@ def title(pot, reading, strength_text, with_length=True):
         lam = f", λ = {shown:.10g} {reading.length_unit}"
     mass = f", mass {pot.mass:g} m_e" if reading.preset is None else ""
     return f"{FAMILY_NAMES.get(pot.family, pot.family)}, {strength_text}{lam}{mass} ({reading.description})"
+
+
+def atomic_potential(args, command: str):
+    """(potential, reading, strength text) of a command that prints atomic units only (its JSON keys
+    say hartree and bohr); a preset, or energies in a trade's unit, is refused in one line."""
+    reading = reading_of(args)
+    if reading.preset is not None or reading.energy_unit != "hartree":
+        raise InputError(f"{command} prints atomic units (hartree, bohr): leave out --preset, and give "
+                         "--screening-length in bohr or with --length-unit")
+    strength, strength_text = engine_strength(args, reading)
+    lam = None if args.screening_length is None else reading.engine_length(args.screening_length, args.length_unit)
+    return make_potential(args, strength, lam), reading, strength_text

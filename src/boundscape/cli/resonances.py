@@ -16,8 +16,7 @@ from ..engine import RESONANCE_STATUS, resonances
 from ..errors import InputError
 from ..labels import orbital_letter
 from ..physics.units import HARTREE_EV
-from .options import describe, make_potential, parse_l_values, potential_args, title
-from .readings import engine_strength, reading_of
+from .options import atomic_potential, describe, parse_l_values, potential_args, title
 
 __all__ = ["register", "run"]
 
@@ -46,14 +45,7 @@ def run(args) -> int:
     ls = parse_l_values(args.l)
     if args.n_max is not None and args.n_max < 1:
         raise InputError(f"--n-max must be at least 1, got {args.n_max}")
-    reading = reading_of(args)
-    if reading.preset is not None or reading.energy_unit != "hartree":
-        # The JSON shape scripts rely on is in hartree and bohr; a preset's units would need their own keys.
-        raise InputError("resonances prints atomic units (hartree, bohr): leave out --preset, and give "
-                         "--screening-length in bohr or with --length-unit")
-    strength, strength_text = engine_strength(args, reading)
-    lam = None if args.screening_length is None else reading.engine_length(args.screening_length, args.length_unit)
-    pot = make_potential(args, strength, lam)
+    pot, reading, strength_text = atomic_potential(args, "resonances")
     rows, counts = [], {}
     for l in ls:
         n_r_max = None if args.n_max is None else max(args.n_max - l, 0)
