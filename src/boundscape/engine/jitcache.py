@@ -1,9 +1,9 @@
-"""Where the compiled kernels are cached, and their compilation ahead of a sweep.
+"""Where the compiled kernels are cached.
 
 numba's on-disk cache (``cache=True``) checks only the source file of each function, not the
 files of the functions it calls, so a kernel edited in one module could be served stale from
-another.  The kernels are therefore cached in a directory named by a hash of all their sources
-and of the numba version: any change gives a fresh directory.  It lies under
+another.  The kernels are therefore cached in a directory named by a hash of every source file
+of the engine and of the numba version: any change gives a fresh directory.  It lies under
 ``$NUMBA_CACHE_DIR`` if set, else the user's cache directory (``$XDG_CACHE_HOME`` or
 ``~/.cache``), so that it is writable for a non-editable install and shared by the parallel
 jobs of a sweep on one machine or one shared home.
@@ -18,10 +18,7 @@ import os
 from functools import lru_cache
 from pathlib import Path
 
-__all__ = ["KERNEL_MODULES", "kernel_cache_dir", "enter", "leave", "load_kernels", "lazy_module"]
-
-KERNEL_MODULES = ("numerov", "compiled_potentials", "cell")
-
+__all__ = ["kernel_cache_dir", "enter", "leave"]
 
 @lru_cache(maxsize=1)
 def kernel_cache_dir() -> Path:
@@ -30,8 +27,9 @@ def kernel_cache_dir() -> Path:
 
     here = Path(__file__).parent
     digest = hashlib.sha256(numba.__version__.encode())
-    for name in KERNEL_MODULES:
-        digest.update((here / f"{name}.py").read_bytes())
+    for path in sorted(here.rglob("*.py")):
+        digest.update(str(path.relative_to(here)).encode())
+        digest.update(path.read_bytes())
     base = os.environ.get("NUMBA_CACHE_DIR") or os.path.join(
         os.environ.get("XDG_CACHE_HOME") or os.path.join(os.path.expanduser("~"), ".cache"), "boundscape")
     return Path(base) / f"kernels-{digest.hexdigest()[:16]}"
@@ -52,36 +50,3 @@ def leave(saved):
     from numba.core import config
 
     config.CACHE_DIR = saved
-
-
-def load_kernels():
-    """Import the kernel modules (compiled lazily on first use, or loaded from the cache)."""
-    import importlib
-
-    package = __name__.rpartition(".")[0]
-    for name in KERNEL_MODULES:
-        importlib.import_module(f"{package}.{name}")
-
-
-class _LazyModule:
-    """A kernel module imported on its first attribute access."""
-
-    def __init__(self, name: str):
-        self._name = name
-        self._module = None
-
-    def __getattr__(self, attr):
-        if self._module is None:
-            import importlib
-
-            self._module = importlib.import_module(f"{__name__.rpartition('.')[0]}.{self._name}")
-        return getattr(self._module, attr)
-
-
-def lazy_module(name: str):
-    """The kernel module ``name`` (one of KERNEL_MODULES), imported when first used: importing
-    the engine's Python modules then loads neither numba nor the kernels (~90 MB), which a step
-    that only reads cubes (collect, figures) does not need."""
-    if name not in KERNEL_MODULES:
-        raise ValueError(f"{name!r} is not a kernel module")
-    return _LazyModule(name)

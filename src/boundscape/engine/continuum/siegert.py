@@ -34,13 +34,13 @@ from dataclasses import dataclass, field
 import numpy as np
 from scipy.optimize import brentq
 
-from ..errors import ConvergenceError
-from .effective import origin_radius
+from ...errors import ConvergenceError
+from ..bound.mapping import origin_radius
+from ..richardson import extrapolate
 from .outgoing import CUT_TOLERANCE, analytic_potential, exterior_cut, is_compact, outgoing_log_derivative
-from .potential import Potential
-from .propagation import RadialMap, Segment, chain, chain_inward, richardson, running, step_matrices
+from .propagation import RadialMap, Segment, chain, chain_inward, running, step_matrices
 
-__all__ = ["Channel", "Path", "FACTORS", "RAY_ANGLE", "NARROW_GROWTH", "MAX_CUT_ERROR"]
+__all__ = ["Channel", "Contour", "FACTORS", "RAY_ANGLE", "NARROW_GROWTH", "MAX_CUT_ERROR"]
 
 ALPHA = 0.5  # the map's logarithmic weight: thin near the origin, where u ~ r^{l+1} does not oscillate
 STEP = 0.4  # coarse step in x; a step spans at most ~STEP radians of the local phase
@@ -58,7 +58,7 @@ SAMPLES = 400  # of the potential along a path, to place the cut, the well and t
 
 
 @dataclass
-class Path:
+class Contour:
     """One path for one coupling: inner segments from the origin to r_m, an outer segment from
     r_m to the exterior cut (carried inwards), and the map that grids them."""
 
@@ -167,7 +167,7 @@ class Channel:
         How small the neglected tail must be (:func:`.outgoing.exterior_cut`).
     """
 
-    def __init__(self, pot: Potential, l: int, *, angle: float | None = None, matching_radius: float | None = None,
+    def __init__(self, pot, l: int, *, angle: float | None = None, matching_radius: float | None = None,
                  tail_tolerance: float = CUT_TOLERANCE):
         self.pot, self.l, self.mass = pot, l, pot.mass
         self.centrifugal = float(l * (l + 1))
@@ -206,7 +206,7 @@ class Channel:
         return Segment(a, b, n, angle)
 
     # --- paths -----------------------------------------------------------------------------
-    def zero_path(self, g: float) -> Path:
+    def zero_path(self, g: float) -> Contour:
         """The E = 0 path: the origin to where gV is negligible against the centrifugal term."""
         r0 = self.r_origin / max(g, 1.0)
         if self.compact:
@@ -217,7 +217,7 @@ class Channel:
             j, _, _ = exterior_cut(np.abs(g * v), t, t, self.mass, 0.0, 0.0, tolerance=self.tail_tolerance)
             R = float(t[j if j is not None else -1])
         rmap = self._map(g, 0.0, [(t[t <= R], v[t <= R])])
-        return Path(self, g, rmap, [self._segment(rmap, r0, R)], None, R, R, 1.0)
+        return Contour(self, g, rmap, [self._segment(rmap, r0, R)], None, R, R, 1.0)
 
     def well_bottom(self, g: float) -> float | None:
         """The radius of the lowest local minimum of gV + l(l+1)/2μr² (the matching radius for
@@ -230,7 +230,7 @@ class Channel:
             return None
         return float(t[inner[np.argmin(v_eff[inner])]])
 
-    def pole_path(self, g: float, k: complex) -> Path:
+    def pole_path(self, g: float, k: complex) -> Contour:
         """A path for poles near momentum k at coupling g.
 
         Raises ``ValueError`` if no exterior reaches k (the reason in the message)."""
@@ -240,7 +240,7 @@ class Channel:
         if self.compact:
             t, v = self._real_sample(g, self.support)
             rmap = self._map(g, k, [(t, v)])
-            return Path(self, g, rmap, [self._segment(rmap, r0, self.support)], None, self.support, self.support, 1.0)
+            return Contour(self, g, rmap, [self._segment(rmap, r0, self.support)], None, self.support, self.support, 1.0)
         if l == 0:
             # no barrier: carry the regular solution to the cut; the outgoing wave grows past the
             # well like e^{|κ|r} for a virtual state, which the amplification measures
@@ -258,7 +258,7 @@ class Channel:
                                  f"relative error {cut_error:.1e} (the wave grows by {growth:.1e} across it)")
             R = float(t[j])
             rmap = self._map(g, k, [(t[: j + 1], v[: j + 1])])
-            return Path(self, g, rmap, [self._segment(rmap, r0, R)], None, R, R, growth, cut_error)
+            return Contour(self, g, rmap, [self._segment(rmap, r0, R)], None, R, R, growth, cut_error)
         r_m = self.matching_radius if self.matching_radius is not None else self.well_bottom(g)
         if r_m is None:
             raise ValueError("the effective potential has no well left to hold the state")
@@ -289,7 +289,7 @@ class Channel:
             raise ValueError("the pole is too far from the real axis for an exterior this long")
         rmap = self._map(g, k, [(t_in, v_in), samples])
         turn = cmath.exp(1j * angle)
-        return Path(self, g, rmap, [self._segment(rmap, r0, r_m)], self._segment(rmap, r_m, t_end, angle), r_m,
+        return Contour(self, g, rmap, [self._segment(rmap, r0, r_m)], self._segment(rmap, r_m, t_end, angle), r_m,
                     r_m + (t_end - r_m) * turn, growth, cut_error)
 
     def _outer_on(self, g, k, r_m, t_hi, angle):
@@ -346,7 +346,7 @@ class Channel:
 
         def amplitude(g):
             path.g = g  # one fixed grid, so that A(g) is smooth for brentq
-            return richardson([path.amplitude(f) for f in THRESHOLD_FACTORS], THRESHOLD_FACTORS)[0].real
+            return extrapolate([path.amplitude(f) for f in THRESHOLD_FACTORS], THRESHOLD_FACTORS)[0].real
 
         a_lo, a_hi = amplitude(lo), amplitude(hi)
         if a_lo == 0.0:

@@ -1,4 +1,4 @@
-"""A tabulated V(r): read, checked and interpolated.
+"""A tabulated V(r): read and checked.
 
 The table is the engine's own input, so it is read here (CSV through the csv module; NetCDF through
 xarray, imported only when a NetCDF table is read); the engine writes no files.
@@ -11,14 +11,16 @@ from pathlib import Path
 
 import numpy as np
 
-from ..errors import InputError
+from ...errors import InputError
 
 __all__ = ["Table", "load_table", "validate_table"]
 
 
 @dataclass(frozen=True, eq=False)  # hashed by identity: the critical-length cache keys on it
 class Table:
-    """A tabulated V(r), interpolated by a cubic spline in r·V(r) (smooth where V ~ 1/r)."""
+    """A tabulated V(r) (bohr, hartree), read and checked; the engine interpolates it by a cubic
+    spline in r·V(r) (smooth where V ~ 1/r), whose breakpoints and coefficients are ``spline``
+    (scipy's CubicSpline, evaluated by the family's formula, :mod:`.tabulated`)."""
 
     r: np.ndarray
     v: np.ndarray
@@ -28,17 +30,9 @@ class Table:
     def __post_init__(self):
         from scipy.interpolate import CubicSpline
 
-        object.__setattr__(self, "_spline", CubicSpline(self.r, self.r * self.v))
-
-    def __call__(self, r):
-        r = np.asarray(r, dtype=float)
-        inside = r <= self.r[-1]
-        out = np.empty_like(r)
-        ri = np.maximum(r[inside], self.r[0])
-        # Below the first point r·V is held at its first value: V ~ c/r at the origin.
-        out[inside] = self._spline(ri) / r[inside]
-        out[~inside] = -self.coulomb_charge / r[~inside]
-        return out
+        spline = CubicSpline(self.r, self.r * self.v)
+        object.__setattr__(self, "spline", (np.ascontiguousarray(spline.x, dtype=float),
+                                            np.ascontiguousarray(spline.c, dtype=float)))
 
 
 def load_table(path, *, coulomb_tail: float | None = None) -> Table:

@@ -7,10 +7,10 @@ with both levels re-solved on one common grid (:func:`.levels.level_on_grid`): t
 of the level with the larger box, its step the finer of the two levels' design steps (and no
 more than θ of the deeper level's decay far out), its inner end the smaller of their two
 origin radii.  Simpson sums on that grid refined f = 1, 2,
-4 times are Richardson-extrapolated in h⁴, h⁶ (:func:`.grid.richardson`), as the energies are.
+4 times are Richardson-extrapolated in h⁴, h⁶ (:mod:`.richardson`), as the energies are.
 Where the box ends at the potential's range, the part beyond it is added in closed form:
 both levels are u(R)·√(r/R)·K_{l+½}(κr)/K_{l+½}(κR) there (A&S 10.2), integrated by
-Gauss–Laguerre, or by quad close to threshold where the tail is long.
+:func:`.potentials.exterior.tail_integrals`.
 
 With l the lower level's angular momentum, l′ the upper's, ΔE > 0 and μ the mass
 (atomic units; μ = 1 gives the textbook form):
@@ -29,7 +29,7 @@ References
 ----------
 H. A. Bethe and E. E. Salpeter, *Quantum Mechanics of One- and Two-Electron Atoms*
 (Springer, 1957).
-M. Abramowitz and I. A. Stegun, *Handbook of Mathematical Functions* (1964), §10.2, §25.4.45.
+M. Abramowitz and I. A. Stegun, *Handbook of Mathematical Functions* (1964), §10.2.
 """
 
 from __future__ import annotations
@@ -39,28 +39,23 @@ from dataclasses import dataclass, field
 
 import numpy as np
 from scipy import constants
-from scipy.special import kve, roots_laguerre
 
 from ..checks import quantum_number
 from ..labels import state_label
-from . import grid as fd
-from .jitcache import lazy_module
-from .levels import level_on_grid, level_solutions
-from .potential import Potential
-from .problem import RadialProblem
+from .bound.levels import level_on_grid, level_solutions
+from .bound.mapping import THETA, MappedGrid, map_point
+from .potentials.exterior import GAUSS_NODES, GAUSS_WEIGHTS, TAIL_PANELS, tail_integrals
+from .richardson import FACTORS, extrapolate
 from .status import LEVEL_STATUS, NOT_CONVERGED, OK
 
-nv = lazy_module("numerov")
-
-__all__ = ["Lines", "lines", "unscreened", "einstein_A", "oscillator_strength", "wavelength_nm", "RTOL",
+__all__ = ["Lines", "lines", "einstein_A", "oscillator_strength", "wavelength_nm", "common_grid", "RTOL",
            "DEGENERATE"]
 
 RTOL = 1e-9  # relative tolerance on each radial integral
 DEGENERATE = 100.0  # a Δn = 0 line needs ΔE above this many times the levels' error estimates
 ATOMIC_TIME_S = constants.hbar / constants.physical_constants["Hartree energy"][0]
 ALPHA = constants.fine_structure
-_LAGUERRE = roots_laguerre(48)
-REFINEMENTS = fd.FACTORS  # the common grid refined f = 1, 2, 4 times
+REFINEMENTS = FACTORS  # the common grid refined f = 1, 2, 4 times
 
 
 @dataclass
@@ -117,7 +112,7 @@ def wavelength_nm(delta_e):
         return constants.h * constants.c / joules * 1e9
 
 
-def lines(pot: Potential, n_max: int, l_max: int | None = None, pairs=None, rtol: float = RTOL) -> Lines:
+def lines(pot, n_max: int, l_max: int | None = None, pairs=None, rtol: float = RTOL) -> Lines:
     """Every E1 line (Δl = ±1) between bound levels with n ≤ ``n_max`` (n = n_r + l + 1).
 
     Parameters
@@ -173,24 +168,6 @@ def lines(pot: Potential, n_max: int, l_max: int | None = None, pairs=None, rtol
         status=np.array([r[3] for r in rows], dtype=np.int8), reason=[r[4] for r in rows])
 
 
-# Families whose λ → ∞ limit is the Coulomb potential −Z/r (V·r → −Z as r/λ → 0).
-SCREENED_COULOMB = ("yukawa", "ecsc", "hulthen")
-
-
-def unscreened(pot: Potential) -> Potential | None:
-    """The potential ``pot`` becomes without screening (λ → ∞), against which a line's shift is
-    measured: −Z/r for the screened-Coulomb families, the bare table for a screened table;
-    ``pot`` itself if it has no screening length; None where the limit binds nothing
-    (square well)."""
-    if pot.family in SCREENED_COULOMB:
-        return Potential("coulomb", pot.strength, math.inf, pot.mass)
-    if pot.family == "tabulated" and pot.screened:
-        return Potential("tabulated", pot.strength, math.inf, pot.mass, pot.table, False)
-    if pot.family in ("coulomb", "harmonic") or pot.family == "tabulated":
-        return pot
-    return None
-
-
 def _line(pot, lo, hi, cache, rtol):
     """(ΔE, |R|, error of R, status, reason) of one line."""
     de = hi.energy - lo.energy
@@ -203,7 +180,8 @@ def _line(pot, lo, hi, cache, rtol):
         inside = float(np.sum(wa * ra * ua * ub))
         tail = _tail_overlap(pot, lo.l, hi.l, ea, eb, g.r_max) * ua[-1] * ub[-1] if ta else 0.0
         values.append(inside + tail)
-    best, err = fd.richardson(values)
+    best, err = extrapolate(values)
+    err = abs(err)
     status, reason = OK, ""
     if lo.status != OK or hi.status != OK:
         status, reason = NOT_CONVERGED, "a level of the line is not converged"
@@ -216,55 +194,39 @@ def _on_grid(pot, lv, grid, cache):
     key = (lv.l, lv.n_r, grid)
     if key not in cache:
         e, r, u, w = level_on_grid(pot, lv.l, lv.n_r, grid, lv.energy)
-        closed = RadialProblem(pot, lv.l, grid.r_max).box_is_closed_exactly(grid.r_max)
+        closed = pot.reaches_support(grid.r_max)
         cache[key] = (r, u, w, e, closed)
     return cache[key]
 
 
-def common_grid(a: fd.MappedGrid, b: fd.MappedGrid, kappa: float = 0.0) -> fd.MappedGrid:
+def common_grid(a: MappedGrid, b: MappedGrid, kappa: float = 0.0) -> MappedGrid:
     """One grid for two levels: the map and box of the one with the larger box, its start moved
     down to the smaller of their two inner ends, and the finer of their two steps — finer still
     where the deeper level (decay constant ``kappa``) would decay by more than THETA per step at
     the box's end, where the larger box's map is coarsest."""
     base, other = (a, b) if (a.r_max, -a.h) >= (b.r_max, -b.h) else (b, a)
     h = min(base.h, other.h)
-    g_end = nv.map_point(base.beta, base.c, base.tc, base.t1)[1]
+    g_end = map_point(base.beta, base.c, base.tc, base.t1)[1]
     if kappa > 0:
-        h = min(h, fd.THETA / (kappa * g_end))
+        h = min(h, THETA / (kappa * g_end))
     t0 = base.t0
     r_start = min(base.r_min, other.r_min)
     if r_start < base.r_min:
         # far below the knee r ≈ β·e^{(1+c)t − c·tc}: jump there, then step back until r(t0) ≤ r_start
         target = (math.log(r_start / base.beta) + base.c * base.tc) / (1.0 + base.c)
         t0 -= max(0, math.floor((t0 - target) / h)) * h
-    while nv.map_point(base.beta, base.c, base.tc, t0)[0] > r_start * (1 + 1e-12):
+    while map_point(base.beta, base.c, base.tc, t0)[0] > r_start * (1 + 1e-12):
         t0 -= h
     n = int(math.ceil((base.t1 - t0) / h - 1e-9))
     n += n % 2
-    r0 = float(nv.map_point(base.beta, base.c, base.tc, t0)[0])
-    return fd.MappedGrid(r0, base.r_max, base.beta, base.c, base.tc, t0, base.t1, n)
+    r0 = float(map_point(base.beta, base.c, base.tc, t0)[0])
+    return MappedGrid(r0, base.r_max, base.beta, base.c, base.tc, t0, base.t1, n)
 
 
 def _tail_overlap(pot, l_a, l_b, e_a, e_b, R):
-    """∫_R^∞ r·φ_a φ_b dr with φ = √(r/R)·K_{l+½}(κr)/K_{l+½}(κR), the short-range exterior of
-    each level scaled to 1 at R (zero for the Coulomb and oscillator tails, whose boxes reach
-    past any part that counts)."""
+    """∫_R^∞ r·φ_a φ_b dr with φ = u/u(R) the short-range exterior of each level (zero for the
+    Coulomb and oscillator tails, whose boxes reach past any part that counts)."""
     if pot.tail != "short" or e_a >= 0 or e_b >= 0:
         return 0.0
-    ka, kb = (math.sqrt(2.0 * pot.mass * -e) for e in (e_a, e_b))
-    na, nb = l_a + 0.5, l_b + 0.5
-    k = ka + kb
-    ea0, eb0 = kve(na, ka * R), kve(nb, kb * R)
-
-    def shape(r):  # φ_a φ_b e^{k(r−R)}, finite for any r
-        return (r / R) * kve(na, ka * r) / ea0 * kve(nb, kb * r) / eb0
-
-    if min(ka, kb) * R >= 4.0:
-        s, w = _LAGUERRE
-        r = R + s / k
-        return float(w @ (r * shape(r))) / k
-    from scipy.integrate import quad
-
-    value, _ = quad(lambda t: (R + t / k) * shape(R + t / k) * math.exp(-t), 0.0, np.inf, limit=200,
-                    epsabs=0.0, epsrel=1e-12)
-    return value / k
+    return tail_integrals(int(l_a), int(l_b), float(pot.mass), float(e_a), float(e_b), float(R), GAUSS_NODES,
+                          GAUSS_WEIGHTS, TAIL_PANELS)[1]

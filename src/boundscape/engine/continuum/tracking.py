@@ -29,7 +29,7 @@ from dataclasses import dataclass, field
 import numpy as np
 from scipy.optimize import brentq
 
-from .propagation import richardson
+from ..richardson import extrapolate
 from .siegert import FACTORS, Channel
 
 __all__ = ["Trajectory", "trace", "refine", "FIRST_STEP", "LOWEST_COUPLING"]
@@ -348,7 +348,7 @@ def refine(channel: Channel, g: float, guess, distance: float, coarse_shift: flo
                 # the first solve designs the path; the finer ones keep it, so that only h changes
                 current, path = solve(channel, g, current, factor=f, path=path, scale=scale)
                 values[f] = current
-        best, err = richardson([values[f] for f in factors], factors)
+        best, err = extrapolate([values[f] for f in factors], factors)
         if abs(err) <= tolerance * abs(best) or base >= 32:
             return (best.real if channel.l == 0 else best), (abs(err) if channel.l == 0 else err), path
         base *= 2

@@ -19,7 +19,7 @@ Blanes, Casas, Oteo & Ros 2009, eq. (253)) is
 every step at once (no Python loop over steps), exact where Q is constant, and of determinant
 one, so a step back is the adjugate.  The method is symmetric, so its global error is an even
 series h⁴, h⁶, … (Hairer, Lubich & Wanner, *Geometric Numerical Integration*, 2nd ed., II.3),
-which :func:`richardson` removes.  The steps' product is formed by pairwise multiplication,
+which Richardson extrapolation (:mod:`..richardson`) removes.  The steps' product is formed by pairwise multiplication,
 log₂(n) array operations.
 
 References
@@ -37,8 +37,7 @@ from dataclasses import dataclass
 
 import numpy as np
 
-__all__ = ["RadialMap", "Segment", "step_matrices", "chain", "chain_inward", "running", "richardson",
-           "MAGNUS_ORDER"]
+__all__ = ["RadialMap", "Segment", "step_matrices", "chain", "chain_inward", "running", "MAGNUS_ORDER"]
 
 MAGNUS_ORDER = 4
 GAUSS = np.array([0.5 - math.sqrt(3.0) / 6.0, 0.5 + math.sqrt(3.0) / 6.0])
@@ -146,29 +145,3 @@ def running(m: np.ndarray, y0) -> np.ndarray:
         p[shift:] = p[shift:] @ p[:-shift]
         shift *= 2
     return p @ np.asarray(y0, dtype=complex)
-
-
-def richardson(values, factors=(2, 4, 8), order: int = MAGNUS_ORDER):
-    """Extrapolate values computed with steps h/f (f in ``factors``, a geometric sequence) to
-    h → 0, the error an even series starting at h^order; returns (value, error estimate), the
-    estimate complex like the value (its real and imaginary parts estimate theirs).
-
-    Each level removes the leading power: h^order, then h^(order+2), … (Richardson's deferred
-    approach to the limit for a series with only these powers; with a constant ratio r of the
-    steps the level-j combination is (r^p·T_{i+1} − T_i)/(r^p − 1), p = order + 2(j − 1)).
-    The estimate is the change from the extrapolation that leaves out the coarsest grid."""
-    v = [complex(x) for x in values]
-    f = [float(x) for x in factors]
-    r = f[1] / f[0] if len(f) > 1 else 1.0
-    if any(abs(f[i + 1] / f[i] - r) > 1e-12 * r for i in range(len(f) - 1)):
-        raise ValueError(f"refinement factors {factors} are not a geometric sequence")
-
-    def extrapolate(vals):
-        p = order
-        while len(vals) > 1:
-            vals = [(vals[i + 1] * r**p - vals[i]) / (r**p - 1.0) for i in range(len(vals) - 1)]
-            p += 2
-        return vals[0]
-
-    best = extrapolate(v)
-    return best, best - (extrapolate(v[1:]) if len(v) > 2 else v[-1])

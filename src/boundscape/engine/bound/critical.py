@@ -12,21 +12,24 @@ from functools import lru_cache
 
 from scipy.optimize import brentq
 
-from ..checks import quantum_number
-from ..errors import InputError
-from .families import family_info
-from .potential import potential_from_spec
+from ...checks import quantum_number
+from ...errors import InputError
+from ..potentials import family_info, potential
 from .zero_energy import THETA_CRITICAL, zero_energy_problem
 
 __all__ = ["critical_screening_length", "critical_strength"]
 
 
-def _screened(family, strength, lam, mass, table, coulomb_tail=None):
-    # Critical lengths need the screening on: a table is always screened here.  ``table`` is a
-    # path or pair for the first (validating) build, then the Table it produced, which keeps
-    # its declared Coulomb tail.
-    spec = {"family": family, "mass": mass, "table": table, "screened": True, "coulomb_tail": coulomb_tail}
-    return potential_from_spec(spec, strength, lam)
+def _screened(family, strength, lam, mass, own):
+    # Critical lengths need the screening on (a table is screened here); ``own`` is the family's
+    # own parameters as sorted (name, value) pairs, already prepared (a table read once).
+    return potential(family, strength, lam, mass, **dict(own))
+
+
+def _prepared(family, mass, params):
+    """The family's own parameters, checked and screened, as a hashable tuple (cache keys)."""
+    info = family_info(family)
+    return tuple(sorted(info.screened_parameters(info.prepare(params, f" for family {family!r}")).items()))
 
 
 def _root_on(make, l: int, k: int, start: float, scale_up=2.0, span=1e12):
@@ -61,26 +64,25 @@ def _root_on(make, l: int, k: int, start: float, scale_up=2.0, span=1e12):
 
 
 @lru_cache(maxsize=4096)
-def _critical_lambda(family, strength, l, n_r, mass, table):
-    start = family_info(family).critical_length_start(strength, mass)
-    return _root_on(lambda lam: _screened(family, strength, lam, mass, table), l, n_r, start)
+def _critical_lambda(family, strength, l, n_r, mass, own):
+    start = family_info(family).critical_length_start(strength, mass, dict(own))
+    return _root_on(lambda lam: _screened(family, strength, lam, mass, own), l, n_r, start)
 
 
-def critical_screening_length(family: str, strength: float, l: int, n_r: int, mass: float = 1.0,
-                              table=None, coulomb_tail: float | None = None) -> float:
+def critical_screening_length(family: str, strength: float, l: int, n_r: int, mass: float = 1.0, **params) -> float:
     """Screening length λ_c (bohr) below which the state (n_r, l) is not bound.
 
     Parameters
     ----------
     family : str
-        A family that has a screening length (yukawa, ecsc, hulthen, square_well, tabulated).
+        A family that has a screening length (yukawa, ecsc, hulthen, square_well, tabulated, ...).
     strength, mass : float
         Z (or depth) and reduced mass μ (electron masses).
     l, n_r : int
         Angular momentum and radial node count of the state.
-    table, coulomb_tail : optional
-        For ``tabulated``: the table (path or (r, V) pair) and a declared −Z/r tail beyond it;
-        a critical length always means the table is multiplied by exp(−r/λ).
+    **params
+        The family's own parameters (for ``tabulated``: ``table`` and ``coulomb_tail``; a critical
+        length always means the table is multiplied by exp(−r/λ)).
 
     Returns
     -------
@@ -90,27 +92,27 @@ def critical_screening_length(family: str, strength: float, l: int, n_r: int, ma
     Notes
     -----
     For one-scale families λ_c(Z, μ) = λ_c(1, 1)/(Zμ), which is exact for V = Z f(r/λ)/r, so the
-    dimensionless root is computed once per (family, l, n_r) and cached.
+    dimensionless root is computed once per (family, parameters, l, n_r) and cached.
     """
     l = quantum_number(l)
     n_r = quantum_number(n_r, "n_r")
     info = family_info(family)
-    if not info.uses_screening_length:
+    own = _prepared(family, mass, params)
+    if not info.uses_screening_length(dict(own)):
         raise InputError(f"family {family!r} has no screening length; critical lengths need a screened family")
-    probe = _screened(family, strength, 1.0, mass, table, coulomb_tail)  # validates the parameters
+    probe = _screened(family, strength, 1.0, mass, own)  # validates the parameters
     if info.one_scale:
-        return _critical_lambda(family, 1.0, l, n_r, 1.0, None) / (probe.strength * probe.mass)
-    return _critical_lambda(family, probe.strength, l, n_r, probe.mass, probe.table)
+        return _critical_lambda(family, 1.0, l, n_r, 1.0, own) / (probe.strength * probe.mass)
+    return _critical_lambda(family, probe.strength, l, n_r, probe.mass, own)
 
 
 @lru_cache(maxsize=4096)
-def _critical_z(family, lam, l, n_r, mass, table):
-    start = family_info(family).critical_strength_start(lam, mass)
-    return _root_on(lambda z: _screened(family, z, lam, mass, table), l, n_r, start)
+def _critical_z(family, lam, l, n_r, mass, own):
+    start = family_info(family).critical_strength_start(lam, mass, dict(own))
+    return _root_on(lambda z: _screened(family, z, lam, mass, own), l, n_r, start)
 
 
-def critical_strength(family: str, screening_length: float, l: int, n_r: int, mass: float = 1.0,
-                      table=None, coulomb_tail: float | None = None) -> float:
+def critical_strength(family: str, screening_length: float, l: int, n_r: int, mass: float = 1.0, **params) -> float:
     """Strength Z_c (or depth, hartree, for the square well) below which (n_r, l) is not bound.
 
     For one-scale families Z_c = λ_c(1, 1)/(μλ).  Returns ``math.inf`` if never bound.
@@ -118,9 +120,10 @@ def critical_strength(family: str, screening_length: float, l: int, n_r: int, ma
     l = quantum_number(l)
     n_r = quantum_number(n_r, "n_r")
     info = family_info(family)
-    if not info.uses_screening_length:
+    own = _prepared(family, mass, params)
+    if not info.uses_screening_length(dict(own)):
         raise InputError(f"family {family!r} binds at any strength; critical strengths need a screened family")
-    probe = _screened(family, 1.0, screening_length, mass, table, coulomb_tail)
+    probe = _screened(family, 1.0, screening_length, mass, own)
     if info.one_scale:
-        return _critical_lambda(family, 1.0, l, n_r, 1.0, None) / (probe.mass * probe.screening_length)
-    return _critical_z(family, probe.screening_length, l, n_r, probe.mass, probe.table)
+        return _critical_lambda(family, 1.0, l, n_r, 1.0, own) / (probe.mass * probe.screening_length)
+    return _critical_z(family, probe.screening_length, l, n_r, probe.mass, own)

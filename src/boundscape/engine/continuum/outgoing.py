@@ -35,8 +35,6 @@ import math
 
 import numpy as np
 
-from .families import Family
-from .potential import Potential
 
 __all__ = ["riccati_hankel_log_derivative", "outgoing_log_derivative", "analytic_potential", "is_compact",
            "exterior_cut", "CUT_TOLERANCE"]
@@ -65,19 +63,17 @@ def outgoing_log_derivative(l: int, k: complex, r) -> complex:
     return k * riccati_hankel_log_derivative(l, k * r)
 
 
-def analytic_potential(pot: Potential):
+def analytic_potential(pot):
     """V(r) at complex r, if the family's formula continues analytically; otherwise None.
 
-    Only families that compute V from their ``evaluate`` formula qualify (a table or a
-    mass-dependent potential does not).  The formula is tried at complex points near the real
-    axis and accepted if it is holomorphic there: Im V(t + iε)/ε must equal dV/dt
-    (Cauchy–Riemann) and Re V(t + iε) must equal V(t)."""
-    info = pot.info
-    if type(info).value is not Family.value:
+    Families declare it (``analytic``; a table or a potential that jumps does not), and the
+    declaration is checked at complex points near the real axis: Im V(t + iε)/ε must equal
+    dV/dt (Cauchy–Riemann) and Re V(t + iε) must equal V(t)."""
+    if not pot.info.analytic:
         return None
 
     def v(r):
-        return info.evaluate(r, pot.strength, pot.screening_length)
+        return pot.complex_values(r)
 
     t = pot.length_scale * np.array([0.37, 1.1, 2.9, 7.3])
     eps = 1e-7 * t
@@ -95,7 +91,7 @@ def analytic_potential(pot: Potential):
     return v
 
 
-def is_compact(pot: Potential) -> bool:
+def is_compact(pot) -> bool:
     """Whether V is exactly zero beyond its support (so the Hankel condition there is exact)."""
     R = pot.support
     if not math.isfinite(R):

@@ -54,20 +54,20 @@ from functools import lru_cache
 
 import numpy as np
 
-from ..checks import quantum_number
-from ..errors import ConvergenceError, InputError
-from ..labels import state_label
+from ...checks import quantum_number
+from ...errors import ConvergenceError, InputError
+from ...labels import state_label
+from ..bound.zero_energy import count_bound
+from ..potentials import Potential
+from ..status import DISSOLVED, NOT_CONVERGED, OK
 from .outgoing import CUT_TOLERANCE
-from .potential import Potential, potential_from_spec
 from .siegert import Channel
-from .status import DISSOLVED, NOT_CONVERGED, OK
 from .tracking import Trajectory, momentum, refine, trace
+from .universal import RTOL, dimensionless, universal_potential, universal_trajectory
 
-__all__ = ["Resonances", "resonances", "dissolution_screening_length", "DEFAULT_LOST", "RTOL",
-           "shares_trajectories", "trajectory_records", "load_trajectory_records"]
+__all__ = ["Resonances", "resonances", "DEFAULT_LOST", "RTOL", "ATOL"]
 
 DEFAULT_LOST = 4  # states followed past the bound ones when n_r_max is not given
-RTOL = 1e-9  # relative tolerance on each pole
 # ... and an absolute floor, relative to the potential's energy scale (κ: its momentum scale).
 # Just past threshold a pole is as accurate as the threshold itself, not better relative to E_r:
 # against the exact Hulthén virtual states κ_v = ε/2 the error stays ~4e-16 for ε = 1e-4..1e-9,
@@ -163,17 +163,15 @@ def resonances(pot: Potential, l: int, n_r_max: int | None = None, *, num_bound:
     if angle is not None and not 0.0 <= angle < 90.0:
         raise InputError(f"contour_angle must be in [0, 90) degrees, got {contour_angle!r}")
     if num_bound is None:
-        from .zero_energy import count_bound  # lazily: it loads the compiled kernels
-
         num_bound = count_bound(pot, l)
     num_bound = quantum_number(num_bound, "num_bound")
     stop = num_bound + DEFAULT_LOST if n_r_max is None else n_r_max
-    scaled = _dimensionless(pot) if matching_radius is None else None
+    scaled = dimensionless(pot) if matching_radius is None else None
     rows = []
     for n_r in range(num_bound, max(stop, num_bound)):
         if scaled is not None:
-            family, g_cell, length = scaled
-            base = _universal_potential(family)
+            key, g_cell, length = scaled
+            base = universal_potential(key)
         else:
             g_cell, length, base = 1.0, 1.0, pot
         ch = Channel(base, l, angle=None if angle is None else math.radians(angle),
@@ -181,7 +179,7 @@ def resonances(pot: Potential, l: int, n_r_max: int | None = None, *, num_bound:
                      tail_tolerance=tail_tolerance)
         try:
             if scaled is not None:
-                traj = _universal_trajectory(family, l, n_r, angle, tail_tolerance)
+                traj = universal_trajectory(key, l, n_r, angle, tail_tolerance)
             else:
                 traj = trace(ch, n_r, g_stop=g_cell, g_start=g_cell, scale=base.energy_scale)
             rows.append(_at_cell(ch, traj, g_cell, rtol, base.energy_scale, length if scaled is not None else None))
@@ -271,78 +269,6 @@ def _out_of_reach(traj: Trajectory, g: float, lam: float | None, g_d: float | No
     return f"out of reach: {before}{traj.end}{at}"
 
 
-def _dimensionless(pot: Potential):
-    """(family, Zμλ, λ) for a one-scale family, whose poles are E = E₁(Zμλ)/(μλ²), else None."""
-    info = pot.info
-    if not (info.one_scale and info.uses_screening_length and pot.family != "tabulated"):
-        return None
-    lam = pot.screening_length
-    return pot.family, pot.strength * pot.mass * lam, lam
-
-
-@lru_cache(maxsize=64)
-def _universal_potential(family: str) -> Potential:
-    return potential_from_spec({"family": family, "mass": 1.0}, 1.0, 1.0)
-
-
-# The one-scale trajectories of this process, by (family, l, n_r, angle, tail_tolerance);
-# filled on first use or from records another process computed (load_trajectory_records).
-_TRAJECTORIES: dict = {}
-
-
-def _universal_trajectory(family: str, l: int, n_r: int, angle, tail_tolerance) -> Trajectory | None:
-    """The whole trajectory of (family, l, n_r) at Z = λ = μ = 1, from threshold until the pole
-    is out of reach: every cell of the family reads its own point, so a cell's value does not
-    depend on which cells were solved before it."""
-    key = (family, l, n_r, angle, tail_tolerance)
-    if key not in _TRAJECTORIES:
-        _TRAJECTORIES[key] = _trace_universal(family, l, n_r, angle, tail_tolerance)
-    return _TRAJECTORIES[key]
-
-
-def shares_trajectories(family: str) -> bool:
-    """Whether ``family``'s poles follow one trajectory per (l, n_r) whatever the cell (one-scale
-    families): :func:`trajectory_records` can then be computed once and shared between processes."""
-    info = potential_from_spec({"family": family, "mass": 1.0}, 1.0, 1.0).info
-    return bool(info.one_scale and info.uses_screening_length and family != "tabulated")
-
-
-def trajectory_records(family: str, l_values, n_r_max: int) -> list[dict]:
-    """The trajectories of (family, l, n_r < n_r_max) for the default method parameters, as plain
-    records (numbers and strings only; every float survives a JSON round trip exactly), so that
-    a sweep follows each pole from its threshold once rather than once per process."""
-    records = []
-    for l in l_values:
-        for n_r in range(int(n_r_max)):
-            traj = _universal_trajectory(family, int(l), n_r, None, CUT_TOLERANCE)
-            item = None
-            if traj is not None:
-                item = {"l": traj.l, "g_c": traj.g_c, "g_c_coarse": traj.g_c_coarse, "s": [float(v) for v in traj.s],
-                        "pole": [[complex(p).real, complex(p).imag] for p in traj.pole], "end": traj.end,
-                        "end_at": traj.end_at, "g_dissolved": traj.g_dissolved}
-            records.append({"family": family, "l": int(l), "n_r": n_r, "trajectory": item})
-    return records
-
-
-def load_trajectory_records(records) -> None:
-    """Take trajectories computed by :func:`trajectory_records` (in any process) as this process's:
-    a cell then gives the same bits as if they had been traced here."""
-    for rec in records:
-        item = rec["trajectory"]
-        traj = None
-        if item is not None:
-            poles = [float(re) if item["l"] == 0 else complex(re, im) for re, im in item["pole"]]
-            traj = Trajectory(item["l"], item["g_c"], item["g_c_coarse"], list(item["s"]), poles, item["end"],
-                              item["end_at"], item["g_dissolved"])
-        _TRAJECTORIES[(rec["family"], int(rec["l"]), int(rec["n_r"]), None, CUT_TOLERANCE)] = traj
-
-
-def _trace_universal(family: str, l: int, n_r: int, angle, tail_tolerance) -> Trajectory | None:
-    base = _universal_potential(family)
-    ch = Channel(base, l, angle=None if angle is None else math.radians(angle), tail_tolerance=tail_tolerance)
-    return trace(ch, n_r, g_stop=0.0, g_start=base.info.critical_length_start(1.0, 1.0), scale=base.energy_scale)
-
-
 def _assemble(pot: Potential, l: int, rows, num_bound: int) -> Resonances:
     n = len(rows)
     kind = "virtual" if l == 0 else "resonance"
@@ -372,46 +298,3 @@ def _assemble(pot: Potential, l: int, rows, num_bound: int) -> Resonances:
         kappa=kappa, momentum=k, energy_error=err_e, width_error=err_w, kappa_error=err_k, critical_scaling=g_c,
         status=np.array([row["status"] for row in rows], dtype=np.int8), reason=[row["reason"] for row in rows],
         num_bound=num_bound)
-
-
-def dissolution_screening_length(family: str, strength: float, l: int, n_r: int, mass: float = 1.0) -> float:
-    """The screening length λ_d (bohr) below which the resonance (n_r, l) has Γ > E_r.
-
-    Between λ_d and λ_c the state lives on as a shape resonance narrower than its energy; λ_d is
-    the root of Γ − E_r along the state's trajectory (``scipy.optimize.brentq`` on refined poles,
-    started from the trajectory's own coarse-grid root).  One-scale families only (λ_d ∝ 1/(Zμ), like λ_c).
-
-    Returns
-    -------
-    float
-        λ_d in bohr; NaN if the pole leaves reach before Γ reaches E_r.
-    """
-    l = quantum_number(l)
-    n_r = quantum_number(n_r, "n_r")
-    if l == 0:
-        raise InputError("l = 0 states become virtual states, which have no width: no dissolution length")
-    pot = potential_from_spec({"family": family, "mass": mass}, strength, 1.0)  # validates the parameters
-    if _dimensionless(pot) is None:
-        raise InputError(f"dissolution lengths are computed for one-scale families (V = Z f(r/λ)/r), not {family!r}")
-    return _universal_dissolution(family, l, n_r) / (pot.strength * pot.mass)
-
-
-@lru_cache(maxsize=1024)
-def _universal_dissolution(family: str, l: int, n_r: int) -> float:
-    from scipy.optimize import brentq
-
-    traj = _universal_trajectory(family, l, n_r, None, CUT_TOLERANCE)
-    if traj is None or traj.dissolution() is None:
-        return math.nan
-    base = _universal_potential(family)
-    ch = Channel(base, l)
-    shift = abs(traj.g_c - traj.g_c_coarse)
-
-    def excess(g):  # Γ − E_r of the refined pole at coupling g
-        s = traj.g_c - g
-        pole, _, _ = refine(ch, g, traj.guess(s), s, shift, RTOL, base.energy_scale)
-        return -2.0 * pole.imag - pole.real
-
-    g_d = traj.dissolution()  # on the coarse grid: the refined root is within ~1e-5 of it
-    g_lo, g_hi = g_d * (1 - 1e-3), g_d * (1 + 1e-3)
-    return brentq(excess, g_lo, g_hi, xtol=1e-13 * g_hi, rtol=1e-13)
