@@ -20,7 +20,7 @@ import sys
 from . import convert, lines, resonances
 from .options import describe, make_potential, parse_l_values, potential_args, title
 from .readings import engine_strength, reading_of, significant
-from ..engine import FAMILIES, bound_levels, critical_screening_length
+from ..engine import bound_levels, critical_screening_length, family_info
 from ..errors import ConvergenceError, InputError
 from ..labels import orbital_letter, state_label
 from ..physics.units import HARTREE_EV
@@ -127,7 +127,8 @@ def run_critical(args) -> int:
         raise InputError(f"--n-max must be at least 1, got {args.n_max}")
     reading = reading_of(args)
     strength, strength_text = engine_strength(args, reading)
-    if not FAMILIES[args.family].uses_screening_length:
+    info = family_info(args.family)
+    if not info.uses_screening_length(info.screened_parameters({})):
         raise InputError(f"family {args.family!r} has no screening length, so no state is ever lost; "
                          "critical lengths need a screened family")
     pot = make_potential(args, strength, 1.0)  # validates family and parameters
@@ -135,8 +136,7 @@ def run_critical(args) -> int:
     rows = []
     for l in ls:
         for n in range(l + 1, args.n_max + 1):
-            lam = critical_screening_length(args.family, strength, l, n - l - 1, pot.mass,
-                                            table=args.table, coulomb_tail=args.coulomb_tail)
+            lam = critical_screening_length(args.family, strength, l, n - l - 1, pot.mass, **dict(pot.own))
             row = {"n": n, "l": l, "state": state_label(n, l), "n_r": n - l - 1}
             if unit == "bohr":
                 row.update(critical_screening_length_bohr=lam,

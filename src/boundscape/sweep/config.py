@@ -15,7 +15,7 @@ from pathlib import Path
 import numpy as np
 import yaml
 
-from ..engine import FAMILIES, load_table
+from ..engine import FAMILIES, ParameterError, potential
 from ..errors import InputError
 from ..physics.presets import Nuclear, Plasma, Semiconductor, from_config
 from .lines import check_lines
@@ -70,7 +70,6 @@ def validate_config(config: dict) -> dict:
         raise InputError(message)
     config = json.loads(json.dumps(config))
     pot = config["potential"]
-    pot.setdefault("screened", False)
     config.setdefault("tiles", {}).setdefault("cells", DEFAULT_CELLS_PER_TILE)
     config.setdefault("resonances", False)
 
@@ -78,22 +77,16 @@ def validate_config(config: dict) -> dict:
     if family not in FAMILIES:
         known = ", ".join(sorted(FAMILIES))
         raise InputError(f"config key potential.family: unknown family {family!r}; known families: {known}")
-    if family == "tabulated":
-        _check_table(pot)
-    else:
-        for key in ("table", "screened", "coulomb_tail"):
-            if key in pot and (key != "screened" or pot[key]):
-                raise InputError(f"config key potential.{key}: only the tabulated family takes a table")
+    own = _family_parameters(pot)
     grid = config["grid"]
-    uses_length = pot["screened"] if family == "tabulated" else FAMILIES[family].uses_screening_length
+    uses_length = FAMILIES[family].uses_screening_length(own)
     if uses_length and "screening_length" not in grid:
         raise InputError(f"config key grid.screening_length: family {family} needs a screening length axis")
     if not uses_length and "screening_length" in grid:
-        why = "an unscreened table" if family == "tabulated" else f"family {family}"
-        raise InputError(f"config key grid.screening_length: {why} has no screening length, so every value "
-                         "would give the same cells; remove the key")
+        raise InputError(f"config key grid.screening_length: family {family} has no screening length here, so "
+                         "every value would give the same cells; remove the key")
     if config["resonances"]:
-        _check_resonances(pot)
+        _check_resonances(family, own)
     try:
         preset = from_config(config.get("preset"))
     except InputError as exc:
@@ -121,26 +114,22 @@ def validate_config(config: dict) -> dict:
     return config
 
 
-def _check_table(pot):
-    # The table is read and checked here, before any job, so that a bad file stops the sweep
-    # with its file and line named rather than flagging every cell.
-    if "table" not in pot:
-        raise InputError("config key potential.table: the tabulated family needs a table file")
-    if not Path(pot["table"]).is_file():
-        raise InputError(f"config key potential.table: file {pot['table']!r} does not exist")
+def _family_parameters(pot) -> dict:
+    """The family's own parameters (every key of ``potential`` but family and mass), checked by
+    the family; a table is read and checked here, before any job, so that a bad file stops the
+    sweep with its file and line named rather than flagging every cell."""
+    given = {key: value for key, value in pot.items() if key not in ("family", "mass")}
     try:
-        load_table(pot["table"], coulomb_tail=pot.get("coulomb_tail"))
-    except InputError as exc:
-        raise InputError(f"config key potential.table: {exc}") from None
+        return FAMILIES[pot["family"]].prepare(given)
+    except ParameterError as exc:
+        raise InputError(f"config key potential.{exc.parameter}: {exc}") from None
 
 
-def _check_resonances(pot):
-    family = pot["family"]
-    tail = ("coulomb" if pot.get("coulomb_tail") and not pot["screened"] else "short") if family == "tabulated" \
-        else FAMILIES[family].tail
-    if tail != "short":
-        raise InputError(f"config key resonances: family {family} has a {tail} tail, so every state stays bound "
-                         "and none turns into a resonance; set resonances: false")
+def _check_resonances(family, own):
+    probe = potential(family, 1.0, 1.0, **own)
+    if probe.tail != "short":
+        raise InputError(f"config key resonances: family {family} has a {probe.tail} tail, so every state stays "
+                         "bound and none turns into a resonance; set resonances: false")
 
 
 def _check_strength_axis(grid, preset):

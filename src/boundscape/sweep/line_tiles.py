@@ -9,13 +9,11 @@ cell's bits do not depend on the tiling.
 
 from __future__ import annotations
 
-import math
 import time
 
 import numpy as np
 
 from .. import engine
-from ..engine.lines import unscreened
 from ..errors import ConvergenceError, InputError
 from ..labels import parse_state
 
@@ -94,8 +92,7 @@ def _reference(spec, strength, pairs):
     """ΔE of each line in the unscreened potential of this strength (NaN where it has none)."""
     values = np.full(len(pairs), np.nan)
     try:
-        family_lam = math.inf if spec["family"] in ("coulomb", "harmonic") else 1.0
-        base = unscreened(engine.potential_from_spec(spec, strength, family_lam))
+        base = engine.potential_from_spec(spec, strength, 1.0).unscreened()
         if base is None:
             return values
         found, index = _solve(base, pairs)

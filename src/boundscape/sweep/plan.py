@@ -123,9 +123,9 @@ def plan(config: dict) -> Plan:
         for i, (s0, s1) in enumerate(_blocks(strength.size, critical_block)))
 
     engine = {"family": pot["family"], "mass": float(pot["mass"])}
-    if pot["family"] == "tabulated":
-        engine.update(table=pot["table"], screened=bool(pot["screened"]),
-                      coulomb_tail=pot.get("coulomb_tail"))
+    # the family's own parameters as the config gives them (a table by its path), defaults filled in
+    for q in FAMILIES[pot["family"]].parameters:
+        engine[q.name] = pot.get(q.name, q.default)
     engine["engine"] = f"boundscape {VERSION}"
     if config["resonances"]:  # only when on, so that a sweep without them keeps its tiles' params
         engine["resonances"] = True

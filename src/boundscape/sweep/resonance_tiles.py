@@ -16,7 +16,7 @@ import time
 import numpy as np
 
 from .. import engine
-from ..engine import DISSOLVED, FAMILIES, NOT_CONVERGED, OK, RESONANCE_STATUS
+from ..engine import DISSOLVED, NOT_CONVERGED, OK, RESONANCE_STATUS
 from ..errors import ConvergenceError, InputError
 
 __all__ = ["RESONANCE_VARS", "RESONANCE_FLAGS", "BOUND", "NOT_SOLVED", "DISSOLUTION_VARS", "DISSOLUTION_FLAGS", "wanted", "empty_arrays",
@@ -92,7 +92,9 @@ def solve_dissolutions(spec: dict) -> dict:
     reasons = []
     start = time.perf_counter()
     family = spec["family"]
-    if family != "tabulated" and engine.shares_trajectories(family) and FAMILIES[family].tail == "short":
+    probe = engine.potential_from_spec(spec, 1.0, 1.0)
+    if engine.shares_trajectories(probe):
+        own = dict(probe.own)
         for i, strength in enumerate(strengths):
             for k, l in enumerate(ls):
                 for n_r in range(n_r_max):
@@ -100,7 +102,7 @@ def solve_dissolutions(spec: dict) -> dict:
                         flag[i, k, n_r] = DISSOLUTION_FLAGS.index("virtual_state")
                         continue
                     try:
-                        lam_d = engine.dissolution_screening_length(family, strength, int(l), n_r, mass=spec["mass"])
+                        lam_d = engine.dissolution_screening_length(family, strength, int(l), n_r, mass=spec["mass"], **own)
                     except (ConvergenceError, ArithmeticError, ValueError) as exc:
                         flag[i, k, n_r] = DISSOLUTION_FLAGS.index("not_converged")
                         reasons.append((i, k, n_r, _one_line(exc)))
@@ -113,11 +115,9 @@ def solve_dissolutions(spec: dict) -> dict:
 
 def trajectories(spec: dict) -> str:
     """Every trajectory the sweep's cells read (one-scale families; none otherwise), as JSON text."""
-    family = spec["family"]
-    records = []
-    if family != "tabulated" and engine.shares_trajectories(family):
-        records = engine.trajectory_records(family, spec["l"], int(spec["n_r_max"]))
-    return json.dumps({"family": family, "records": records})
+    probe = engine.potential_from_spec(spec, 1.0, 1.0)
+    records = engine.trajectory_records(probe, spec["l"], int(spec["n_r_max"]))
+    return json.dumps({"family": spec["family"], "records": records})
 
 
 def use_trajectories(text: str, spec: dict) -> None:

@@ -13,7 +13,7 @@ import time
 import numpy as np
 
 from .. import engine
-from ..engine import FAMILIES, INPUT_REJECTED, NOT_CONVERGED
+from ..engine import INPUT_REJECTED, NOT_CONVERGED
 from ..errors import ConvergenceError, InputError
 from . import resonance_tiles
 
@@ -121,13 +121,11 @@ def solve_criticals(spec: dict) -> dict:
     reasons = []
     start = time.perf_counter()
     family = spec["family"]
-    has_length = (family == "tabulated" and spec.get("screened")) or (
-        family != "tabulated" and FAMILIES[family].uses_screening_length)
-    if not has_length:
+    probe = engine.potential_from_spec(spec, 1.0, 1.0)
+    if not probe.uses_screening_length:
         flag[...] = CRITICAL_FLAGS.index("not_applicable")
     else:
-        extra = ({"table": spec["table"], "coulomb_tail": spec.get("coulomb_tail")}
-                 if family == "tabulated" else {})
+        extra = dict(probe.own)  # the family's own parameters, prepared once (a table read once)
         for i, strength in enumerate(strengths):
             for k, l in enumerate(ls):
                 for n_r in range(n_r_max):
