@@ -36,10 +36,7 @@ from scipy.optimize import brentq  # noqa: E402
 from scipy.special import kve, spherical_jn  # noqa: E402
 
 import boundscape as bs  # noqa: E402
-from boundscape.engine import grid as engine_grid  # noqa: E402
-from boundscape.engine import levels as engine_levels  # noqa: E402
-from boundscape.engine import problem as engine_problem  # noqa: E402
-from boundscape.engine.tables import validate_table  # noqa: E402
+from boundscape.engine.potentials import validate_table  # noqa: E402
 
 FAMILIES = ("yukawa", "ecsc", "hulthen", "square_well", "tabulated")
 
@@ -125,12 +122,7 @@ def square_well_levels(depth, radius, l, mass=1.0):
 
 def finer(pot, l):
     """The engine on a 2.5× finer design grid and a 30 decay-length box."""
-    saved = engine_grid.THETA, engine_levels.DECAY_LENGTHS, engine_problem.DECAY_LENGTHS
-    engine_grid.THETA, engine_levels.DECAY_LENGTHS, engine_problem.DECAY_LENGTHS = 0.1, 30.0, 30.0
-    try:
-        return bs.bound_levels(pot, l).energy
-    finally:
-        engine_grid.THETA, engine_levels.DECAY_LENGTHS, engine_problem.DECAY_LENGTHS = saved
+    return bs.bound_levels(pot, l, resolution=bs.Resolution(theta=0.1, decay_lengths=30.0)).energy
 
 
 def exact(pot, l):

@@ -1,9 +1,10 @@
-"""The engine's fast paths give what its plain statements give.
+"""The engine's compiled kernels against independent statements of what they compute.
 
-* the compiled whole-cell solver (engine.cell) against the step-by-step Python path of
-  engine.levels, on every built-in family (the same method, so agreement to ~1e-12);
-* the compiled formulas of V(r) and of the exterior log-derivative against the Family classes
-  and engine.exterior (whose Bessel ratio comes from scipy.special.kve);
+* the compiled formula of every family against the formula as its docstring states it, written
+  out here with NumPy (and a table against scipy's own evaluation of its cubic spline);
+* the exterior log-derivative and the exterior's integrals against scipy.special's modified
+  Bessel functions and scipy.integrate.quad;
+* Richardson's weights against their defining equations (exact rational arithmetic);
 * determinism: a cell's bits do not depend on what was solved before it, on the tile it is in
   or on how a sweep is cut into tiles;
 * the per-level entry points (solve_level, level_on_grid) against bound_levels and against the
@@ -16,10 +17,15 @@ import math
 
 import numpy as np
 import pytest
-from scipy.integrate import simpson
+from scipy.integrate import quad, simpson
+from scipy.interpolate import CubicSpline
+from scipy.special import kve
 
 import boundscape as bs
-from boundscape.engine import compiled_potentials, exterior, levels, numerov
+from boundscape.engine.bound import levels
+from boundscape.engine.bound.mapping import map_point
+from boundscape.engine.potentials import exterior
+from boundscape.engine.richardson import extrapolate, extrapolate_grids, rational_weights
 from boundscape.sweep import solve_tile
 
 CELLS = [("yukawa", 2.0, 3.0, 0), ("yukawa", 1.0, 40.0, 2), ("ecsc", 1.0, 20.0, 1), ("hulthen", 1.0, 12.6, 0),
@@ -35,55 +41,60 @@ def table_potential():
     return bs.potential("tabulated", 1.0, 5.0, table=(r, v), screened=True, coulomb_tail=1.0)
 
 
-@pytest.mark.parametrize("family, Z, lam, l", CELLS)
-def test_compiled_cell_agrees_with_the_python_path(family, Z, lam, l):
-    pot = bs.potential(family, Z, lam)
-    keep = -1 if pot.tail == "short" else 6
-    count, fast = levels.compiled_cell(pot, l, keep)
-    count_py, slow = levels._python_cell(pot, l, keep, levels.RTOL, False)
-    assert count == count_py and len(fast) == len(slow) > 0
-    for a, b in zip(fast, slow):
-        assert a.status == b.status == 0, (a.reason, b.reason)
-        assert abs(a.energy / b.energy - 1) <= 1e-12, (a.energy, b.energy)
-        assert abs(a.mean_radius / b.mean_radius - 1) <= 1e-10
-
-
-def test_compiled_cell_agrees_with_the_python_path_for_a_table():
-    pot = table_potential()
-    count, fast = levels.compiled_cell(pot, 1, -1)
-    count_py, slow = levels._python_cell(pot, 1, -1, levels.RTOL, False)
-    assert count == count_py >= 1
-    for a, b in zip(fast, slow):
-        assert abs(a.energy / b.energy - 1) <= 1e-12, (a.energy, b.energy)
+# each family's formula as its docstring states it (atomic units), written out independently here
+STATED = {
+    "coulomb": lambda r, Z, lam, mu: -Z / r,
+    "yukawa": lambda r, Z, lam, mu: -Z * np.exp(-r / lam) / r,
+    "ecsc": lambda r, Z, lam, mu: -Z * np.exp(-r / lam) * np.cos(r / lam) / r,
+    "hulthen": lambda r, Z, lam, mu: -(Z / lam) * np.exp(-r / lam) / (1.0 - np.exp(-r / lam)),
+    "square_well": lambda r, Z, lam, mu: np.where(r <= lam, -Z, 0.0),
+    "harmonic": lambda r, Z, lam, mu: 0.5 * mu * Z * Z * r * r,
+}
 
 
 @pytest.mark.parametrize("family, Z, lam", [("coulomb", 2.0, None), ("yukawa", 2.0, 3.0), ("ecsc", 1.5, 4.0),
                                             ("hulthen", 1.0, 2.0), ("square_well", 5.0, 1.5), ("harmonic", 0.5, None)])
-def test_compiled_potentials_equal_the_family_formulas(family, Z, lam):
+def test_compiled_formulas_equal_the_stated_formulas(family, Z, lam):
     pot = bs.potential(family, Z, lam, mass=1.7)
-    code, params, x, c = compiled_potentials.kernel_of(pot)
     r = np.geomspace(1e-6, 30.0, 500)
-    fast = np.array([compiled_potentials.potential_at(code, params, x, c, ri, False) for ri in r])
-    assert np.allclose(fast, pot(r), rtol=1e-14, atol=0.0)
+    if family == "hulthen":  # 1 − e^{−x} as stated cancels at small x (test_potentials checks r → 0)
+        r = r[r > 1e-3 * lam]
+    assert np.allclose(pot(r), STATED[family](r, Z, lam, 1.7), rtol=1e-12, atol=0.0)
+    if pot.info.analytic:  # the same formula at complex r, where the stated one continues
+        z = r * np.exp(0.3j)
+        assert np.allclose(pot.complex_values(z), STATED[family](z, Z, lam, 1.7), rtol=1e-12, atol=0.0)
 
 
-def test_compiled_table_equals_the_spline():
+def test_compiled_table_equals_scipys_spline():
     pot = table_potential()
-    code, params, x, c = compiled_potentials.kernel_of(pot)
-    r = np.concatenate([np.geomspace(1e-5, 39.9, 700), [40.0, 55.0]])
-    fast = np.array([compiled_potentials.potential_at(code, params, x, c, ri, False) for ri in r])
-    assert np.allclose(fast, pot(r), rtol=1e-13, atol=0.0)
+    table = pot.params["table"]
+    spline = CubicSpline(table.r, table.r * table.v)  # scipy's own evaluation of the same spline
+    r = np.geomspace(1e-5, 39.9, 700)
+    inside = spline(np.maximum(r, table.r[0])) / r * np.exp(-r / 5.0)
+    assert np.allclose(pot(r), inside, rtol=1e-13, atol=0.0)
+    beyond = np.array([40.5, 55.0])  # the declared Coulomb tail, screened
+    assert np.allclose(pot(beyond), -np.exp(-beyond / 5.0) / beyond, rtol=1e-14)
+
+
+def bessel_log_derivative(l, kappa, R):
+    """u'/u of u = √r K_{l+½}(κr) at R, from scipy.special.kve (A&S 10.2: r k_l(κr) ∝ √r K_{l+½})."""
+    nu = l + 0.5
+    z = kappa * R
+    return 0.5 / R - kappa * (kve(nu - 1.0, z) / kve(nu, z) + nu / z)
 
 
 @pytest.mark.parametrize("l", [0, 1, 3, 8, 20])
 @pytest.mark.parametrize("kappa_R", [1e-4, 0.3, 2.0, 15.0, 80.0])
 def test_compiled_exterior_equals_the_bessel_ratio(l, kappa_R):
-    # engine.exterior.ShortRange uses scipy.special.kve: u'/u of √r K_{l+½}(κr) (A&S 10.2)
     R, mass = 3.0, 1.0
     kappa = kappa_R / R
     energy = -kappa * kappa / (2 * mass)
-    reference = exterior.ShortRange(l, mass).log_derivative(energy, R)
-    fast = numerov.exterior_log_derivative(numerov.TAIL_SHORT, l, mass, 0.0, energy, R)
+    fast = exterior.log_derivative(exterior.TAIL_SHORT, l, mass, 0.0, energy, R)
+    if kappa_R < 1e-3 and l >= 8:
+        # kve overflows there: the small-argument expansion of K_{ν−1}/K_ν (A&S 9.6.9)
+        reference = -l / R - kappa * kappa * R / (2 * l - 1)
+    else:
+        reference = bessel_log_derivative(l, kappa, R)
     assert fast == pytest.approx(reference, rel=1e-12, abs=1e-14 / R)
 
 
@@ -130,7 +141,7 @@ def test_solve_level_gives_the_bits_of_bound_levels_and_a_normalised_u():
         # (scipy.integrate.simpson on the nodes, in t: dr = g dt, g from the map's closed form)
         gr = lv.grid
         t = np.linspace(gr.t0, gr.t1, lv.u.size)
-        g = np.array([numerov.map_point(gr.beta, gr.c, gr.tc, ti)[1] for ti in t])
+        g = np.array([map_point(gr.beta, gr.c, gr.tc, ti)[1] for ti in t])
         assert simpson(lv.u**2 * g, x=t) == pytest.approx(1.0, rel=1e-7)
         assert int(np.count_nonzero(np.diff(np.signbit(lv.u[1:])))) == k  # n_r nodes
 
@@ -146,25 +157,61 @@ def test_level_on_a_common_grid_reproduces_the_level():
         energies.append(e0)
         overlap.append(float(np.sum(w * u0 * u1)))
         assert float(np.sum(w * u0 * u0)) == pytest.approx(1.0, rel=1e-9)
-    from boundscape.engine.grid import richardson
-    assert abs(richardson(energies)[0] / lo.energy - 1) <= 1e-9
+    assert abs(extrapolate(energies)[0] / lo.energy - 1) <= 1e-9
     # eigenvectors of one Sturm-Liouville problem are orthogonal (to discretisation error)
-    assert abs(richardson(overlap)[0]) <= 1e-8
+    assert abs(extrapolate(overlap)[0]) <= 1e-8
     assert math.isfinite(lo.energy)
+
+
+def bessel_tail(l_a, l_b, kappa_a, kappa_b, R, power):
+    """∫_R^∞ r^power φ_a φ_b dr, φ = √(r/R) K_{l+½}(κr)/K_{l+½}(κR) (the short-range exterior,
+    A&S 10.2), by scipy.integrate.quad on scipy.special.kve in t = (κ_a + κ_b)(r − R)."""
+    k = kappa_a + kappa_b
+    ea, eb = kve(l_a + 0.5, kappa_a * R), kve(l_b + 0.5, kappa_b * R)
+
+    def f(t):
+        r = R + t / k
+        return r**power * (r / R) * kve(l_a + 0.5, kappa_a * r) / ea * kve(l_b + 0.5, kappa_b * r) / eb * math.exp(-t)
+
+    return quad(f, 0.0, np.inf, limit=400, epsabs=0.0, epsrel=1e-12)[0] / k
 
 
 @pytest.mark.parametrize("l", [0, 1, 2, 5])
 @pytest.mark.parametrize("kappa_R", [1e-3, 0.05, 1.0, 6.0, 40.0])
-def test_compiled_tail_moments_equal_the_quadrature(l, kappa_R):
-    # engine.exterior.ShortRange.tail_moments integrates scipy.special.kve with scipy.integrate.quad
-    # (or Gauss-Laguerre far from threshold)
+def test_compiled_tail_integrals_equal_the_quadrature(l, kappa_R):
     R, mass = 2.0, 1.0
     kappa = kappa_R / R
     energy = -kappa * kappa / (2 * mass)
-    reference = exterior.ShortRange(l, mass).tail_moments(energy, R)
-    nodes, weights = np.polynomial.legendre.leggauss(16)
-    fast = numerov.exterior_tail_moments(l, mass, energy, R, nodes, weights, levels.TAIL_PANELS)
-    assert fast[0] == pytest.approx(reference[0], rel=1e-9)
+    fast = exterior.tail_integrals(l, l, mass, energy, energy, R, exterior.GAUSS_NODES, exterior.GAUSS_WEIGHTS,
+                                   exterior.TAIL_PANELS)
+    assert fast[0] == pytest.approx(bessel_tail(l, l, kappa, kappa, R, 0), rel=1e-9)
     # ⟨r⟩ of a p-wave tail diverges like ln(1/κR) near threshold: there quad's own accuracy
-    # (about 1e-7 here) is the limit of the reference, not the compiled moments
-    assert fast[1] == pytest.approx(reference[1], rel=1e-6 if (l == 1 and kappa_R < 0.01) else 1e-9)
+    # (about 1e-7 here) is the limit of the reference, not the compiled integrals
+    assert fast[1] == pytest.approx(bessel_tail(l, l, kappa, kappa, R, 1), rel=1e-6 if (l == 1 and kappa_R < 0.01) else 1e-9)
+
+
+@pytest.mark.parametrize("l_a, l_b, kappa_a_R, kappa_b_R", [(0, 1, 2.0, 0.7), (1, 2, 0.3, 5.0), (2, 3, 8.0, 1.5),
+                                                            (0, 1, 0.05, 0.02)])
+def test_compiled_tail_overlap_of_two_levels_equals_the_quadrature(l_a, l_b, kappa_a_R, kappa_b_R):
+    R, mass = 1.5, 1.0
+    ka, kb = kappa_a_R / R, kappa_b_R / R
+    fast = exterior.tail_integrals(l_a, l_b, mass, -ka * ka / 2, -kb * kb / 2, R, exterior.GAUSS_NODES,
+                                   exterior.GAUSS_WEIGHTS, exterior.TAIL_PANELS)
+    assert fast[1] == pytest.approx(bessel_tail(l_a, l_b, ka, kb, R, 1), rel=1e-9)
+
+
+def test_richardson_weights_solve_their_defining_equations():
+    # Σ w_j = 1 and Σ w_j f_j^{-p} = 0 for each removed power (Richardson 1911), in exact arithmetic
+    from fractions import Fraction
+
+    for factors, powers in (((1, 2, 4), (4, 6)), ((2, 4), (4,)), ((2, 4, 8), (4, 6)), ((1, 2, 4, 8), (4, 6, 8))):
+        numerators, denominator = rational_weights(factors, powers)
+        w = [Fraction(n) / Fraction(denominator) for n in numerators]
+        assert sum(w) == 1
+        for p in powers[: len(factors) - 1]:
+            assert sum(wj / Fraction(f) ** p for wj, f in zip(w, factors)) == 0
+    # a series with exactly these powers is extrapolated exactly, in the kernel too
+    exact, c4, c6 = 2.5, 0.3, -0.7
+    values = [exact + c4 * (1.0 / f) ** 4 + c6 * (1.0 / f) ** 6 for f in (1, 2, 4)]
+    assert extrapolate(values)[0] == pytest.approx(exact, rel=1e-14)
+    assert extrapolate_grids(*values)[0] == extrapolate(values)[0]

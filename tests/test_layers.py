@@ -15,7 +15,7 @@ PACKAGE = Path(__file__).resolve().parents[1] / "src" / "boundscape"
 # Rank of each layer; a module may import only from its own layer or lower ones.  The shared
 # base modules (errors, checks, labels, version) sit below everything.
 LAYERS = {"base": 0, "engine": 1, "physics": 2, "sweep": 3, "cube": 4, "plots": 5, "cli": 6}
-BASE_MODULES = {"errors", "checks", "labels", "version"}
+BASE_MODULES = {"errors", "checks", "labels", "version", "lazy"}
 
 
 def module_name(path: Path) -> str:
@@ -35,13 +35,39 @@ def layer_of(module: str) -> str:
     return parts[1]
 
 
+def lazy_targets(node, package: str):
+    """The modules a ``lazy_exports(__name__, {name: ".module"})`` call defers (boundscape.lazy):
+    imports like any other, only later."""
+    if not (isinstance(node, ast.Call) and getattr(node.func, "id", getattr(node.func, "attr", "")) == "lazy_exports"
+            and len(node.args) == 2):
+        return []
+    mapping = node.args[1]
+    if isinstance(mapping, ast.Dict):
+        values = mapping.values
+    elif isinstance(mapping, ast.DictComp):
+        values = [mapping.value]
+    else:
+        raise AssertionError(f"lazy_exports in {package} needs a literal mapping, so that its imports can be read")
+    out = []
+    for value in values:
+        assert isinstance(value, ast.Constant) and isinstance(value.value, str), "lazy_exports targets must be literals"
+        relative = value.value
+        level = len(relative) - len(relative.lstrip("."))
+        base = package.split(".")[: len(package.split(".")) - level + 1]
+        out.append(".".join(base + [relative.lstrip(".")]) if relative.lstrip(".") else ".".join(base))
+    return out
+
+
 def imports_of(path: Path, here: str | None = None):
-    """(imported module, imported names, line) for every import of the package's own modules;
-    ``here`` is the module's dotted name (default: from its path in the package)."""
+    """(imported module, imported names, line) for every import of the package's own modules,
+    deferred ones (:func:`lazy_targets`) included; ``here`` is the module's dotted name (default:
+    from its path in the package)."""
     tree = ast.parse(path.read_text(), filename=str(path))
     here = here or module_name(path)
     package = here if path.name == "__init__.py" else here.rpartition(".")[0]
     for node in ast.walk(tree):
+        for target in lazy_targets(node, package):
+            yield target, [], node.lineno
         if isinstance(node, ast.Import):
             for alias in node.names:
                 if alias.name.split(".")[0] == "boundscape":
@@ -133,6 +159,25 @@ def test_the_layer_check_catches_a_wrong_import(tmp_path):
     targets = list(imports_of(probe, here="boundscape.engine.probe"))
     assert any(layer_of(t) == "plots" for t, _, _ in targets)
     assert any("_listing" in names for _, names, _ in targets)
+
+
+def test_deferred_imports_are_counted(tmp_path):
+    # Negative control: a lazy import of a higher layer is an import like any other.
+    probe = tmp_path / "__init__.py"
+    probe.write_text("from ..lazy import lazy_exports\n__getattr__, __dir__ = lazy_exports(__name__, {'x': '..plots.style'})\n")
+    targets = [t for t, _, _ in imports_of(probe, here="boundscape.engine")]
+    assert "boundscape.plots.style" in targets
+    # the engine's own deferred solvers are edges of the import graph
+    engine = [t for t, _, _ in imports_of(PACKAGE / "engine" / "__init__.py")]
+    assert {"boundscape.engine.bound", "boundscape.engine.continuum", "boundscape.engine.transitions"} <= set(engine)
+
+
+def test_no_string_named_imports():
+    # every import is an import statement or a lazy_exports mapping: no importlib.import_module of
+    # a name the layer check cannot see (the one helper that does it is boundscape.lazy)
+    offenders = [module_name(p) for p in SOURCES
+                 if "import_module(" in p.read_text() and module_name(p) != "boundscape.lazy"]
+    assert not offenders, f"string-named imports in {offenders}"
 
 
 def test_the_engine_stands_alone():

@@ -37,7 +37,7 @@ def test_family_values_follow_their_formulas():
         "harmonic": 0.5 * mu * Z * Z * r * r,
     }
     for family, v in expected.items():
-        pot = bs.potential(family, Z, lam if bs.FAMILIES[family].uses_screening_length else None, mass=mu)
+        pot = bs.potential(family, Z, lam if bs.FAMILIES[family].uses_screening_length({}) else None, mass=mu)
         np.testing.assert_allclose(pot(r), v, rtol=1e-14, err_msg=family)
 
 
@@ -51,9 +51,23 @@ def test_hulthen_keeps_its_coulomb_limit_at_small_r():
 
 def test_families_declare_screening_length_use():
     for family in ("yukawa", "ecsc", "hulthen", "square_well"):
-        assert bs.FAMILIES[family].uses_screening_length
+        assert bs.FAMILIES[family].uses_screening_length({})
+        assert bs.potential(family, 1.0, 2.0).uses_screening_length
     for family in ("coulomb", "harmonic"):
-        assert not bs.FAMILIES[family].uses_screening_length
+        assert not bs.FAMILIES[family].uses_screening_length({})
+        assert not bs.potential(family, 1.0).uses_screening_length
+    # a table has a screening length only where it is screened: a question of the potential
+    r = np.geomspace(1e-3, 30.0, 200)
+    table = (r, -np.exp(-r) / r)
+    assert bs.potential("tabulated", 1.0, 2.0, table=table, screened=True).uses_screening_length
+    assert not bs.potential("tabulated", 1.0, table=table).uses_screening_length
+
+
+def test_family_parameters_are_declared_by_the_family():
+    assert [q.name for q in bs.family_parameters("tabulated")] == ["table", "screened", "coulomb_tail"]
+    assert bs.family_parameters("yukawa") == ()
+    message = message_of(lambda: bs.potential("yukawa", 1.0, 2.0, diffuseness=0.5))
+    assert "'diffuseness'" in message and "yukawa" in message and "\n" not in message
 
 
 # ---------------------------------------------------------------------------------------------
