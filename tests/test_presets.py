@@ -14,7 +14,7 @@ import boundscape as bs
 from boundscape.cli import convert as convert_command
 from boundscape.errors import InputError
 from boundscape.cube import add_physical_coordinates
-from boundscape.physics.presets import Nuclear, Plasma, Semiconductor, from_config
+from boundscape.physics.presets import NO_PRESET, Nuclear, Plasma, Semiconductor, from_config
 
 BOHR = pc["Bohr radius"][0]
 HBAR_C = pc["reduced Planck constant times c in MeV fm"][0]
@@ -153,7 +153,7 @@ def test_physical_coordinates_semiconductor_and_nuclear():
 def test_config_sections():
     assert isinstance(from_config({"kind": "nuclear", "reduced_mass_MeV": 100.0}), Nuclear)
     assert from_config({"kind": "semiconductor", "units": "atomic"}).units_choice == "atomic"
-    assert from_config(None) is None
+    assert from_config(None) is NO_PRESET and from_config({}) is NO_PRESET
     with pytest.raises(InputError, match="preset.kind"):
         from_config({"kind": "stellar"})
     with pytest.raises(InputError, match="preset plasma"):
@@ -246,5 +246,5 @@ def test_plasma_strength_is_the_nuclear_charge_and_institution_comes_from_config
     assert ds.strength.attrs["long_name"] == "nuclear charge Z of the hydrogen-like ion"
     assert ds.energy.attrs["hartree_in_eV"] == pc["Hartree energy in eV"][0]  # atomic units: still true
     assert "institution" not in ds.attrs
-    named = _cube_with(None, config_yaml="sweep: unit\ninstitution: Example Plasma Laboratory\n")
+    named = _cube_with(NO_PRESET, config_yaml="sweep: unit\ninstitution: Example Plasma Laboratory\n")
     assert named.attrs["institution"] == "Example Plasma Laboratory"
