@@ -21,7 +21,7 @@ from boundscape import labels, plots, sweep
 from boundscape.cli import steps
 from boundscape.cube import open_cube
 from boundscape.cube.collect import collect
-from boundscape.physics.presets import Nuclear, Plasma, Semiconductor
+from boundscape.physics.presets import NO_PRESET, Nuclear, Plasma, Semiconductor
 
 pytestmark = pytest.mark.filterwarnings("error")
 BOHR = pc["Bohr radius"][0]
@@ -266,7 +266,7 @@ def test_physical_coordinates_keep_the_cube_cf_conformant(yukawa_cube, preset, t
     write_cube(add_physical_coordinates(yukawa_cube, preset), path)
     assert cf_findings(path) == []
     with open_cube(path) as ds:
-        assert ds[f"screening_length_{preset.length_unit}"].attrs["units"] == preset.length_unit
+        assert ds[f"screening_length_{preset.length_unit.name}"].attrs["units"] == preset.length_unit.name
 
 
 def test_nuclear_table_shows_the_one_scale_threshold(yukawa_cube):
@@ -283,7 +283,7 @@ def test_nuclear_table_shows_the_one_scale_threshold(yukawa_cube):
 # ---------------------------------------------------------------------------------------------
 # Legibility: nothing dropped, nothing overlapping, the trade's units on the axes.
 
-def synthetic_cube(family="yukawa", strength=(1.0, 2.0, 3.0), lam=None, l=(0,), n_r_max=3, preset=None,
+def synthetic_cube(family="yukawa", strength=(1.0, 2.0, 3.0), lam=None, l=(0,), n_r_max=3, preset=NO_PRESET,
                    config_yaml="sweep: synthetic\n", status=None):
     """A cube with hydrogen-like levels, bound where λ > λ_c = n²/Z (a stand-in rule: the figures
     are checked against the cube, not against physics), built with the cube's own model."""

@@ -14,7 +14,8 @@ import boundscape as bs
 from boundscape.cli import convert as convert_command
 from boundscape.errors import InputError
 from boundscape.cube import add_physical_coordinates
-from boundscape.physics.presets import Nuclear, Plasma, Semiconductor, from_config
+from boundscape.physics.presets import NO_PRESET, PRESETS, Nuclear, Plasma, Semiconductor, from_config
+from boundscape.physics.units import ATOMIC
 
 BOHR = pc["Bohr radius"][0]
 HBAR_C = pc["reduced Planck constant times c in MeV fm"][0]
@@ -153,7 +154,7 @@ def test_physical_coordinates_semiconductor_and_nuclear():
 def test_config_sections():
     assert isinstance(from_config({"kind": "nuclear", "reduced_mass_MeV": 100.0}), Nuclear)
     assert from_config({"kind": "semiconductor", "units": "atomic"}).units_choice == "atomic"
-    assert from_config(None) is None
+    assert from_config(None) is NO_PRESET and from_config({}) is NO_PRESET
     with pytest.raises(InputError, match="preset.kind"):
         from_config({"kind": "stellar"})
     with pytest.raises(InputError, match="preset plasma"):
@@ -246,5 +247,119 @@ def test_plasma_strength_is_the_nuclear_charge_and_institution_comes_from_config
     assert ds.strength.attrs["long_name"] == "nuclear charge Z of the hydrogen-like ion"
     assert ds.energy.attrs["hartree_in_eV"] == pc["Hartree energy in eV"][0]  # atomic units: still true
     assert "institution" not in ds.attrs
-    named = _cube_with(None, config_yaml="sweep: unit\ninstitution: Example Plasma Laboratory\n")
+    named = _cube_with(NO_PRESET, config_yaml="sweep: unit\ninstitution: Example Plasma Laboratory\n")
     assert named.attrs["institution"] == "Example Plasma Laboratory"
+
+
+# ---------------------------------------------------------------------------------------------
+# One class answers every question: the registry, the null preset, the trades' new answers.
+
+EVERY_PRESET = [Plasma(), Plasma(species="electrons_and_ions", temperature_eV=3.0),
+                Semiconductor(effective_mass=0.067, permittivity=12.9),
+                Semiconductor(effective_mass=0.2, permittivity=11.7, screening="debye", temperature_K=77.0),
+                Semiconductor(effective_mass=0.067, permittivity=12.9, hole_mass=0.5),
+                Nuclear(reduced_mass_MeV=469.4591), Nuclear(reduced_mass_MeV=938.0, length_fm=2.0), NO_PRESET]
+
+
+@pytest.mark.parametrize("preset", EVERY_PRESET, ids=repr)
+def test_every_preset_answers_every_question(preset):
+    # Nothing a caller asks is left to NotImplementedError: adding a preset that forgets an
+    # answer fails here.
+    units = preset.unit_system(1.0)
+    assert units.length_m > 0 and units.energy_J > 0
+    length_name, energy_name = preset.unit_names()
+    assert length_name and energy_name
+    attrs = {"long_name": "charge number Z", "units": "1"}
+    assert preset.strength_label(attrs) and preset.strength_text(2.0, attrs)
+    np.testing.assert_array_equal(np.shape(preset.strength_values(np.array([1.0, 2.0]))), (2,))
+    assert preset.sweep_mass(None, {}) > 0
+    coords = preset.physical_coordinates(np.array([1.0, 2.0]), np.array([1e-9, 1e-8]))
+    assert all(dim in ("strength", "screening_length") and attrs["units"] for dim, _, attrs in coords.values())
+    columns = preset.critical_length_columns(1.0, 5.0)
+    assert all(math.isfinite(v) for v in columns.values())
+    shown = preset.command_line_reading()
+    assert set(shown) == {"units", "energy_unit", "energy_factor", "length_unit", "length_factor", "description"}
+    strength, text = preset.strength_input(50.0)
+    assert strength > 0 and text
+    assert preset.has_condition_map == (preset.density_name is not None)
+    if preset.kind is None:
+        assert preset.shown_energy_unit() == (None, None) and coords == {} and columns == {}
+    else:
+        # The trade's units against the cube's: the factor is the cube unit's size in the trade's unit.
+        name, factor = preset.shown_energy_unit()
+        assert (name, factor) == (preset.energy_unit.name, units.energy_J / preset.energy_unit.size)
+        assert PRESETS[preset.kind] is type(preset)
+        assert f"critical_screening_length_{preset.length_unit.name}" in columns
+
+
+def test_no_preset_is_atomic_units_and_leaves_a_cube_alone():
+    ds = _cube_with(NO_PRESET)
+    assert NO_PRESET.unit_system(1.0) is ATOMIC and NO_PRESET.condition_axes is None
+    xr.testing.assert_identical(add_physical_coordinates(ds, NO_PRESET), ds)
+    assert "preset" not in ds.attrs and ds.energy.attrs["hartree_in_eV"] == pc["Hartree energy in eV"][0]
+
+
+def test_debye_number_matches_nrl_formulary():
+    # NRL Plasma Formulary (2019), p. 28: N_D = (4π/3) n λ_D³ = 1.72e9 T^{3/2} n^{-1/2} (T in eV,
+    # n in cm⁻³), to its 3 digits; the condition map's validity line is N_D = 1.
+    plasma = Plasma()
+    for T_eV, n_cm3 in [(1.0, 1e12), (100.0, 1e20)]:
+        n = n_cm3 * 1e6
+        number = plasma.debye_number(n, plasma.debye_length(n, T_eV))
+        assert f"{number / (T_eV ** 1.5 / math.sqrt(n_cm3)):.3g}" == "1.72e+09"
+    field = plasma.validity_field(np.array([1e24, 1e30]), plasma.debye_length(np.array([1e24, 1e30]), 10.0)[None, :])
+    assert field.shape == (1, 2) and field[0, 0] > 1 > field[0, 1]
+
+
+def test_degenerate_density_is_where_the_fermi_energy_meets_k_t():
+    # E_F = ħ²(3π²n)^{2/3}/(2m*mₑ) (Ashcroft & Mermin, Solid State Physics, ch. 2, with m -> m*mₑ;
+    # value from memory) equals k_B T at the semiconductor's validity density.
+    semi = Semiconductor(effective_mass=0.067, permittivity=12.9)
+    for T in (4.2, 77.0, 300.0):
+        n = float(semi.validity_density(np.array([T]))[0])
+        fermi = sc.hbar ** 2 * (3 * math.pi ** 2 * n) ** (2 / 3) / (2 * 0.067 * sc.m_e)
+        assert fermi == pytest.approx(sc.k * T, rel=1e-12)
+    assert Plasma().validity_density(np.array([1.0])) is None
+    assert semi.validity_field(np.ones(2), np.ones((1, 2))) is None
+
+
+@pytest.mark.parametrize("preset", [Plasma(species="electrons_and_ions", screening_ion_charge=2.0),
+                                    Semiconductor(effective_mass=0.2, permittivity=11.7, screening="debye"),
+                                    Semiconductor(effective_mass=0.067, permittivity=12.9)], ids=repr)
+def test_loss_density_inverts_the_screening_length(preset):
+    # A state of critical length λ_c is lost above the density whose screening length is λ_c.
+    for temperature in (preset.reference_temperature, 4 * preset.reference_temperature):
+        lam = np.geomspace(1e-9, 1e-6, 4)
+        density = preset.loss_density(lam, temperature)
+        np.testing.assert_allclose(preset.screening_length_at(density, temperature), lam, rtol=1e-12)
+    np.testing.assert_array_equal(preset.loss_density(lam), preset.loss_density(lam, preset.reference_temperature))
+
+
+def test_loss_table_columns_follow_the_preset():
+    # The loss density of the CSV is where the preset's screening length equals λ_c (NRL Debye
+    # length, via test_debye_length_matches_nrl_formulary), in cm⁻³.
+    plasma = Plasma(temperature_eV=10.0)
+    columns = plasma.critical_length_columns(1.0, 20.0)
+    assert list(columns) == ["critical_screening_length_nm", "loss_electron_density_cm-3"]
+    assert columns["critical_screening_length_nm"] == pytest.approx(20.0 * BOHR * 1e9, rel=1e-14)
+    n_m3 = columns["loss_electron_density_cm-3"] * 1e6
+    assert plasma.debye_length(n_m3, 10.0) == pytest.approx(20.0 * BOHR, rel=1e-12)
+    assert math.isnan(plasma.critical_length_columns(1.0, math.inf)["loss_electron_density_cm-3"])
+    nuclear = Nuclear(reduced_mass_MeV=469.4591).critical_length_columns(1.0, 1.4)
+    assert list(nuclear) == ["critical_screening_length_fm", "coupling_MeV_fm", "two_mu_g2_lambda_over_hbar2"]
+    assert nuclear["two_mu_g2_lambda_over_hbar2"] == pytest.approx(
+        2 * 469.4591 * nuclear["coupling_MeV_fm"] * 1.4 / HBAR_C ** 2, rel=1e-12)
+
+
+def test_grid_axes_and_sweep_mass_are_the_presets_rules():
+    from boundscape.sweep import validate_config
+
+    config = {"sweep": "t", "potential": {"family": "yukawa"}, "grid": {
+        "coupling_MeV_fm": [40.0], "screening_length": [1.0, 2.0], "l": [0], "n_r_max": 1}}
+    with pytest.raises(InputError, match="grid.coupling_MeV_fm: .* needs preset kind nuclear"):
+        validate_config({**config, "preset": {"kind": "plasma"}})
+    assert validate_config({**config, "preset": {"kind": "nuclear"}})["potential"]["mass"] == 1.0
+    assert Plasma(reduced_mass=0.9).sweep_mass(None, {"reduced_mass": 0.9}) == 0.9
+    assert Plasma(reduced_mass=0.9).sweep_mass(None, {}) == 1.0  # not given: the sweep's own mass
+    with pytest.raises(InputError, match="potential.mass"):
+        Semiconductor(units_choice="atomic").sweep_mass(1.0, {})

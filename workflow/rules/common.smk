@@ -26,7 +26,7 @@ try:
     PLAN = plan(config)
     # A preset that does not fit the sweep fails before any job starts, naming the key.
     PRESET = _presets.from_config(config.get("preset"))
-    _presets.cube_units(PRESET, PLAN.engine["mass"])  # the mass the plan settled on (a preset may give it)
+    PRESET.unit_system(PLAN.engine["mass"])  # the mass the plan settled on (a preset may give it)
 except InputError as exc:
     sys.exit(f"boundscape: {exc}")
 
@@ -34,7 +34,7 @@ RESULTS = f"results/{PLAN.sweep}"
 FIGURES = f"{RESULTS}/figures"
 TILES = {tile.name: tile for tile in PLAN.tiles}
 CRITICAL_BLOCKS = {block.name: block for block in PLAN.critical_blocks}
-HAS_CONDITION_MAP = isinstance(PRESET, (_presets.Plasma, _presets.Semiconductor))
+HAS_CONDITION_MAP = PRESET.has_condition_map
 # (stem, caption, report category, subcategory) of each figure: a PNG in the report, a PDF beside it.
 FIGURE_LIST = [(f"threshold_map_l{l}", "threshold_map.rst", "Threshold maps", f"l = {l}") for l in PLAN.l]
 FIGURE_LIST.append(("level_fan", "level_fan.rst", "Level fans", None))

@@ -14,8 +14,8 @@ import math
 from dataclasses import dataclass
 
 from ..errors import InputError
-from ..physics.presets import Nuclear, Semiconductor
-from ..physics.units import ATOMIC, BOHR_M, MEV_J, UnitSystem, convert
+from ..physics.presets import NO_PRESET, PRESETS, NoPreset, Preset
+from ..physics.units import ATOMIC, UnitSystem, convert
 
 __all__ = ["add_preset_arguments", "Reading", "reading_of", "significant"]
 
@@ -31,7 +31,7 @@ def significant(value, digits: int = 13):
 
 def add_preset_arguments(p: argparse.ArgumentParser):
     group = p.add_argument_group("physical units (a preset)")
-    group.add_argument("--preset", choices=("plasma", "semiconductor", "nuclear"), default=None,
+    group.add_argument("--preset", choices=tuple(PRESETS), default=None,
                        help="show energies and lengths in a trade's units: plasma eV and nm; semiconductor meV "
                             "and nm (needs --effective-mass, --permittivity); nuclear MeV and fm (needs "
                             "--reduced-mass, takes --coupling instead of --strength). Default: atomic units")
@@ -49,29 +49,43 @@ def add_preset_arguments(p: argparse.ArgumentParser):
 
 @dataclass(frozen=True)
 class Reading:
-    """The unit system the engine is run in, and the units the numbers are shown in."""
+    """The unit system the engine is run in, and the units the numbers are shown in.
 
-    preset: object
+    ``preset`` is the preset whose units the engine runs in (``None`` in atomic units: no preset,
+    or the plasma preset); ``trade`` is the preset asked for (:data:`NO_PRESET` for none)."""
+
+    preset: Preset | None
     units: UnitSystem
     energy_unit: str      # shown unit of energies
     energy_factor: float  # engine energy unit -> shown unit
     length_unit: str
     length_factor: float  # engine length unit -> shown unit
     description: str
+    trade: Preset = NO_PRESET
 
     def engine_length(self, value, unit) -> float:
         """A length given in ``unit`` as the engine's length unit."""
-        if unit == "a*":
-            if not isinstance(self.preset, Semiconductor):
-                raise InputError("--length-unit a* needs --preset semiconductor (a* = ε_r/μ* bohr)")
-            metres = value * self.preset.effective.length_m
+        if unit in self.trade.named_length_units:
+            metres = value * self.trade.named_length_m(unit)
+        elif (owner := _naming(unit)) is not None:
+            raise InputError(f"--length-unit {unit} needs --preset {owner.kind} "
+                             f"({unit} = {owner.named_length_units[unit]})")
         else:
             metres = convert(value, unit, "m")
         return metres / self.units.length_m
 
 
+def _naming(unit):
+    # The preset that alone names a length unit (a* = ε_r/μ* bohr), or None.
+    return next((cls for cls in PRESETS.values() if unit in cls.named_length_units), None)
+
+
+def _flag_value(args, flag):
+    return getattr(args, flag.lstrip("-").replace("-", "_"))
+
+
 def _needs(args, flag, why):
-    value = getattr(args, flag.lstrip("-").replace("-", "_"))
+    value = _flag_value(args, flag)
     if value is None:
         raise InputError(f"{flag} is required with {why}")
     return value
@@ -79,50 +93,41 @@ def _needs(args, flag, why):
 
 def _refuse(args, flags, why):
     for flag in flags:
-        if getattr(args, flag.lstrip("-").replace("-", "_")) is not None:
+        if _flag_value(args, flag) is not None:
             raise InputError(f"{flag} does not apply {why}")
+
+
+def _own_flags(cls):
+    # The flags only this preset takes: those that build it, and its own strength flag.
+    strength = () if cls.strength_flag == "--strength" else (cls.strength_flag,)
+    return tuple(flag for flag, _, _ in cls.command_line) + strength
 
 
 def reading_of(args) -> Reading:
     """The reading the command line asks for; checks that every preset flag fits the preset."""
-    if args.preset != "semiconductor":
-        _refuse(args, ("--effective-mass", "--hole-mass", "--permittivity"), "without --preset semiconductor")
-    if args.preset != "nuclear":
-        _refuse(args, ("--reduced-mass", "--coupling"), "without --preset nuclear")
-    if args.preset is None or args.preset == "plasma":
-        shown = ("eV", convert(1.0, "hartree", "eV"), "nm", BOHR_M / 1e-9) if args.preset else \
-            ("hartree", 1.0, "bohr", 1.0)
-        return Reading(None, ATOMIC, *shown, "atomic units" + (", plasma preset" if args.preset else ""))
-    if args.preset == "semiconductor":
-        if args.mass is not None:
-            raise InputError("--mass does not apply with --preset semiconductor: μ* comes from --effective-mass "
-                             "(and --hole-mass for an exciton)")
-        semi = Semiconductor(effective_mass=_needs(args, "--effective-mass", "--preset semiconductor"),
-                             permittivity=_needs(args, "--permittivity", "--preset semiconductor"),
-                             hole_mass=args.hole_mass)
-        units = semi.effective
-        what = "exciton" if semi.is_exciton else "donor"
-        return Reading(semi, units, "meV", units.energy_eV * 1e3, "nm", units.length_m / 1e-9,
-                       f"{what}, μ* = {semi.reduced_mass:.6g}, ε_r = {semi.permittivity:g}: effective atomic units "
-                       f"a* = {units.length_m / 1e-9:.6g} nm, 2Ry* = {units.energy_eV * 1e3:.6g} meV")
-    if args.mass is not None:
-        raise InputError("--mass does not apply with --preset nuclear: the reduced mass is --reduced-mass (MeV/c²)")
-    nuc = Nuclear(reduced_mass_MeV=_needs(args, "--reduced-mass", "--preset nuclear"))
-    units = nuc.units
-    return Reading(nuc, units, "MeV", units.energy_J / MEV_J, "fm", units.length_m / 1e-15,
-                   f"nuclear, μ = {nuc.reduced_mass_MeV:g} MeV/c²")
+    for kind, cls in PRESETS.items():
+        if args.preset != kind:
+            _refuse(args, _own_flags(cls), f"without --preset {kind}")
+    cls = PRESETS[args.preset] if args.preset else NoPreset
+    if args.mass is not None and cls.mass_given_by:
+        raise InputError(f"--mass does not apply with --preset {args.preset}: {cls.mass_given_by}")
+    why = f"--preset {args.preset}"
+    preset = cls(**{field: _needs(args, flag, why) if required else _flag_value(args, flag)
+                    for flag, field, required in cls.command_line})
+    shown = preset.command_line_reading()
+    return Reading(None if shown["units"] is ATOMIC else preset, trade=preset, **shown)
 
 
 def engine_strength(args, reading: Reading) -> tuple[float, str]:
     """The engine strength and how the header names it."""
-    if isinstance(reading.preset, Nuclear):
+    preset = reading.trade
+    if preset.strength_flag != "--strength":
         if args.strength is not None:
-            raise InputError("--strength does not apply with --preset nuclear: give --coupling (g², MeV fm)")
-        g2 = _needs(args, "--coupling", "--preset nuclear")
-        return float(reading.preset.strength_for(g2)), f"g² = {g2:g} MeV fm"
+            raise InputError(f"--strength does not apply with --preset {preset.kind}: give {preset.strength_flag} "
+                             f"({preset.strength_meaning})")
+        return preset.strength_input(_needs(args, preset.strength_flag, f"--preset {preset.kind}"))
     if args.strength is None:
         if args.family == "tabulated":
             return 1.0, "strength 1 (scale factor on the table, the default)"
         raise InputError(f"--strength is required for family {args.family}")
-    what = "donor charge" if isinstance(reading.preset, Semiconductor) and not reading.preset.is_exciton else "strength"
-    return float(args.strength), f"{what} {args.strength:g}"
+    return preset.strength_input(args.strength)

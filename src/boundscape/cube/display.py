@@ -8,25 +8,18 @@ to be read.  :func:`readable` returns a copy for display only: its ``units`` str
 
 from __future__ import annotations
 
-from scipy import constants as sc
-
 from ..errors import InputError
-from ..physics.presets import Nuclear, Plasma, Semiconductor
 from ..physics.units import BOHR_M, HARTREE_J
 from .physical import preset_of
 
-__all__ = ["readable", "DISPLAY_UNITS"]
+__all__ = ["readable"]
 
 _ENERGIES = ("energy", "energy_error", "binding_energy", "line_energy", "line_shift")
 _LENGTHS = ("screening_length", "mean_radius", "critical_screening_length")
 
-# (energy unit, its size in J, length unit, its size in m) of each reading.
-DISPLAY_UNITS = {
-    "atomic": ("hartree", HARTREE_J, "bohr", BOHR_M),
-    Plasma: ("eV", sc.electron_volt, "nm", sc.nano),
-    Semiconductor: ("meV", sc.milli * sc.electron_volt, "nm", sc.nano),
-    Nuclear: ("MeV", sc.mega * sc.electron_volt, "fm", sc.femto),
-}
+# (energy unit, its size in J, length unit, its size in m) of the atomic reading; a preset's are
+# its energy_unit and length_unit.
+ATOMIC_DISPLAY = ("hartree", HARTREE_J, "bohr", BOHR_M)
 
 
 def readable(ds, units: str = "atomic"):
@@ -48,12 +41,12 @@ def readable(ds, units: str = "atomic"):
         dimensionless quantities lose their ``units = "1"`` so labels carry no "[1]".
     """
     if units == "atomic":
-        e_name, e_J, l_name, l_m = DISPLAY_UNITS["atomic"]
+        e_name, e_J, l_name, l_m = ATOMIC_DISPLAY
     elif units == "preset":
         preset, _ = preset_of(ds)
-        if preset is None:
+        if preset.kind is None:
             raise InputError("this cube names no preset; use units='atomic'")
-        e_name, e_J, l_name, l_m = DISPLAY_UNITS[type(preset)]
+        (e_name, e_J), (l_name, l_m) = preset.energy_unit, preset.length_unit
     else:
         raise InputError(f"units must be 'atomic' or 'preset', got {units!r}")
     out = ds.copy()

@@ -24,7 +24,7 @@ from ..checks import positive
 from ..errors import InputError
 
 __all__ = [
-    "HARTREE_J", "HARTREE_EV", "BOHR_M", "ELECTRON_MASS_KG", "ELECTRON_MASS_MEV", "HBAR_C_MEV_FM",
+    "HARTREE_J", "HARTREE_EV", "BOHR_M", "ELECTRON_MASS_KG", "HBAR_C_MEV_FM",
     "HARTREE_UDUNITS", "BOHR_UDUNITS", "UNITS", "convert", "quantity_of", "udunits_scaled",
     "UnitSystem", "ATOMIC", "effective_atomic_units", "nuclear_units",
 ]
@@ -33,7 +33,6 @@ HARTREE_J = _pc["Hartree energy"][0]
 HARTREE_EV = _pc["Hartree energy in eV"][0]
 BOHR_M = _pc["Bohr radius"][0]
 ELECTRON_MASS_KG = sc.m_e
-ELECTRON_MASS_MEV = _pc["electron mass energy equivalent in MeV"][0]
 HBAR_C_MEV_FM = _pc["reduced Planck constant times c in MeV fm"][0]
 MEV_J = sc.mega * sc.electron_volt
 FM_M = sc.femto

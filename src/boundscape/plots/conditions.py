@@ -16,7 +16,7 @@ import numpy as np
 from matplotlib.figure import Figure
 
 from ..labels import state_label
-from ..physics.presets import Nuclear, Plasma, loss_density, screening_length_at
+from ..physics.presets import NO_PRESET
 from ..physics.units import convert
 from .level_fan import fan_strengths
 from .style import HALO, cell_edges, count_colorbar, count_norm, cube_unit_system, family_title
@@ -35,8 +35,8 @@ def surviving_levels(ds, strength, screening_length):
     return (lam[..., None] > lc).sum(axis=-1)
 
 
-def _charge(preset, strength):
-    return float(strength) if isinstance(preset, Plasma) else float(preset.donor_charge(strength))
+def _charge(ds, preset, strength):
+    return float(preset.strength_values(strength, float(ds.attrs.get("mass", 1.0))))
 
 
 def _axis_values(spec, default):
@@ -46,42 +46,47 @@ def _axis_values(spec, default):
     return np.asarray(spec, dtype=float)
 
 
-def condition_map(ds, preset, settings=None):
+def condition_map(ds, preset=NO_PRESET, settings=None):
     """Surviving stored levels over carrier density (× temperature): plasma or semiconductor preset.
 
-    A state survives where the preset's screening length at (n, T) exceeds its stored λ_c.
+    A state survives where the preset's screening length at (n, T) exceeds its stored λ_c.  The
+    preset's :attr:`~boundscape.physics.presets.Preset.condition_axes` say how the map reads it,
+    its ``validity_field`` and ``validity_density`` where its screening model fails.
 
     Returns
     -------
-    fig : matplotlib.figure.Figure or None (nuclear, or no preset: no density axis)
+    fig : matplotlib.figure.Figure or None (a preset without a density reading, or none)
     data : dict
         ``density_cm3``, ``temperature``, ``screening_length`` (T × n, cube units) and ``count``
         (T × n) per strength.
     """
     settings = settings or {}
-    if isinstance(preset, Nuclear) or preset is None:
+    axes_of = preset.condition_axes
+    if axes_of is None:
         return None, {}
     units = cube_unit_system(ds, preset)
-    is_plasma = isinstance(preset, Plasma)
-    two_d = is_plasma or preset.screening == "debye"
-    if is_plasma:
-        temperature = _axis_values(settings.get("temperature_eV"), {"start": 0.1, "stop": 1e4, "num": 81})
-        t_label = "electron temperature T_e (eV)"
+    two_d = axes_of.temperature_fixed is None
+    if two_d:
+        temperature = _axis_values(settings.get(axes_of.temperature_key), axes_of.temperature_default)
     else:
-        temperature = _axis_values(settings.get("temperature_K"), {"start": 4, "stop": 600, "num": 61}) \
-            if two_d else np.array([preset.temperature_K])
-        t_label = "carrier temperature T (K)"
+        temperature = np.array([axes_of.temperature_fixed])
+    t_label = axes_of.temperature_label
     lc_all = ds["critical_screening_length"].values
     lc_all = lc_all[np.isfinite(lc_all) & (lc_all > 0)] * units.length_m
     if lc_all.size == 0:
         return None, {}
     # Default densities: from where every stored state survives to where the deepest is lost.
-    ends = [loss_density(preset, lc_all.max(), temperature[0]) / 30, loss_density(preset, lc_all.min(), temperature[-1]) * 30]
+    ends = [preset.loss_density(lc_all.max(), temperature[0]) / 30,
+            preset.loss_density(lc_all.min(), temperature[-1]) * 30]
     density = _axis_values(settings.get("density_cm3"), {
         "start": float(convert(ends[0], "m-3", "cm-3")), "stop": float(convert(ends[1], "m-3", "cm-3")), "num": 121})
     n_m3 = convert(density, "cm-3", "m-3")
-    lam_m = np.array([screening_length_at(preset, n_m3, t) for t in temperature])  # (T, n)
+    lam_m = np.array([preset.screening_length_at(n_m3, t) for t in temperature])  # (T, n)
     lam = lam_m / units.length_m
+    # Where the screening model fails: a field equal to 1 there, or a density per temperature.
+    validity = preset.validity_field(n_m3, lam_m)
+    boundary = preset.validity_density(temperature)
+    boundary = None if boundary is None else convert(boundary, "m-3", "cm-3")
     stored = ds["strength"].values
     chosen = settings.get("strengths")
     strengths = _axis_values(chosen, list(stored if stored.size <= MAX_PANELS else fan_strengths(stored, 4)))
@@ -93,11 +98,10 @@ def condition_map(ds, preset, settings=None):
     nrows = -(-len(strengths) // ncols)
     fig = Figure(figsize=(4.3 * ncols + 1.2, 3.4 * nrows + 0.4), layout="constrained")
     axes = fig.subplots(nrows, ncols, sharex=True, sharey=True, squeeze=False).ravel()
-    # A hydrogen-like ion of nuclear charge Z carries charge Z − 1: the strength is the nucleus's.
-    what = "nuclear charge Z" if is_plasma else ("pair charge Z" if preset.is_exciton else "donor charge Z")
+    what = axes_of.charge_name
     l0 = ds["l"].values[0]
     for ax, s in zip(axes, strengths):
-        charge = _charge(preset, s)
+        charge = _charge(ds, preset, s)
         ax.set(xscale="log", title=f"{what} = {charge:g}", xlim=(density.min(), density.max()))
         if two_d:
             mesh = ax.pcolormesh(cell_edges(density), cell_edges(temperature), counts[s], cmap=cmap, norm=norm, rasterized=True)
@@ -111,7 +115,7 @@ def condition_map(ds, preset, settings=None):
             if not (math.isfinite(value) and value > 0):
                 continue
             name = state_label(int(ds["n"].sel(l=l0).values[n_r]), int(l0))
-            loss = convert(np.array([float(loss_density(preset, value * units.length_m, t)) for t in temperature]),
+            loss = convert(np.array([float(preset.loss_density(value * units.length_m, t)) for t in temperature]),
                            "m-3", "cm-3")
             if two_d:
                 ax.plot(loss, temperature, "--", color="white", lw=1, path_effects=HALO)
@@ -126,45 +130,31 @@ def condition_map(ds, preset, settings=None):
                 ax.axvline(loss[0], ls="--", color="C0", lw=1)
                 ax.annotate(f"{name} lost", (loss[0], top), rotation=90, fontsize=7, xytext=(-8, 0),
                             textcoords="offset points", ha="center", va="top", color="C0")
-        if is_plasma:
-            # Debye–Hückel screening needs many electrons in a Debye sphere, N_D = (4π/3) n λ_D³ ≫ 1.
-            n_debye = 4 * math.pi / 3 * n_m3[None, :] * lam_m ** 3
-            if n_debye.min() < 1 < n_debye.max():
-                ax.contour(density, temperature, n_debye, levels=[1.0], colors="red", linestyles=":", linewidths=1.2)
-        else:
-            # Thomas–Fermi screening needs a degenerate gas (E_F > k_B T), Debye screening a
-            # non-degenerate one: mark where E_F = k_B T, n = (2 m_e* k_B T)^{3/2}/(3π² ħ³).
-            n_deg = convert(preset.degenerate_density(temperature), "m-3", "cm-3")
-            if two_d:
-                ax.plot(n_deg, temperature, ":", color="red", lw=1.2, gid="degenerate")
-            elif density.min() < n_deg[0] < density.max():
-                ax.axvspan(density.min(), n_deg[0], color="0.85", zorder=0, gid="degenerate")
-                ax.axvline(n_deg[0], ls=":", color="red", lw=1.2)
+        if validity is not None and validity.min() < 1 < validity.max():
+            ax.contour(density, temperature, validity, levels=[1.0], colors="red", linestyles=":", linewidths=1.2)
+        if boundary is not None and two_d:
+            ax.plot(boundary, temperature, ":", color="red", lw=1.2, gid=axes_of.validity_gid)
+        elif boundary is not None and density.min() < boundary[0] < density.max():
+            ax.axvspan(density.min(), boundary[0], color="0.85", zorder=0, gid=axes_of.validity_gid)
+            ax.axvline(boundary[0], ls=":", color="red", lw=1.2)
     for ax in axes[len(strengths):]:
         ax.set_visible(False)
     for ax in axes[:len(strengths)]:
         if ax.get_subplotspec().is_last_row():
-            ax.set_xlabel("electron density n_e (cm⁻³)" if is_plasma else "carrier density n (cm⁻³)")
+            ax.set_xlabel(axes_of.density_label)
         if ax.get_subplotspec().is_first_col():
             ax.set_ylabel(t_label if two_d else "surviving stored bound states")
     if two_d:
         count_colorbar(fig, mesh, list(axes[:len(strengths)]), top, "surviving stored bound states (all l)")
     handles = [matplotlib.lines.Line2D([], [], color="0.4" if two_d else "C0", ls="--",
                                        label=f"loss of the lowest l = {l0} states")]
-    if is_plasma:
-        handles.append(matplotlib.lines.Line2D([], [], color="red", ls=":",
-                                               label="N_D = 1 (Debye picture fails to the right)"))
-    elif two_d:
-        handles.append(matplotlib.lines.Line2D([], [], color="red", ls=":",
-                                               label="E_F = k_B T (non-degenerate Debye picture fails to the right)"))
+    if two_d:
+        handles.append(matplotlib.lines.Line2D([], [], color="red", ls=":", label=axes_of.validity_label))
     else:
-        handles.append(matplotlib.patches.Patch(color="0.85", label=f"E_F < k_B T at {preset.temperature_K:g} K: "
-                                                "not degenerate, Thomas–Fermi fails"))
+        handles.append(matplotlib.patches.Patch(color="0.85", label=axes_of.validity_label))
     fig.legend(handles=handles, loc="outside lower center", fontsize=7, ncols=2)
-    shown = ", ".join(f"{_charge(preset, s):g}" for s in strengths)
+    shown = ", ".join(f"{_charge(ds, preset, s):g}" for s in strengths)
     note = "" if len(strengths) == stored.size else \
         f" (panels: {shown} of the {stored.size} stored; preset.map.strengths chooses)"
-    where = "electron density and temperature" if is_plasma else ("carrier density and temperature" if two_d else
-                                                                   f"carrier density at {preset.temperature_K:g} K")
-    fig.suptitle(f"{family_title(ds)}: surviving stored states over {where}{note}", fontsize=9)
+    fig.suptitle(f"{family_title(ds)}: surviving stored states over {axes_of.over}{note}", fontsize=9)
     return fig, {"density_cm3": density, "temperature": temperature, "screening_length": lam, "count": counts}

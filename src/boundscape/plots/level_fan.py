@@ -11,7 +11,7 @@ import numpy as np
 from matplotlib.figure import Figure
 
 from ..labels import state_label
-from ..physics.presets import Nuclear
+from ..physics.presets import NO_PRESET
 from .style import energy_unit, family_title, length_label, strength_label, strength_values, tidy_log_axis, unit_names
 
 __all__ = ["level_fan", "fan_strengths", "place_in_rows"]
@@ -47,14 +47,10 @@ def place_in_rows(positions, width):
 
 def _strength_text(ds, z, preset):
     shown = float(strength_values(ds.sel(strength=[z]), preset)[0])
-    if isinstance(preset, Nuclear):
-        return f"g² = {shown:.4g} MeV fm"
-    if preset is not None or strength_label(ds) == "strength Z":
-        return f"Z = {shown:g}"
-    return f"strength {shown:g}"
+    return preset.strength_text(shown, ds["strength"].attrs)
 
 
-def level_fan(ds, strengths=None, preset=None):
+def level_fan(ds, strengths=None, preset=NO_PRESET):
     """−E_nl against λ, one row per chosen strength and one panel per l; each state's critical length marked.
 
     Returns

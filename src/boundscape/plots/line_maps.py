@@ -10,7 +10,7 @@ from matplotlib.figure import Figure
 from scipy import constants
 
 from ..labels import parse_state
-from ..physics.presets import Plasma, Semiconductor, loss_density
+from ..physics.presets import NO_PRESET
 from ..physics.units import convert
 from .style import (HALO, cell_edges, cube_unit_system, family_title, length_label, strength_label, strength_values,
                     tidy_log_axis, value_ticks)
@@ -31,7 +31,7 @@ def line_loss_length(ds, m):
     return np.fmax(_critical(ds, str(ds["line_lower"].values[m])), _critical(ds, str(ds["line_upper"].values[m])))
 
 
-def line_shift_map(ds, m, preset=None):
+def line_shift_map(ds, m, preset=NO_PRESET):
     """Relative shift |ΔE − ΔE₀|/ΔE₀ of line ``m`` over (strength, λ), with its loss curve.
 
     Returns
@@ -86,7 +86,7 @@ def _wavelength_nm(ds):
         return constants.h * constants.c / joules / constants.nano  # (strength, line)
 
 
-def line_survival_chart(ds, preset=None):
+def line_survival_chart(ds, preset=NO_PRESET):
     """Where each line disappears: per line and strength, the screening length below which it is
     gone (under the plasma or semiconductor preset, the carrier density above which it is gone)
     against its vacuum wavelength in nm.
@@ -102,19 +102,16 @@ def line_survival_chart(ds, preset=None):
     labels = [str(v) for v in ds["line_label"].values]
     loss = np.stack([line_loss_length(ds, m) for m in range(len(labels))], axis=1)  # (strength, line)
     wavelength = _wavelength_nm(ds)
-    density = isinstance(preset, (Plasma, Semiconductor))
+    density = preset.density_name is not None
     if density:
         length_m = cube_unit_system(ds, preset).length_m
-        temperature = preset.temperature_eV if isinstance(preset, Plasma) else preset.temperature_K
         with np.errstate(divide="ignore", invalid="ignore"):
             threshold = np.where(np.isfinite(loss) & (loss > 0),
-                                 convert(np.asarray(loss_density(preset, np.where(loss > 0, loss, 1.0) * length_m,
-                                                                 temperature), dtype=float), "m-3", "cm-3"),
+                                 convert(np.asarray(preset.loss_density(np.where(loss > 0, loss, 1.0) * length_m),
+                                                    dtype=float), "m-3", "cm-3"),
                                  np.nan)
-        who = "electron" if isinstance(preset, Plasma) else "carrier"
-        where = (f"at T_e = {preset.temperature_eV:g} eV" if isinstance(preset, Plasma)
-                 else f"({preset.screening})")
-        xlabel = f"{who} density above which the line is gone (cm⁻³, {where})"
+        who = preset.density_name.replace("_", " ")
+        xlabel = f"{who} above which the line is gone (cm⁻³, {preset.density_note})"
     else:
         threshold = np.where(loss > 0, loss, np.nan)
         xlabel = f"screening length below which the line is gone ({length_label(ds, preset).rsplit('(', 1)[-1]}"

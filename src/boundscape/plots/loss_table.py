@@ -7,17 +7,18 @@ import csv
 import math
 
 from ..labels import state_label
-from ..physics.presets import Nuclear, Plasma, Semiconductor, loss_density
-from ..physics.units import BOHR_M, convert
-from .style import cube_unit_system, length_unit
+from ..physics.presets import NO_PRESET
+from ..physics.units import BOHR_M
+from .style import cube_unit_system
 
 __all__ = ["critical_rows", "write_critical_csv"]
 
 
-def critical_rows(ds, preset=None):
-    """One row per stored (strength, l, n_r): λ_c in bohr, in the preset's unit, and its loss density."""
+def critical_rows(ds, preset=NO_PRESET):
+    """One row per stored (strength, l, n_r): λ_c in bohr, then the preset's columns (in its unit,
+    its loss density or coupling: :meth:`~boundscape.physics.presets.Preset.critical_length_columns`)."""
     units_m = cube_unit_system(ds, preset).length_m
-    unit, factor = length_unit(ds, preset)
+    mass = float(ds.attrs.get("mass", 1.0))
     flags = ds["critical_screening_length_flag"] if "critical_screening_length_flag" in ds else None
     meanings = flags.attrs["flag_meanings"].split() if flags is not None else []
     rows = []
@@ -29,18 +30,7 @@ def critical_rows(ds, preset=None):
                 row = {"strength": float(z), "n": n, "l": int(l), "n_r": int(n_r), "state": state_label(n, int(l)),
                        # Atomic-unit cubes keep every stored digit; others convert to bohr.
                        "critical_screening_length_bohr": lc if units_m == BOHR_M else lc * units_m / BOHR_M}
-                if unit:
-                    row[f"critical_screening_length_{unit}"] = lc * factor
-                if isinstance(preset, (Plasma, Semiconductor)):
-                    t = preset.temperature_eV if isinstance(preset, Plasma) else preset.temperature_K
-                    density = float(loss_density(preset, lc * units_m, t)) if math.isfinite(lc) and lc > 0 else math.nan
-                    key = "loss_electron_density_cm-3" if isinstance(preset, Plasma) else "loss_carrier_density_cm-3"
-                    row[key] = convert(density, "m-3", "cm-3")
-                if isinstance(preset, Nuclear):
-                    g2 = float(preset.coupling_MeV_fm(z, float(ds.attrs.get("mass", 1.0))))
-                    row["coupling_MeV_fm"] = g2
-                    # 2μg²λ_c/ħ²: the one-scale threshold, 2/1.19061 for the Yukawa ground state.
-                    row["two_mu_g2_lambda_over_hbar2"] = 2 * float(preset.dimensionless(g2, lc * factor))
+                row.update(preset.critical_length_columns(z, lc, mass))
                 if flags is not None:
                     row["flag"] = meanings[int(flags.sel(strength=z, l=l, n_r=n_r))]
                 rows.append(row)
@@ -60,7 +50,7 @@ def _shown(key, value):
     return f"{value:.13g}"
 
 
-def write_critical_csv(ds, path, preset=None):
+def write_critical_csv(ds, path, preset=NO_PRESET):
     """Write ``critical_screening_lengths.csv`` (inf where never bound): stored values with every
     digit, derived ones (other units, loss densities, g²) with 13 significant digits."""
     rows = critical_rows(ds, preset)

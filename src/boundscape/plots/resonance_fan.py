@@ -13,6 +13,7 @@ import numpy as np
 from matplotlib.figure import Figure
 
 from ..labels import state_label
+from ..physics.presets import NO_PRESET
 from .level_fan import LABEL_WIDTH, ROW_POINTS, fan_strengths, place_in_rows
 from .style import family_title, length_label, strength_label, strength_values, tidy_log_axis, unit_names
 
@@ -26,7 +27,7 @@ def _z_text(ds, z, preset):
     return f"{strength_label(ds, preset).split(' of ')[0]} = {shown:.4g}"
 
 
-def resonance_fan(ds, strengths=None, preset=None):
+def resonance_fan(ds, strengths=None, preset=NO_PRESET):
     """E against λ for every l ≥ 1 state: bound (E < 0) and past threshold E_r ± Γ/2.
 
     Returns

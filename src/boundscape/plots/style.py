@@ -13,8 +13,7 @@ from matplotlib import patheffects
 from matplotlib.colors import BoundaryNorm
 
 from ..labels import FAMILY_NAMES
-from ..physics.presets import Nuclear, Plasma, Semiconductor, cube_units
-from ..physics.units import convert
+from ..physics.presets import NO_PRESET
 
 __all__ = ["HALO", "RC", "cell_edges", "count_norm", "count_colorbar", "value_ticks", "tidy_log_axis",
            "strength_label", "strength_values", "family_title", "length_label", "cube_unit_system", "unit_names",
@@ -99,65 +98,46 @@ def family_title(ds):
     return f"{FAMILY_NAMES.get(family, family)} potential"
 
 
-def strength_values(ds, preset):
+def _cube_mass(ds):
+    return float(ds.attrs.get("mass", 1.0))
+
+
+def strength_values(ds, preset=NO_PRESET):
     """The strengths as plotted: g² in MeV fm under the nuclear preset, the donor charge under a
     semiconductor preset (Z, also where the cube holds Z/ε_r), the cube's axis otherwise."""
-    if isinstance(preset, Nuclear):
-        return np.asarray(preset.coupling_MeV_fm(ds["strength"].values, float(ds.attrs.get("mass", 1.0))))
-    if isinstance(preset, Semiconductor):
-        return np.asarray(preset.donor_charge(ds["strength"].values))
-    return ds["strength"].values
+    return preset.strength_values(ds["strength"].values, _cube_mass(ds))
 
 
-def strength_label(ds, preset=None):
-    if isinstance(preset, Nuclear):
-        return "coupling g² (MeV fm)"
-    if isinstance(preset, Plasma):
-        return "nuclear charge Z of the ion"
-    if isinstance(preset, Semiconductor):
-        return "charge number Z of the pair" if preset.is_exciton else "donor charge Z"
-    units = ds["strength"].attrs.get("units", "1")
-    name = ds["strength"].attrs.get("long_name", "strength")
-    if units == "1":
-        return "strength Z" if name.startswith("charge number") else f"strength ({name})"
-    return f"{name} (hartree)" if units.endswith(" J") else f"{name} ({units})"
+def strength_label(ds, preset=NO_PRESET):
+    return preset.strength_label(ds["strength"].attrs)
 
 
-def length_label(ds, preset=None):
+def length_label(ds, preset=NO_PRESET):
     """'screening length λ (bohr)', or the family's own name for the length (a well's radius)."""
     name = ds["screening_length"].attrs.get("long_name", "screening length")
     symbol = "λ" if name == "screening length" else "R"
     return f"{name} {symbol} ({unit_names(preset)[0]})"
 
 
-def cube_unit_system(ds, preset):
-    return cube_units(preset, float(ds.attrs.get("mass", 1.0)))
+def cube_unit_system(ds, preset=NO_PRESET):
+    return preset.unit_system(_cube_mass(ds))
 
 
-def unit_names(preset):
+def unit_names(preset=NO_PRESET):
     """Names of the cube's length and energy units: atomic, unless the preset reads them otherwise."""
-    if isinstance(preset, Semiconductor) and preset.units_choice == "effective":
-        return "effective Bohr radii a*", "effective hartrees 2Ry*"
-    if isinstance(preset, Nuclear):
-        if preset.length_fm == 1.0:
-            return "fm", "(ħc)²/(μc² fm²)"
-        return f"b = {preset.length_fm:g} fm", "(ħc)²/(μc² b²)"
-    return "bohr", "hartree"
+    return preset.unit_names()
 
 
-def energy_unit(ds, preset):
-    """(unit name, factor from the cube's energy unit) of the preset's energies: eV, meV, MeV."""
-    if preset is None:
-        return None, None
-    name, joules = {Plasma: ("eV", 1.0), Semiconductor: ("meV", 1e-3), Nuclear: ("MeV", 1e6)}[type(preset)]
-    return name, cube_unit_system(ds, preset).energy_J / convert(joules, "eV", "J")
+def energy_unit(ds, preset=NO_PRESET):
+    """(unit name, factor from the cube's energy unit) of the preset's energies: eV, meV, MeV;
+    (None, None) without a preset."""
+    return preset.shown_energy_unit(_cube_mass(ds))
 
 
-def length_unit(ds, preset):
-    """(unit name, factor from the cube's length unit) of the preset's physical length."""
-    if preset is None:
-        return None, None
-    return preset.length_unit, cube_unit_system(ds, preset).length_m / convert(1.0, preset.length_unit, "m")
+def length_unit(ds, preset=NO_PRESET):
+    """(unit name, factor from the cube's length unit) of the preset's physical length;
+    (None, None) without a preset."""
+    return preset.shown_length_unit(_cube_mass(ds))
 
 
 def save(fig, stem):

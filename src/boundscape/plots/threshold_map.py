@@ -8,6 +8,7 @@ from matplotlib.figure import Figure
 
 from ..engine import INPUT_REJECTED
 from ..labels import state_label
+from ..physics.presets import NO_PRESET
 from .resonance_overlay import draw_resonance_bands, has_resonances
 from .style import (HALO, cell_edges, count_colorbar, count_norm, family_title, length_label, length_unit,
                     strength_label, strength_values, tidy_log_axis, unit_names, value_ticks)
@@ -15,7 +16,7 @@ from .style import (HALO, cell_edges, count_colorbar, count_norm, family_title, 
 __all__ = ["threshold_map"]
 
 
-def threshold_map(ds, l, preset=None):
+def threshold_map(ds, l, preset=NO_PRESET):
     """(strength, λ) plane at one l, shaded by the exact bound-state count, with every loss curve.
 
     Returns

@@ -17,7 +17,7 @@ import yaml
 
 from ..engine import FAMILIES, ParameterError, potential
 from ..errors import InputError
-from ..physics.presets import Nuclear, Plasma, Semiconductor, from_config
+from ..physics.presets import PRESETS, from_config
 from .lines import check_lines
 
 __all__ = ["SCHEMA_PATH", "load_config", "schema_error", "validate_config", "config_text", "axis_values",
@@ -135,34 +135,15 @@ def _check_resonances(family, own):
 def _check_strength_axis(grid, preset):
     if ("strength" in grid) == ("coupling_MeV_fm" in grid):
         raise InputError("config key grid: give exactly one of strength and coupling_MeV_fm")
-    if "coupling_MeV_fm" in grid and not isinstance(preset, Nuclear):
-        raise InputError("config key grid.coupling_MeV_fm: a coupling g² in MeV fm needs preset kind nuclear; "
+    if "coupling_MeV_fm" in grid and "coupling_MeV_fm" not in preset.grid_axes:
+        kinds = " or ".join(kind for kind, cls in PRESETS.items() if "coupling_MeV_fm" in cls.grid_axes)
+        raise InputError(f"config key grid.coupling_MeV_fm: a coupling g² in MeV fm needs preset kind {kinds}; "
                          "use grid.strength otherwise")
 
 
 def _sweep_mass(mass, section: dict, preset) -> float:
     """The engine's reduced mass under the preset: given once, never applied twice."""
-    if isinstance(preset, Plasma) and "reduced_mass" in section:
-        if mass is not None and not math.isclose(mass, preset.reduced_mass):
-            raise InputError(f"config key potential.mass: {mass:g} differs from preset.reduced_mass "
-                             f"{preset.reduced_mass:g}; give the reduced mass once")
-        return float(preset.reduced_mass)
-    if isinstance(preset, Semiconductor) and preset.units_choice == "effective":
-        if mass is not None and not math.isclose(mass, 1.0):
-            raise InputError(f"config key potential.mass: in effective atomic units (preset semiconductor, units: "
-                             f"effective) μ* is the mass unit, so the mass is 1, got {mass:g}; μ* would count twice")
-        return 1.0
-    if isinstance(preset, Semiconductor):
-        if mass is not None and not math.isclose(mass, preset.reduced_mass):
-            raise InputError(f"config key potential.mass: preset semiconductor (units: atomic) needs potential.mass "
-                             f"= μ* = {preset.reduced_mass:g}, got {mass:g}")
-        return float(preset.reduced_mass)
-    if isinstance(preset, Nuclear):
-        if mass is not None and not math.isclose(mass, 1.0):
-            raise InputError(f"config key potential.mass: the nuclear preset's reduced mass is "
-                             f"preset.reduced_mass_MeV; leave potential.mass at 1, got {mass:g}")
-        return 1.0
-    return 1.0 if mass is None else float(mass)
+    return preset.sweep_mass(mass, section)
 
 
 def load_config(path) -> dict:

@@ -1,0 +1,46 @@
+"""Physical presets: plasma, semiconductor and nuclear conditions as engine parameters, and back.
+
+Each preset is one class (:class:`Preset`) that answers every question the cube, the figures,
+the command line and the workflow ask of it: in which :class:`~boundscape.physics.units.UnitSystem`
+a cube's numbers are read, which physical coordinates it gains, how its axes are labelled, which
+columns the loss table carries, how a condition map reads it, how the command line builds it and
+prints in its units.  :data:`NO_PRESET` answers the same questions for atomic units.  The engine
+itself only ever sees (strength, screening length, mass) in the preset's units.
+
+* plasma -- atomic units; the strength is the ion charge Z; λ is the Debye length.
+* semiconductor -- effective atomic units (strength = donor charge, mass 1, lengths in a*,
+  energies in 2Ry*) or true atomic units (strength = donor charge/ε_r, mass = μ*).
+* nuclear -- lengths in b fm, the engine's mass in multiples of μ/m, so that Z·m·λ = μ g² λ/(ħc)².
+"""
+
+from __future__ import annotations
+
+from ...errors import InputError
+from .base import NO_PRESET, ConditionAxes, EngineParameters, NoPreset, Preset, Unit
+from .carriers import CarrierScreening
+from .nuclear import Nuclear
+from .plasma import Plasma
+from .semiconductor import Semiconductor
+
+__all__ = ["Preset", "NoPreset", "NO_PRESET", "CarrierScreening", "Plasma", "Semiconductor", "Nuclear", "PRESETS",
+           "from_config", "EngineParameters", "Unit", "ConditionAxes"]
+
+# The config's preset.kind (and the command line's --preset) -> its class.
+PRESETS: dict[str, type[Preset]] = {cls.kind: cls for cls in (Plasma, Semiconductor, Nuclear)}
+
+
+def from_config(section: dict | None) -> Preset:
+    """The preset of the config's ``preset`` mapping (:data:`NO_PRESET` if absent)."""
+    if not section:
+        return NO_PRESET
+    section = dict(section)
+    kind = section.pop("kind", None)
+    if kind not in PRESETS:
+        raise InputError(f"preset.kind must be one of {', '.join(PRESETS)}, got {kind!r}")
+    section.pop("map", None)  # plotting ranges, read by the figures
+    cls = PRESETS[kind]
+    section = {cls.config_names.get(key, key): value for key, value in section.items()}
+    try:
+        return cls(**section)
+    except TypeError as exc:
+        raise InputError(f"preset {kind}: {exc}") from None

@@ -1,0 +1,255 @@
+"""What every preset answers, and the answers of the engine's own reading (atomic units).
+
+A preset is one class.  The cube, the figures, the command line and the workflow ask it their
+questions (which unit system a cube is read in, which coordinates it gains, how its strength axis
+is named, which columns the loss table carries, whether a condition map exists and how it reads)
+and never test its type.  :class:`Preset` holds the answers of a named preset read in atomic
+units; a trade overrides what differs; :class:`NoPreset` answers for a cube or command that names
+no preset, so that callers need not test for ``None`` either.
+
+Adding a preset: one module with one subclass (a frozen dataclass of its conditions), overriding
+what its trade reads differently, and one entry in ``PRESETS`` (``physics/presets/__init__.py``).
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+from typing import ClassVar, NamedTuple
+
+import numpy as np
+
+from ..units import ATOMIC, UnitSystem
+
+__all__ = ["EngineParameters", "Unit", "ConditionAxes", "Preset", "NoPreset", "NO_PRESET"]
+
+
+@dataclass(frozen=True)
+class EngineParameters:
+    """Engine inputs (strength, screening length, mass) in the units of ``units``."""
+
+    strength: float
+    screening_length: float
+    mass: float
+    units: UnitSystem
+
+
+class Unit(NamedTuple):
+    """A unit people read: its name and its size in SI units (J for an energy, m for a length)."""
+
+    name: str
+    size: float
+
+
+@dataclass(frozen=True)
+class ConditionAxes:
+    """How a condition map reads a preset: surviving states over a density (× a temperature).
+
+    Attributes
+    ----------
+    density_label : str
+        The density axis' label, in cm⁻³.
+    charge_name : str
+        What a panel's strength is ("nuclear charge Z").
+    temperature_label : str
+        The temperature axis' label, in the preset's temperature unit.
+    temperature_key : str
+        The ``preset.map`` key that sets the temperature axis.
+    temperature_default : dict
+        That axis when the key is absent: ``{start, stop, num}``, log-spaced.
+    temperature_fixed : float or None
+        Where the screening length does not depend on temperature, the one temperature drawn
+        (the map is a single density axis); ``None`` draws a temperature axis.
+    over : str
+        What the title says the map runs over.
+    validity_label : str
+        The legend entry of the line (or shaded range) where the screening model fails.
+    validity_gid : str or None
+        The matplotlib ``gid`` of that line, for tests and readers of the SVG/PDF.
+    """
+
+    density_label: str
+    charge_name: str
+    temperature_label: str
+    temperature_key: str
+    temperature_default: dict
+    temperature_fixed: float | None
+    over: str
+    validity_label: str
+    validity_gid: str | None = None
+
+
+class Preset:
+    """A named preset read in atomic units: the defaults each trade's preset overrides.
+
+    Class attributes
+    ----------------
+    kind : str or None
+        The config's ``preset.kind`` (``None``: no preset).
+    energy_unit, length_unit : Unit or None
+        The units the trade reads energies and lengths in (figures' second axes, ``readable``,
+        the loss table's length column); ``None``: the cube's own units are the trade's.
+    grid_axes : tuple of str
+        Grid keys, besides the engine's own, that the preset reads (``coupling_MeV_fm``).
+    config_names : dict
+        Config keys spelled differently from the class's fields (``units`` → ``units_choice``).
+    command_line : tuple of (flag, field, required)
+        The command-line flags that build the preset, in the order they are checked.
+    strength_flag, strength_meaning : str
+        The flag that gives the strength under this preset, and what it holds.
+    mass_given_by : str or None
+        Why ``--mass`` does not apply (the preset gives the mass), or ``None`` if it does.
+    named_length_units : dict
+        Length units only this preset can read (``{"a*": "ε_r/μ* bohr"}``), with their meaning.
+    density_name : str or None
+        The density a screening length stands for (``electron_density``); ``None`` if none.
+    """
+
+    kind: ClassVar[str | None] = None
+    energy_unit: ClassVar[Unit | None] = None
+    length_unit: ClassVar[Unit | None] = None
+    grid_axes: ClassVar[tuple[str, ...]] = ()
+    config_names: ClassVar[dict[str, str]] = {}
+    command_line: ClassVar[tuple[tuple[str, str, bool], ...]] = ()
+    strength_flag: ClassVar[str] = "--strength"
+    strength_meaning: ClassVar[str] = "the engine's strength"
+    mass_given_by: ClassVar[str | None] = None
+    named_length_units: ClassVar[dict[str, str]] = {}
+    density_name: ClassVar[str | None] = None
+
+    # -- units ------------------------------------------------------------------------------
+    def unit_system(self, cube_mass: float = 1.0) -> UnitSystem:
+        """The unit system a cube of engine mass ``cube_mass`` is read in (raises
+        :class:`~boundscape.errors.InputError` if that mass does not fit the preset)."""
+        return ATOMIC
+
+    def unit_names(self) -> tuple[str, str]:
+        """Names of the cube's (length, energy) units, as axis labels say them."""
+        return "bohr", "hartree"
+
+    def shown_energy_unit(self, cube_mass: float = 1.0):
+        """(name, factor from the cube's energy unit) of the trade's energy unit."""
+        return self.energy_unit.name, self.unit_system(cube_mass).energy_J / self.energy_unit.size
+
+    def shown_length_unit(self, cube_mass: float = 1.0):
+        """(name, factor from the cube's length unit) of the trade's length unit."""
+        return self.length_unit.name, self.unit_system(cube_mass).length_m / self.length_unit.size
+
+    def sweep_mass(self, mass: float | None, section: dict) -> float:
+        """The engine's reduced mass for a sweep: ``potential.mass`` (``None`` if absent) under
+        this preset, whose config mapping is ``section``; given once, never applied twice."""
+        return 1.0 if mass is None else float(mass)
+
+    # -- the strength axis ------------------------------------------------------------------
+    def strength_values(self, strength, cube_mass: float = 1.0):
+        """The strengths as the trade reads them (a charge number, a coupling g²)."""
+        return np.asarray(strength)
+
+    def strength_label(self, attrs: dict) -> str:
+        """The strength axis' label; ``attrs`` are the cube's strength attributes."""
+        units = attrs.get("units", "1")
+        name = attrs.get("long_name", "strength")
+        if units == "1":
+            return "strength Z" if name.startswith("charge number") else f"strength ({name})"
+        return f"{name} (hartree)" if units.endswith(" J") else f"{name} ({units})"
+
+    def strength_text(self, value: float, attrs: dict) -> str:
+        """One strength, as a panel title names it (``value`` as :meth:`strength_values` gives it)."""
+        return f"Z = {value:g}" if self.strength_label(attrs) == "strength Z" else f"strength {value:g}"
+
+    @property
+    def strength_long_name(self) -> str | None:
+        """The cube's ``long_name`` of the strength axis (``None``: the family's own stands)."""
+        return None
+
+    # -- the cube ---------------------------------------------------------------------------
+    def physical_coordinates(self, strength, screening_length_m, cube_mass: float = 1.0) -> dict:
+        """The coordinates the preset adds to a cube: ``{name: (dimension, values, attributes)}``.
+
+        ``strength`` is the cube's strength axis, ``screening_length_m`` its screening lengths in
+        metres."""
+        unit = self.length_unit
+        return {f"screening_length_{unit.name}": ("screening_length", screening_length_m / unit.size, {
+            "long_name": f"screening length in {unit.name} ({self.kind} preset)", "units": unit.name})}
+
+    def cube_attributes(self, cube_mass: float = 1.0) -> dict:
+        """Global attributes naming the preset and the units it reads the cube in."""
+        units = self.unit_system(cube_mass)
+        return {"preset": self.kind, "preset_energy_unit_J": units.energy_J, "preset_length_unit_m": units.length_m}
+
+    def unit_notes(self, units: UnitSystem, cube_mass: float = 1.0) -> dict:
+        """Global ``comment`` and ``mass_units`` of a cube read in ``units`` (not atomic units)."""
+        return {}
+
+    def critical_length_columns(self, strength, critical_length: float, cube_mass: float = 1.0) -> dict:
+        """The loss table's columns of one stored critical length (cube units), beyond the bohr one."""
+        name, factor = self.shown_length_unit(cube_mass)
+        return {f"critical_screening_length_{name}": critical_length * factor}
+
+    # -- the condition map ------------------------------------------------------------------
+    @property
+    def condition_axes(self) -> ConditionAxes | None:
+        """How the condition map reads this preset (``None``: it has none)."""
+        return None
+
+    @property
+    def has_condition_map(self) -> bool:
+        return self.condition_axes is not None
+
+    def validity_field(self, density_m3, screening_length_m):
+        """A field over (temperature, density) equal to 1 where the screening model starts to
+        fail, or ``None``."""
+        return None
+
+    def validity_density(self, temperature):
+        """The density (m⁻³) per temperature at which the screening model starts to fail, or ``None``."""
+        return None
+
+    # -- the command line -------------------------------------------------------------------
+    def command_line_reading(self) -> dict:
+        """The unit system the command line runs the engine in and the units it prints:
+        ``units``, ``energy_unit``, ``energy_factor`` (engine → shown), ``length_unit``,
+        ``length_factor`` and a ``description``."""
+        raise NotImplementedError
+
+    def strength_input(self, value: float) -> tuple[float, str]:
+        """(engine strength, how a header names it) of the value given with :attr:`strength_flag`."""
+        return float(value), f"strength {value:g}"
+
+    def named_length_m(self, unit: str) -> float:
+        """The size in metres of a length unit in :attr:`named_length_units`."""
+        raise KeyError(unit)
+
+
+class NoPreset(Preset):
+    """No preset: the engine's own reading, atomic units (hartree, bohr, electron masses)."""
+
+    def __eq__(self, other):
+        return type(other) is NoPreset
+
+    def __hash__(self):
+        return hash(NoPreset)
+
+    def __repr__(self):
+        return "NoPreset()"
+
+    def shown_energy_unit(self, cube_mass: float = 1.0):
+        return None, None
+
+    def shown_length_unit(self, cube_mass: float = 1.0):
+        return None, None
+
+    def physical_coordinates(self, strength, screening_length_m, cube_mass: float = 1.0) -> dict:
+        return {}
+
+    def cube_attributes(self, cube_mass: float = 1.0) -> dict:
+        return {}
+
+    def critical_length_columns(self, strength, critical_length: float, cube_mass: float = 1.0) -> dict:
+        return {}
+
+    def command_line_reading(self) -> dict:
+        return {"units": ATOMIC, "energy_unit": "hartree", "energy_factor": 1.0, "length_unit": "bohr",
+                "length_factor": 1.0, "description": "atomic units"}
+
+
+NO_PRESET = NoPreset()
