@@ -8,7 +8,6 @@ import math
 
 from ..engine import FAMILIES, potential_from_spec
 from ..errors import InputError
-from ..labels import FAMILY_NAMES
 from .readings import add_preset_arguments, engine_strength, reading_of, significant
 
 __all__ = ["parse_l_values", "potential_args", "make_potential", "describe", "title"]
@@ -80,7 +79,7 @@ def title(pot, reading, strength_text, with_length=True):
         shown = pot.screening_length * reading.length_factor
         lam = f", λ = {shown:.10g} {reading.length_unit}"
     mass = f", mass {pot.mass:g} m_e" if reading.preset is None else ""
-    return f"{FAMILY_NAMES.get(pot.family, pot.family)}, {strength_text}{lam}{mass} ({reading.description})"
+    return f"{pot.info.display_name}, {strength_text}{lam}{mass} ({reading.description})"
 
 
 def atomic_potential(args, command: str):

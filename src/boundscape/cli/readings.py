@@ -13,6 +13,7 @@ import argparse
 import math
 from dataclasses import dataclass
 
+from ..engine import family_info
 from ..errors import InputError
 from ..physics.presets import NO_PRESET, PRESETS, NoPreset, Preset
 from ..physics.units import ATOMIC, UnitSystem, convert
@@ -127,7 +128,9 @@ def engine_strength(args, reading: Reading) -> tuple[float, str]:
                              f"({preset.strength_meaning})")
         return preset.strength_input(_needs(args, preset.strength_flag, f"--preset {preset.kind}"))
     if args.strength is None:
-        if args.family == "tabulated":
-            return 1.0, "strength 1 (scale factor on the table, the default)"
+        info = family_info(args.family)
+        if info.default_strength is not None:
+            return info.default_strength, (f"strength {info.default_strength:g} ({info.strength_meaning}, "
+                                           "the default)")
         raise InputError(f"--strength is required for family {args.family}")
     return preset.strength_input(args.strength)

@@ -12,7 +12,7 @@ import numpy as np
 from matplotlib import patheffects
 from matplotlib.colors import BoundaryNorm
 
-from ..labels import FAMILY_NAMES
+from ..engine import FAMILIES
 from ..physics.presets import NO_PRESET
 
 __all__ = ["HALO", "RC", "cell_edges", "count_norm", "count_colorbar", "value_ticks", "tidy_log_axis",
@@ -95,7 +95,7 @@ def value_ticks(axis, values, style="{:.3g}", width_fraction=0.09):
 
 def family_title(ds):
     family = ds.attrs.get("family", "")
-    return f"{FAMILY_NAMES.get(family, family)} potential"
+    return f"{FAMILIES[family].display_name if family in FAMILIES else family} potential"
 
 
 def _cube_mass(ds):

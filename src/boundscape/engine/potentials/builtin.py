@@ -28,6 +28,7 @@ class ScreenedCoulomb(Family):
 @register
 class Coulomb(Family):
     name, formula_text = "coulomb", "-Z/r"
+    display_name = "Coulomb"
     one_scale, analytic = True, True
 
     @staticmethod
@@ -50,6 +51,7 @@ class Coulomb(Family):
 @register
 class Yukawa(ScreenedCoulomb):
     name, formula_text = "yukawa", "-Z exp(-r/λ)/r"
+    display_name = "Yukawa"
     one_scale, analytic = True, True
 
     @staticmethod
@@ -60,6 +62,7 @@ class Yukawa(ScreenedCoulomb):
 @register
 class ExponentialCosineScreenedCoulomb(ScreenedCoulomb):
     name, formula_text = "ecsc", "-Z exp(-r/λ) cos(r/λ)/r"
+    display_name = "exponential-cosine-screened Coulomb"
     one_scale, analytic = True, True
 
     @staticmethod
@@ -71,6 +74,7 @@ class ExponentialCosineScreenedCoulomb(ScreenedCoulomb):
 @register
 class Hulthen(ScreenedCoulomb):
     name, formula_text = "hulthen", "-(Z/λ) exp(-r/λ)/(1-exp(-r/λ))"
+    display_name = "Hulthén"
     one_scale, analytic = True, True
 
     @staticmethod
@@ -83,6 +87,7 @@ class Hulthen(ScreenedCoulomb):
 @register
 class SquareWell(Family):
     name, formula_text = "square_well", "-Z for r<λ, 0 outside"
+    display_name = "square well"
     strength_meaning, length_meaning = "depth (hartree)", "radius λ (bohr)"
     strength_long_name, strength_dimension, length_long_name = "well depth", "energy", "radius of the well"
 
@@ -114,6 +119,7 @@ class SquareWell(Family):
 @register
 class Harmonic(Family):
     name, formula_text = "harmonic", "½ μ ω² r²"
+    display_name = "harmonic oscillator"
     strength_meaning = "ω (hartree/ħ)"
     strength_long_name, strength_dimension = "oscillator angular frequency", "angular_frequency"
 

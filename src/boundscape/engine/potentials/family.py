@@ -72,6 +72,7 @@ class Family:
     """
 
     name = ""
+    display_name = ""  # as figures and titles name it
     formula_text = ""
     one_scale = False  # E(Z, λ, μ) = Z²μ·E(1, Zμλ, 1) exactly: V = Z·f(r/λ)/r
     analytic = False  # the formula continues analytically to complex r (NumPy on complex arrays)

@@ -30,6 +30,7 @@ class Tabulated(Family):
     declared −Z/r tail beyond the last point; it becomes part of the table)."""
 
     name, formula_text = "tabulated", "strength × V_table(r) [× exp(-r/λ)]"
+    display_name = "tabulated"
     parameters = (Parameter("table", "", "tabulated potential V(r) (bohr, hartree)", numeric=False),
                   Parameter("screened", "1", "whether the table is multiplied by exp(-r/λ)", False, _flag),
                   Parameter("coulomb_tail", "1", "charge of a declared -Z/r tail beyond the table", None,
