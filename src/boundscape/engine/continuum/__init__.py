@@ -2,7 +2,7 @@
 exterior, the Siegert condition, poles followed from their thresholds, and what each lost state
 becomes (a shape resonance or a virtual state)."""
 
-from .resonances import Resonances, resonances
+from .lost_states import Resonances, resonances
 from .universal import dissolution_screening_length, load_trajectory_records, shares_trajectories, trajectory_records
 
 __all__ = ["Resonances", "resonances", "dissolution_screening_length", "shares_trajectories", "trajectory_records",

@@ -37,12 +37,15 @@ import numpy as np
 
 
 __all__ = ["riccati_hankel_log_derivative", "outgoing_log_derivative", "analytic_potential", "is_compact",
-           "exterior_cut", "CUT_TOLERANCE"]
+           "exterior_cut", "CUT_TOLERANCE", "ROUNDOFF", "EXTENDED_ROUNDOFF"]
 
 # The tail left out beyond the cut changes the exterior log-derivative by at most this, relative
 # (a first-order, Born, estimate of the neglected part; common practice, no source).
 CUT_TOLERANCE = 1e-15
 ROUNDOFF = 1e-16  # relative round-off of one carried solution (double precision)
+# ... in extended precision (numpy's long double: 64-bit mantissa on x86-64, quad on aarch64;
+# where it is no longer than a double, extended precision gains nothing and costs little)
+EXTENDED_ROUNDOFF = max(float(np.finfo(np.longdouble).eps), 1e-19)
 
 
 def riccati_hankel_log_derivative(l: int, z):
@@ -101,7 +104,7 @@ def is_compact(pot) -> bool:
 
 
 def exterior_cut(v_abs, t, r_abs, mass: float, k: complex, angle: float, t_ref: float | None = None,
-                 tolerance: float = CUT_TOLERANCE):
+                 tolerance: float = CUT_TOLERANCE, roundoff: float = ROUNDOFF):
     """Where along a path the potential may be left out, and what that costs.
 
     ``v_abs`` is |gV| sampled at path parameters ``t`` (ascending, from the matching point) with
@@ -113,9 +116,10 @@ def exterior_cut(v_abs, t, r_abs, mass: float, k: complex, angle: float, t_ref: 
 
     Where the outgoing wave grows along the path (σ < 0: a virtual state, or a resonance on the
     real axis) W is its small recessive partner's coefficient, so both that error and round-off
-    ε are amplified, relative to W, by G(t) = e^{−σ(t − t_ref)} (t_ref, default the first sample:
-    where the potential stops holding the solution).  The cut is the first sample with
-    δ ≤ ``tolerance`` if G is 1 there, else the one that minimises (max(δ, tolerance) + ε)·G.
+    ε (``roundoff``: that of double or of extended precision) are amplified, relative to W, by
+    G(t) = e^{−σ(t − t_ref)} (t_ref, default the first sample: where the potential stops holding
+    the solution).  The cut is the first sample with δ ≤ ``tolerance`` if G is 1 there, else
+    the one that minimises (max(δ, tolerance) + ε)·G.
 
     Returns (index of the cut, or None if the tail is not negligible anywhere on the sample;
     G there; (δ + ε)·G there, an estimate of the relative error the exterior leaves in W)."""
@@ -137,8 +141,8 @@ def exterior_cut(v_abs, t, r_abs, mass: float, k: complex, angle: float, t_ref: 
     delta = tail
     log_growth = np.minimum(max(0.0, -sigma) * np.maximum(t - (t[0] if t_ref is None else t_ref), 0.0), 700.0)
     growth = np.exp(log_growth)
-    cost = (np.maximum(delta, tolerance) + ROUNDOFF) * growth
+    cost = (np.maximum(delta, tolerance) + roundoff) * growth
     j = int(np.argmin(cost[:-1]))
     if not delta[j] < 1e-3:
         return None, math.inf, math.inf
-    return j, float(growth[j]), float((delta[j] + ROUNDOFF) * growth[j])
+    return j, float(growth[j]), float((delta[j] + roundoff) * growth[j])

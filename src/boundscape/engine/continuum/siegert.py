@@ -37,7 +37,8 @@ from scipy.optimize import brentq
 from ...errors import ConvergenceError
 from ..bound.mapping import origin_radius
 from ..richardson import extrapolate
-from .outgoing import CUT_TOLERANCE, analytic_potential, exterior_cut, is_compact, outgoing_log_derivative
+from .outgoing import (CUT_TOLERANCE, EXTENDED_ROUNDOFF, analytic_potential, exterior_cut, is_compact,
+                       outgoing_log_derivative)
 from .propagation import RadialMap, Segment, chain, chain_inward, running, step_matrices
 
 __all__ = ["Channel", "Contour", "FACTORS", "RAY_ANGLE", "NARROW_GROWTH", "MAX_CUT_ERROR"]
@@ -54,6 +55,10 @@ THRESHOLD_FACTORS = (2, 4, 8)
 RAY_ANGLE = math.radians(30.0)  # the exterior ray's angle, where the tail has a continuation
 NARROW_GROWTH = 10.0  # below this round-off amplification the real axis serves (narrow poles)
 MAX_CUT_ERROR = 1e-6  # a pole whose exterior cut leaves more relative error in W is out of reach
+# a contour whose cut leaves more than this in double precision is carried in extended precision
+# (the virtual states of exponential tails: the wave grows by e^{2κ_v R} across the tail, and
+# the cut that balances the neglected tail against round-off left 1e-9..1e-7 of κ_v in double)
+EXTEND_ABOVE = 1e-10
 SAMPLES = 400  # of the potential along a path, to place the cut, the well and the map
 
 
@@ -71,6 +76,7 @@ class Contour:
     r_end: complex
     growth: float  # round-off amplification of the outgoing solution along the outer segment
     cut_error: float = 0.0  # relative error the exterior cut leaves in W (tail left out, round-off)
+    extended: bool = False  # the steps are carried in numpy's extended precision (clongdouble)
     _points: dict = field(default_factory=dict, repr=False)
 
     @property
@@ -96,7 +102,11 @@ class Contour:
 
     def _steps(self, part, energy):
         h, d, v, cent = part
-        return step_matrices(h, d, cent + 2.0 * self.channel.mass * (self.g * v - energy))
+        q = cent + 2.0 * self.channel.mass * (self.g * v - energy)
+        if self.extended:  # the same steps, carried with a longer mantissa
+            return step_matrices(np.asarray(h, dtype=np.longdouble), np.asarray(d, dtype=np.clongdouble),
+                                 np.asarray(q, dtype=np.clongdouble))
+        return step_matrices(h, d, q)
 
     def regular_start(self):
         """(u, u') of the regular solution at the first node, to first order in the potential."""
@@ -250,6 +260,11 @@ class Channel:
             t_ref = float(t[free[-1]]) if free.size else float(t[0])
             j, growth, cut_error = exterior_cut(np.abs(g * v), t, t, mass, k, 0.0, t_ref=t_ref,
                                                 tolerance=self.tail_tolerance)
+            extended = j is not None and cut_error > EXTEND_ABOVE
+            if extended:  # a longer mantissa lets the cut move out, where less tail is left out
+                j, growth, cut_error = exterior_cut(np.abs(g * v), t, t, mass, k, 0.0, t_ref=t_ref,
+                                                    tolerance=min(self.tail_tolerance, EXTENDED_ROUNDOFF),
+                                                    roundoff=EXTENDED_ROUNDOFF)
             if j is None:
                 raise ValueError("the potential's tail decays no faster than the outgoing wave grows "
                                  "(past the branch point of an exponential tail, κ = half its decay rate)")
@@ -258,7 +273,7 @@ class Channel:
                                  f"relative error {cut_error:.1e} (the wave grows by {growth:.1e} across it)")
             R = float(t[j])
             rmap = self._map(g, k, [(t[: j + 1], v[: j + 1])])
-            return Contour(self, g, rmap, [self._segment(rmap, r0, R)], None, R, R, growth, cut_error)
+            return Contour(self, g, rmap, [self._segment(rmap, r0, R)], None, R, R, growth, cut_error, extended)
         r_m = self.matching_radius if self.matching_radius is not None else self.well_bottom(g)
         if r_m is None:
             raise ValueError("the effective potential has no well left to hold the state")
