@@ -18,7 +18,8 @@ from ..labels import FAMILY_NAMES
 from ..physics.units import BOHR_M, BOHR_UDUNITS, HARTREE_EV, HARTREE_J, HARTREE_UDUNITS, udunits_scaled
 from ..sweep.tiles import CRITICAL_FLAGS
 
-__all__ = ["build_cube", "chunk_shape", "CELL_DIMS", "LEVEL_DIMS", "CRITICAL_DIMS", "LEVEL_VARS"]
+__all__ = ["build_cube", "chunk_shape", "listing", "flag_attrs", "CELL_DIMS", "LEVEL_DIMS", "CRITICAL_DIMS",
+           "LEVEL_VARS", "MAX_LISTED"]
 
 CELL_DIMS = ("strength", "screening_length", "l")
 LEVEL_DIMS = CELL_DIMS + ("n_r",)
@@ -27,7 +28,7 @@ LEVEL_VARS = ("energy", "energy_error", "mean_radius")  # per level, along LEVEL
 # Chunks of about 1 MiB: small enough to read one slice lazily, big enough for zlib to pay
 # (common practice, no source).
 CHUNK_BYTES = 1 << 20
-MAX_LISTED = 2000  # flagged cells listed in an attribute; the tile logs hold the rest
+MAX_LISTED = 2000  # flagged cells or states listed in an attribute; the job logs hold the rest
 
 
 def _strength_units(family: str) -> tuple[str, str]:
@@ -48,10 +49,19 @@ def chunk_shape(shape, itemsize, target=CHUNK_BYTES):
     return tuple(max(1, c) for c in chunks)
 
 
-def _listing(lines):
+def listing(lines) -> str:
+    """One attribute's text listing flagged cells or states, one per line: at most
+    :data:`MAX_LISTED` of them (the job logs hold the rest), ``"none"`` if there are none."""
+    lines = list(lines)
     if len(lines) > MAX_LISTED:
         lines = lines[:MAX_LISTED] + [f"... and {len(lines) - MAX_LISTED} more (see the tile logs)"]
-    return "\n".join(lines)
+    return "\n".join(lines) or "none"
+
+
+def flag_attrs(flags) -> dict:
+    """CF ``flag_values`` and ``flag_meanings`` of a flag variable whose codes are the positions
+    in ``flags`` (a tuple of names), stored as int8."""
+    return {"flag_values": np.arange(len(flags), dtype=np.int8), "flag_meanings": " ".join(flags)}
 
 
 def build_cube(axes, levels, criticals, *, provenance):
@@ -116,10 +126,9 @@ def build_cube(axes, levels, criticals, *, provenance):
                        "many (a Coulomb tail or a confining potential)"}),
         "status": (CELL_DIMS, status, {
             "long_name": "solver status of the cell",
-            "flag_values": np.arange(len(LEVEL_STATUS), dtype=np.int8),
-            "flag_meanings": " ".join(LEVEL_STATUS),
+            **flag_attrs(LEVEL_STATUS),
             "flagged_cell_count": np.int32(flagged),
-            "flagged_cells": _listing(levels["reasons"]) or "none"}),
+            "flagged_cells": listing(levels["reasons"])}),
         "critical_screening_length": (CRITICAL_DIMS, criticals["critical_screening_length"], {
             "long_name": "critical screening length",
             **length_attrs, "ancillary_variables": "critical_screening_length_flag",
@@ -128,10 +137,9 @@ def build_cube(axes, levels, criticals, *, provenance):
                        "the grid's screening_length range"}),
         "critical_screening_length_flag": (CRITICAL_DIMS, criticals["critical_flag"].astype(np.int8), {
             "long_name": "position of the critical screening length against the grid",
-            "flag_values": np.arange(len(CRITICAL_FLAGS), dtype=np.int8),
-            "flag_meanings": " ".join(CRITICAL_FLAGS),
+            **flag_attrs(CRITICAL_FLAGS),
             "comment": "below_grid: bound over the whole grid; above_grid: not bound anywhere on it",
-            "flagged_states": _listing(criticals["reasons"]) or "none"}),
+            "flagged_states": listing(criticals["reasons"])}),
     }
     now = datetime.now(timezone.utc).replace(microsecond=0).isoformat()
     config = yaml.safe_load(provenance.get("config_yaml") or "") or {}
