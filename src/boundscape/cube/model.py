@@ -19,7 +19,7 @@ from ..physics.units import BOHR_M, BOHR_UDUNITS, HARTREE_EV, HARTREE_J, HARTREE
 from ..sweep.tiles import CRITICAL_FLAGS
 
 __all__ = ["build_cube", "chunk_shape", "listing", "flag_attrs", "CELL_DIMS", "LEVEL_DIMS", "CRITICAL_DIMS",
-           "LEVEL_VARS", "MAX_LISTED"]
+           "LEVEL_VARS", "MAX_LISTED", "NUM_BOUND_UNKNOWN", "FILL_VALUES"]
 
 CELL_DIMS = ("strength", "screening_length", "l")
 LEVEL_DIMS = CELL_DIMS + ("n_r",)
@@ -29,6 +29,11 @@ LEVEL_VARS = ("energy", "energy_error", "mean_radius")  # per level, along LEVEL
 # (common practice, no source).
 CHUNK_BYTES = 1 << 20
 MAX_LISTED = 2000  # flagged cells or states listed in an attribute; the job logs hold the rest
+# num_bound where the count is unknown (the cell's input rejected, or its solve failed): NetCDF's
+# default int fill value, so that -1 keeps the engine's meaning "infinitely many". Readers that
+# apply CF masking (xarray.open_dataset) see NaN there.
+NUM_BOUND_UNKNOWN = np.int32(-2147483647)
+FILL_VALUES = {"num_bound": NUM_BOUND_UNKNOWN}  # _FillValue of the integer variables that have one
 
 
 def _strength_units(family: str) -> tuple[str, str]:
@@ -73,8 +78,9 @@ def build_cube(axes, levels, criticals, *, provenance):
         ``strength``, ``screening_length`` (bohr), ``l`` and ``n_r_max``.
     levels : dict
         ``energy``, ``energy_error``, ``mean_radius`` (strength, screening_length, l, n_r);
-        ``num_bound``, ``status`` (strength, screening_length, l); ``reasons``, a list of one-line
-        texts naming each flagged cell.
+        ``num_bound`` (:data:`NUM_BOUND_UNKNOWN` where the count is unknown), ``status``
+        (strength, screening_length, l); ``reasons``, a list of one-line texts naming each
+        flagged cell.
     criticals : dict
         ``critical_screening_length`` and ``critical_flag`` (strength, l, n_r), ``reasons``.
     provenance : dict
@@ -120,10 +126,12 @@ def build_cube(axes, levels, criticals, *, provenance):
         "mean_radius": (LEVEL_DIMS, levels["mean_radius"], {
             "long_name": "mean radius <r>", **length_attrs, "bohr_in_m": BOHR_M}),
         "num_bound": (CELL_DIMS, levels["num_bound"].astype(np.int32), {
-            "long_name": "number of bound states of this l", "units": "1",
-            "comment": "exact count from the nodes of the zero-energy solution; levels with "
-                       f"n_r >= {axes['n_r_max']} are counted but not stored; -1 means infinitely "
-                       "many (a Coulomb tail or a confining potential)"}),
+            "long_name": "number of bound states of this l", "units": "1", "ancillary_variables": "status",
+            "comment": "exact count from the nodes of the zero-energy solution, also where some level of the "
+                       f"cell did not converge; levels with n_r >= {axes['n_r_max']} are counted but not "
+                       "stored; -1 means infinitely many (a Coulomb tail or a confining potential); "
+                       f"_FillValue ({int(NUM_BOUND_UNKNOWN)}) where the count is unknown: the cell's input "
+                       "was rejected or its solve failed (see status)"}),
         "status": (CELL_DIMS, status, {
             "long_name": "solver status of the cell",
             **flag_attrs(LEVEL_STATUS),
