@@ -5,8 +5,8 @@
 rule check_parts:
     input:
         ENGINE_INPUTS,
-        tiles=expand(f"{RESULTS}/{TILE_FILE}", tile=TILES),
-        criticals=expand(f"{RESULTS}/{CRITICAL_FILE}", block=CRITICAL_BLOCKS),
+        tiles=TILE_PATHS,
+        criticals=CRITICAL_PATHS,
     output:
         f"{RESULTS}/parts_checked.txt",
     params:
@@ -33,8 +33,8 @@ rule check_parts:
 rule collect:
     input:
         checked=f"{RESULTS}/parts_checked.txt",
-        tiles=expand(f"{RESULTS}/{TILE_FILE}", tile=TILES),
-        criticals=expand(f"{RESULTS}/{CRITICAL_FILE}", block=CRITICAL_BLOCKS),
+        tiles=TILE_PATHS,
+        criticals=CRITICAL_PATHS,
     output:
         cube=f"{RESULTS}/levels.nc",
         summary=f"{RESULTS}/summary.txt",

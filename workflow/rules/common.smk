@@ -50,6 +50,8 @@ RESULTS = f"results/{PLAN.sweep}"
 FIGURES = f"{RESULTS}/figures"
 TILES = {tile.name: tile for tile in PLAN.tiles}
 CRITICAL_BLOCKS = {block.name: block for block in PLAN.critical_blocks}
+TILE_PATHS = PLAN.tile_paths(RESULTS)  # as the rules' {TILE_FILE} names them; faster than expand()
+CRITICAL_PATHS = PLAN.critical_paths(RESULTS)
 HAS_CONDITION_MAP = isinstance(PRESET, (_presets.Plasma, _presets.Semiconductor))
 # (stem, caption, report category, subcategory) of each figure: a PNG in the report, a PDF beside it.
 FIGURE_LIST = [(f"threshold_map_l{l}", "threshold_map.rst", "Threshold maps", f"l = {l}") for l in PLAN.l]
