@@ -21,7 +21,7 @@ from ..sweep.plan import plan as make_plan
 from ..sweep.tiles import CRITICAL_FLAGS
 from ..version import VERSION
 from .lines import add_lines, fill_lines
-from .model import LEVEL_VARS, build_cube
+from .model import LEVEL_VARS, NUM_BOUND_UNKNOWN, build_cube
 from .netcdf import open_for_filling, read_part, read_part_variables, write_cube
 from .physical import add_physical_coordinates
 from .resonances import RESONANCE_VARS, add_resonances
@@ -50,7 +50,8 @@ def _read_checked(path, expected_spec, names=None):
             attrs = {name: nc.getncattr(name) for name in nc.ncattrs()}
         arrays = read_part_variables(path, names)
     if json.loads(attrs["spec_json"]) != expected_spec:
-        raise InputError(f"{path} was computed for other cells or settings than the plan's; rerun the workflow")
+        raise InputError(f"{path} was computed for other cells or settings than the plan's (a copy of another "
+                         "part?); delete it and rerun the workflow, which solves it again")
     return arrays, attrs
 
 
@@ -123,6 +124,10 @@ def collect(config: dict, tile_paths, critical_paths, output, summary=None) -> s
             past_levels["reasons"] += [
                 f"strength={tile.strength[i]!r} screening_length={tile.screening_length[j]!r} l={int(plan.l[k])} "
                 f"n_r={n_r}: {text}" for i, j, k, n_r, text in json.loads(attrs["resonance_reasons_json"])]
+
+    # A flagged cell keeps its count when the count was found (some level short of tolerance);
+    # where the solve failed or the input was rejected the tile holds 0, which is not a count.
+    levels["num_bound"][(levels["status"] != 0) & (levels["num_bound"] == 0)] = NUM_BOUND_UNKNOWN
 
     crit_shape = (plan.strength.size, plan.l.size, plan.n_r_max)
     criticals = {"critical_screening_length": np.full(crit_shape, np.nan),
