@@ -16,21 +16,31 @@ itself only ever sees (strength, screening length, mass) in the preset's units.
 from __future__ import annotations
 
 from ...errors import InputError
-from .base import NO_PRESET, ConditionAxes, EngineParameters, NoPreset, Preset, Unit
+from .base import NO_PRESET, ConditionAxes, ConditionGrid, EngineParameters, NoPreset, Preset, Unit
 from .carriers import CarrierScreening
 from .nuclear import Nuclear
 from .plasma import Plasma
 from .semiconductor import Semiconductor
 
 __all__ = ["Preset", "NoPreset", "NO_PRESET", "CarrierScreening", "Plasma", "Semiconductor", "Nuclear", "PRESETS",
-           "from_config", "EngineParameters", "Unit", "ConditionAxes"]
+           "from_config", "EngineParameters", "Unit", "ConditionAxes", "ConditionGrid", "is_condition_sweep"]
 
 # The config's preset.kind (and the command line's --preset) -> its class.
 PRESETS: dict[str, type[Preset]] = {cls.kind: cls for cls in (Plasma, Semiconductor, Nuclear)}
 
 
-def from_config(section: dict | None) -> Preset:
-    """The preset of the config's ``preset`` mapping (:data:`NO_PRESET` if absent)."""
+def is_condition_sweep(grid: dict | None) -> bool:
+    """Whether a config's ``grid`` runs over a trade's conditions rather than ``screening_length``."""
+    keys = {key for cls in PRESETS.values() for key in cls.condition_keys}
+    return bool(grid) and any(key in keys for key in grid)
+
+
+def from_config(section: dict | None, grid: dict | None = None) -> Preset:
+    """The preset of the config's ``preset`` mapping (:data:`NO_PRESET` if absent).
+
+    ``grid`` is the config's grid: a sweep over ``screening_length`` (not over the trade's
+    conditions) keeps the preset's :attr:`~Preset.legacy_defaults` for the keys it does not give,
+    so that a configuration written before condition sweeps reads its cube as it did."""
     if not section:
         return NO_PRESET
     section = dict(section)
@@ -40,6 +50,8 @@ def from_config(section: dict | None) -> Preset:
     section.pop("map", None)  # plotting ranges, read by the figures
     cls = PRESETS[kind]
     section = {cls.config_names.get(key, key): value for key, value in section.items()}
+    if grid is not None and not is_condition_sweep(grid):
+        section = {**cls.legacy_defaults, **section}
     try:
         return cls(**section)
     except TypeError as exc:

@@ -20,7 +20,7 @@ import numpy as np
 
 from ..units import ATOMIC, UnitSystem
 
-__all__ = ["EngineParameters", "Unit", "ConditionAxes", "Preset", "NoPreset", "NO_PRESET"]
+__all__ = ["EngineParameters", "Unit", "ConditionAxes", "ConditionGrid", "Preset", "NoPreset", "NO_PRESET"]
 
 
 @dataclass(frozen=True)
@@ -78,6 +78,37 @@ class ConditionAxes:
     validity_gid: str | None = None
 
 
+@dataclass(frozen=True)
+class ConditionGrid:
+    """A sweep over a trade's conditions, and the engine cell of each condition.
+
+    Attributes
+    ----------
+    strength_dim : str
+        The cube's first dimension: ``"strength"`` (Z) or ``"coupling"`` (g², MeV fm).
+    strength_values, engine_strength : ndarray
+        Its values as the config gives them, and as engine strengths (one each).
+    length_dims : tuple of str
+        The condition dimensions that set the screening length (``electron_density``,
+        ``electron_temperature``; ``range``).
+    length_values : tuple of ndarray
+        Their values, as the config gives them (cm⁻³, eV, K, fm).
+    engine_length : ndarray
+        The engine's screening length at every condition, over ``length_dims`` (outer product),
+        in the cube's length unit.
+    attributes : dict
+        ``{dimension: {"long_name", "units"}}`` of the strength and condition dimensions.
+    """
+
+    strength_dim: str
+    strength_values: np.ndarray
+    engine_strength: np.ndarray
+    length_dims: tuple[str, ...]
+    length_values: tuple[np.ndarray, ...]
+    engine_length: np.ndarray
+    attributes: dict
+
+
 class Preset:
     """A named preset read in atomic units: the defaults each trade's preset overrides.
 
@@ -102,6 +133,27 @@ class Preset:
         Length units only this preset can read (``{"a*": "ε_r/μ* bohr"}``), with their meaning.
     density_name : str or None
         The density a screening length stands for (``electron_density``); ``None`` if none.
+    length_flag : tuple of (flag, help) or None
+        The command-line flag of the condition that sets the screening length (``--density``,
+        ``--carrier-density``, ``--range``), instead of ``--screening-length``.
+    temperature_flag : str or None
+        The command-line flag of the temperature that flag needs (``--temperature``).
+    line_units : tuple of str
+        How ``boundscape lines`` shows a line's energy: the energy unit, then any of ``nm``
+        (vacuum wavelength), ``cm-1`` (wavenumber), ``THz`` (frequency).
+    condition_keys : tuple of str
+        Grid keys that name the trade's conditions (``electron_density``, ``electron_temperature``),
+        in the cube's order: a sweep over them instead of ``screening_length``.
+    condition_labels : dict
+        Figure labels (matplotlib mathtext, with units) of the condition dimensions.
+    condition_strength_key : str
+        The grid key of a condition sweep's strength axis (``strength``; ``coupling`` for nuclear).
+    reference_key : str or None
+        The config key of the reference temperature a sweep over screening lengths reads its
+        lengths at (refused in a sweep over temperatures).
+    legacy_defaults : dict
+        Field values a sweep over ``screening_length`` that does not name them keeps (the
+        screening model it was computed with before condition sweeps existed).
     """
 
     kind: ClassVar[str | None] = None
@@ -115,6 +167,14 @@ class Preset:
     mass_given_by: ClassVar[str | None] = None
     named_length_units: ClassVar[dict[str, str]] = {}
     density_name: ClassVar[str | None] = None
+    length_flag: ClassVar[tuple[str, str] | None] = None
+    temperature_flag: ClassVar[str | None] = None
+    line_units: ClassVar[tuple[str, ...]] = ("eV", "nm")
+    condition_keys: ClassVar[tuple[str, ...]] = ()
+    condition_labels: ClassVar[dict[str, str]] = {}
+    condition_strength_key: ClassVar[str] = "strength"
+    reference_key: ClassVar[str | None] = None
+    legacy_defaults: ClassVar[dict] = {}
 
     # -- units ------------------------------------------------------------------------------
     def unit_system(self, cube_mass: float = 1.0) -> UnitSystem:
@@ -162,13 +222,15 @@ class Preset:
         return None
 
     # -- the cube ---------------------------------------------------------------------------
-    def physical_coordinates(self, strength, screening_length_m, cube_mass: float = 1.0) -> dict:
-        """The coordinates the preset adds to a cube: ``{name: (dimension, values, attributes)}``.
+    def physical_coordinates(self, strength, screening_length_m, cube_mass: float = 1.0,
+                             dims=("screening_length",)) -> dict:
+        """The coordinates the preset adds to a cube: ``{name: (dimensions, values, attributes)}``.
 
-        ``strength`` is the cube's strength axis, ``screening_length_m`` its screening lengths in
-        metres."""
+        ``strength`` is the cube's strength values, ``screening_length_m`` its screening lengths
+        in metres, over ``dims`` (the screening-length axis, or the condition axes of a sweep over
+        the trade's conditions)."""
         unit = self.length_unit
-        return {f"screening_length_{unit.name}": ("screening_length", screening_length_m / unit.size, {
+        return {f"screening_length_{unit.name}": (tuple(dims), screening_length_m / unit.size, {
             "long_name": f"screening length in {unit.name} ({self.kind} preset)", "units": unit.name})}
 
     def cube_attributes(self, cube_mass: float = 1.0) -> dict:
@@ -195,14 +257,52 @@ class Preset:
     def has_condition_map(self) -> bool:
         return self.condition_axes is not None
 
-    def validity_field(self, density_m3, screening_length_m):
-        """A field over (temperature, density) equal to 1 where the screening model starts to
-        fail, or ``None``."""
+    # -- the screening model and sweeps over conditions -------------------------------------
+    @property
+    def screening_model(self) -> str | None:
+        """The screening model (``finite_temperature``, ``debye``, ``thomas_fermi``), or ``None``
+        where the screening length is not read from a medium."""
         return None
 
-    def validity_density(self, temperature):
-        """The density (m⁻³) per temperature at which the screening model starts to fail, or ``None``."""
+    def condition_attributes(self) -> dict:
+        """``{grid key: {"long_name", "units"}}`` of :attr:`condition_keys`."""
+        return {}
+
+    def condition_grid(self, strength, axes: dict, cube_mass: float = 1.0) -> ConditionGrid:
+        """The engine cells of a sweep over :attr:`condition_keys` (``axes``: their values as the
+        config gives them; ``strength``: the grid's strengths, if the preset reads them)."""
+        raise NotImplementedError(f"preset {self.kind} has no condition axes")
+
+    def validity(self, density_m3, temperature):
+        """Γ, N_D, k_B T/E_F and the validity flag of the screening model at each condition
+        (:class:`~boundscape.physics.screening.Validity`), or ``None`` where nothing screens."""
         return None
+
+    @property
+    def validity_flags(self):
+        """(flag names, {name: reason}) of :meth:`validity`, or ``None``."""
+        return None
+
+    def length_conditions(self, screening_length_m):
+        """(density m⁻³, temperature) a sweep over screening lengths reads each length as, or
+        ``None``."""
+        return None
+
+    def trade_criticals(self, critical_length_m, grid: ConditionGrid | None, strength_dim: str = "strength") -> dict:
+        """Critical values in the trade's terms that the preset derives from the stored critical
+        lengths (m, over (strength, l, n_r)): ``{name: (dims, values, attributes)}``."""
+        return {}
+
+    def critical_strength_variable(self) -> tuple[str, dict]:
+        """(cube variable name, CF attributes) of the critical strength at each screening length,
+        in the units of :meth:`strength_values`."""
+        return "critical_strength", {"long_name": "critical strength at this screening length", "units": "1"}
+
+    @property
+    def critical_strengths_wanted(self) -> bool:
+        """Whether a sweep also stores the critical strength at each screening length (the
+        nuclear critical coupling at each range)."""
+        return False
 
     # -- the command line -------------------------------------------------------------------
     def command_line_reading(self) -> dict:
@@ -210,6 +310,20 @@ class Preset:
         ``units``, ``energy_unit``, ``energy_factor`` (engine → shown), ``length_unit``,
         ``length_factor`` and a ``description``."""
         raise NotImplementedError
+
+    def command_line_length(self, value: float, units: UnitSystem) -> float:
+        """The engine's screening length (in ``units``) of the value given with :attr:`length_flag`."""
+        raise NotImplementedError(f"preset {self.kind} takes no {self.length_flag}")
+
+    def command_line_conditions(self, value: float) -> dict:
+        """The conditions of the value given with :attr:`length_flag`, and the screening model's
+        validity there, as the command line prints them (keys carry their unit)."""
+        return {}
+
+    def critical_columns(self, critical_length_m: float) -> dict:
+        """The command line's columns of one critical screening length (m) in the trade's terms
+        (the density at which the state is lost, ...); ``{}`` if none."""
+        return {}
 
     def strength_input(self, value: float) -> tuple[float, str]:
         """(engine strength, how a header names it) of the value given with :attr:`strength_flag`."""
@@ -238,7 +352,8 @@ class NoPreset(Preset):
     def shown_length_unit(self, cube_mass: float = 1.0):
         return None, None
 
-    def physical_coordinates(self, strength, screening_length_m, cube_mass: float = 1.0) -> dict:
+    def physical_coordinates(self, strength, screening_length_m, cube_mass: float = 1.0,
+                             dims=("screening_length",)) -> dict:
         return {}
 
     def cube_attributes(self, cube_mass: float = 1.0) -> dict:

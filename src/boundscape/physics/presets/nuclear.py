@@ -15,7 +15,7 @@ from scipy import constants as sc
 from ...checks import positive
 from ...errors import InputError
 from ..units import FM_M, HBAR_C_MEV_FM, MEV_J, UnitSystem, nuclear_units
-from .base import EngineParameters, Preset, Unit
+from .base import ConditionGrid, EngineParameters, Preset, Unit
 
 __all__ = ["Nuclear"]
 
@@ -35,7 +35,12 @@ class Nuclear(Preset):
     energy_unit = Unit("MeV", sc.mega * sc.electron_volt)
     length_unit = Unit("fm", FM_M)
     grid_axes = ("coupling_MeV_fm",)
+    condition_labels = {"coupling": "coupling $g^2$ (MeV fm)", "range": "range $\\lambda$ (fm)"}
+    condition_keys = ("coupling", "range")
+    condition_strength_key = "coupling"
     command_line = (("--reduced-mass", "reduced_mass_MeV", True),)
+    length_flag = ("--range", "nuclear: range λ of -g² exp(-r/λ)/r, fm, instead of --screening-length")
+    line_units = ("MeV",)
     strength_flag = "--coupling"
     strength_meaning = "g², MeV fm"
     mass_given_by = "the reduced mass is --reduced-mass (MeV/c²)"
@@ -99,10 +104,33 @@ class Nuclear(Preset):
     def strength_long_name(self):
         return "engine strength g^2 mu c^2 b/(hbar c)^2 (coordinate coupling gives g^2)"
 
-    def physical_coordinates(self, strength, screening_length_m, cube_mass=1.0):
+    def physical_coordinates(self, strength, screening_length_m, cube_mass=1.0, dims=("screening_length",)):
+        if dims != ("screening_length",):  # a sweep over (coupling, range): both are its axes
+            return {}
         coupling = {"coupling": ("strength", self.coupling_MeV_fm(strength, cube_mass),
                                  {"long_name": "coupling g² of V = -g² exp(-r/λ)/r", "units": "MeV fm"})}
-        return {**coupling, **super().physical_coordinates(strength, screening_length_m, cube_mass)}
+        return {**coupling, **super().physical_coordinates(strength, screening_length_m, cube_mass, dims)}
+
+    # -- sweeps over (coupling, range) ------------------------------------------------------
+    def condition_attributes(self):
+        return {"coupling": {"long_name": "coupling g^2 of V = -g^2 exp(-r/range)/r", "units": "MeV fm"},
+                "range": {"long_name": "range of the Yukawa well", "units": "fm"}}
+
+    def condition_grid(self, strength, axes, cube_mass=1.0):
+        coupling = np.asarray(axes["coupling"], dtype=float)
+        range_fm = np.asarray(axes["range"], dtype=float)
+        return ConditionGrid("coupling", coupling, np.asarray(self.strength_for(coupling), dtype=float), ("range",),
+                             (range_fm,), range_fm * FM_M / self.system(cube_mass).length_m, self.condition_attributes())
+
+    @property
+    def critical_strengths_wanted(self):
+        return True
+
+    def critical_strength_variable(self):
+        return "critical_coupling", {
+            "long_name": "critical coupling g^2 below which the state is not bound at this range", "units": "MeV fm",
+            "comment": "g^2_c of V = -g^2 exp(-r/range)/r, from the zero-energy solution by root finding; inf where "
+                       "the state is never bound"}
 
     def unit_notes(self, units, cube_mass=1.0):
         energy_eV = units.energy_J / sc.electron_volt
@@ -126,6 +154,12 @@ class Nuclear(Preset):
         return {"units": units, "energy_unit": "MeV", "energy_factor": units.energy_J / MEV_J, "length_unit": "fm",
                 "length_factor": units.length_m / 1e-15,
                 "description": f"nuclear, μ = {self.reduced_mass_MeV:g} MeV/c²"}
+
+    def command_line_length(self, value, units):
+        return float(positive("--range", value)) * FM_M / units.length_m
+
+    def command_line_conditions(self, value):
+        return {"range_fm": float(value)}
 
     def strength_input(self, value):
         return float(self.strength_for(value)), f"g² = {value:g} MeV fm"

@@ -1,5 +1,5 @@
-"""The plasma preset: an ion of nuclear charge Z screened by a plasma's electrons (and ions),
-Debye–Hückel (Yukawa) screening, read in atomic units with energies in eV and lengths in nm."""
+"""The plasma preset: an ion of nuclear charge Z screened by a plasma's electrons (and ions), read
+in atomic units with energies in eV and lengths in nm."""
 
 from __future__ import annotations
 
@@ -11,6 +11,7 @@ from scipy import constants as sc
 
 from ...checks import positive
 from ...errors import InputError
+from ..screening import Carriers, Species
 from ..units import ATOMIC, BOHR_M, convert
 from .base import ConditionAxes, EngineParameters, Unit
 from .carriers import CarrierScreening
@@ -20,20 +21,26 @@ __all__ = ["Plasma"]
 
 @dataclass(frozen=True)
 class Plasma(CarrierScreening):
-    """Electrons screening an ion of charge Z: Debye–Hückel (Yukawa) potential.
+    """Electrons (and ions) screening an ion of nuclear charge Z: a Yukawa potential.
 
-    The cube is read in atomic units; the strength is the ion's nuclear charge Z and λ the Debye
-    length.
+    The cube is read in atomic units; the strength is the ion's nuclear charge Z and λ the
+    screening length of the plasma at (n_e, T_e).
 
     Parameters
     ----------
     species : {"electrons", "electrons_and_ions"}
-        Who screens.  With ions, quasi-neutral ions of charge ``screening_ion_charge`` at
-        temperature ``ion_temperature_ratio`` × T_e add Z_i² n_i/T_i = Z_i n_e/T_i to 1/λ_D².
+        Who screens.  With ions, quasi-neutral ions of charge ``screening_ion_charge`` (density
+        n_e/Z_i) at temperature ``ion_temperature_ratio`` × T_e add Z_i² n_i/(ε₀ k T_i) =
+        Z_i n_e/(ε₀ k T_i) to 1/λ² (classical in every model: their thermal wavelength is at least
+        43 times the electrons').
+    screening : {"finite_temperature", "debye", "thomas_fermi"}
+        The electrons' model (:mod:`boundscape.physics.screening`).  A sweep over
+        ``screening_length`` that names none keeps ``debye``.
     temperature_eV : float
-        Reference electron temperature for the density coordinate added to a cube.
+        Reference electron temperature of a sweep over screening lengths (its density coordinate).
     reduced_mass : float
-        Electron–ion reduced mass in electron masses (1 for an infinitely heavy ion).
+        Electron–ion reduced mass of the bound problem, electron masses (1 for an infinitely heavy
+        ion); the screening electrons have the electron mass.
 
     References
     ----------
@@ -46,38 +53,56 @@ class Plasma(CarrierScreening):
     ion_temperature_ratio: float = 1.0
     temperature_eV: float = 10.0
     reduced_mass: float = 1.0
+    screening: str = "finite_temperature"
 
     kind = "plasma"
     energy_unit = Unit("eV", sc.electron_volt)
     length_unit = Unit("nm", sc.nano)
     density_name = "electron_density"
+    temperature_name = "electron_temperature"
+    temperature_unit = "eV"
+    condition_labels = {"strength": "nuclear charge $Z$", "electron_density": "electron density $n_e$ (cm$^{-3}$)",
+                        "electron_temperature": "electron temperature $T_e$ (eV)"}
+    condition_keys = ("electron_density", "electron_temperature")
+    reference_key = "temperature_eV"
+    legacy_defaults = {"screening": "debye"}
+    command_line = (("--temperature", "temperature_eV", False), ("--screening", "screening", False),
+                    ("--species", "species", False), ("--screening-ion-charge", "screening_ion_charge", False),
+                    ("--ion-temperature-ratio", "ion_temperature_ratio", False))
+    length_flag = ("--density", "plasma: electron density n_e, cm-3 (with --temperature), instead of "
+                                "--screening-length: the screening length of the plasma")
+    temperature_flag = "--temperature"
+    line_units = ("eV", "nm")
+    strength_flag = "--nuclear-charge"
+    strength_meaning = "Z, the nuclear charge of the hydrogen-like ion"
     units = ATOMIC
 
     def __post_init__(self):
         if self.species not in ("electrons", "electrons_and_ions"):
             raise InputError(f"plasma species must be 'electrons' or 'electrons_and_ions', got {self.species!r}")
+        self._check_screening()
         for name in ("screening_ion_charge", "ion_temperature_ratio", "temperature_eV", "reduced_mass"):
             positive(f"plasma {name}", getattr(self, name))
 
     # -- the physics ------------------------------------------------------------------------
-    def _inverse_kT(self, temperature_eV):
-        # 1/(k T_e) [+ Z_i/(k T_i)], in 1/J: the per-electron weight of each screening species.
-        kT = np.asarray(temperature_eV, dtype=float) * sc.electron_volt
-        weight = 1.0 / kT
+    @property
+    def carriers(self) -> Carriers:
+        species = [Species("electrons", 1.0, sc.m_e)]
         if self.species == "electrons_and_ions":
-            weight = weight + self.screening_ion_charge / (self.ion_temperature_ratio * kT)
-        return weight
+            species.append(Species("ions", self.screening_ion_charge, sc.m_p, density_ratio=1 / self.screening_ion_charge,
+                                   temperature_ratio=self.ion_temperature_ratio, classical=True))
+        return Carriers(tuple(species))
 
     def debye_length(self, electron_density, temperature_eV):
-        """λ_D in metres for n_e in m⁻³ and T_e in eV: λ_D⁻² = (e² n_e/ε₀)·Σ weights."""
+        """The classical Debye length (m) for n_e in m⁻³ and T_e in eV, whatever the model:
+        λ_D⁻² = Σ_s q_s² n_s/(ε₀ k T_s)."""
         n = positive("electron density", electron_density)
         positive("electron temperature", temperature_eV)
-        return 1.0 / np.sqrt(sc.e ** 2 * n / sc.epsilon_0 * self._inverse_kT(temperature_eV))
+        return self.carriers.debye_length(n, self.kT(temperature_eV))
 
-    def density_for(self, debye_length_m, temperature_eV):
-        """The electron density (m⁻³) at which λ_D equals ``debye_length_m`` at T_e (eV)."""
-        lam = positive("Debye length", debye_length_m)
-        return sc.epsilon_0 / (sc.e ** 2 * lam ** 2 * self._inverse_kT(temperature_eV))
+    def density_for(self, screening_length_m, temperature_eV):
+        """The electron density (m⁻³) at which the model's screening length is ``screening_length_m`` at T_e (eV)."""
+        return self.loss_density(positive("screening length", screening_length_m), temperature_eV)
 
     def debye_number(self, electron_density, debye_length_m):
         """N_D = (4π/3) n_e λ_D³, the electrons in a Debye sphere: Debye–Hückel screening needs
@@ -85,8 +110,10 @@ class Plasma(CarrierScreening):
         return 4 * math.pi / 3 * electron_density * debye_length_m ** 3
 
     def to_engine(self, ion_charge, electron_density, temperature_eV) -> EngineParameters:
-        """Engine inputs for ion charge Z in a plasma of n_e (m⁻³), T_e (eV)."""
-        lam = self.debye_length(electron_density, temperature_eV) / BOHR_M
+        """Engine inputs for nuclear charge Z in a plasma of n_e (m⁻³), T_e (eV)."""
+        n = positive("electron density", electron_density)
+        positive("electron temperature", temperature_eV)
+        lam = float(self.screening_length_at(n, temperature_eV)) / BOHR_M
         return EngineParameters(float(positive("ion charge", ion_charge)), lam, self.reduced_mass, ATOMIC)
 
     # -- what the cube, figures and command line ask ----------------------------------------
@@ -95,14 +122,13 @@ class Plasma(CarrierScreening):
         return self.temperature_eV
 
     @property
-    def density_note(self) -> str:
-        return f"at T_e = {self.temperature_eV:g} eV"
+    def temperature_symbol(self) -> str:
+        return "T_e"
 
-    def screening_length_at(self, density_m3, temperature):
-        return self.debye_length(density_m3, temperature)
-
-    def loss_density(self, screening_length_m, temperature=None):
-        return self.density_for(screening_length_m, self.temperature_eV if temperature is None else temperature)
+    def condition_attributes(self):
+        return {"strength": {"long_name": "nuclear charge Z of the hydrogen-like ion", "units": "1"},
+                "electron_density": {"long_name": "electron density n_e", "units": "cm-3"},
+                "electron_temperature": {"long_name": "electron temperature T_e", "units": "eV"}}
 
     def sweep_mass(self, mass, section):
         if "reduced_mass" not in section:
@@ -119,25 +145,27 @@ class Plasma(CarrierScreening):
     def strength_long_name(self):
         return "nuclear charge Z of the hydrogen-like ion"
 
-    def physical_coordinates(self, strength, screening_length_m, cube_mass=1.0):
-        coords = super().physical_coordinates(strength, screening_length_m, cube_mass)
-        coords["electron_density"] = ("screening_length", self.loss_density(screening_length_m), {
-            "long_name": f"electron density giving this Debye length at T_e = {self.temperature_eV:g} eV",
-            "units": "m-3"})
+    def physical_coordinates(self, strength, screening_length_m, cube_mass=1.0, dims=("screening_length",)):
+        coords = super().physical_coordinates(strength, screening_length_m, cube_mass, dims)
+        if dims == ("screening_length",):
+            density, _ = self.length_conditions(screening_length_m)
+            coords["electron_density"] = (dims, convert(density, "m-3", "cm-3"), {
+                "long_name": f"electron density giving this screening length at T_e = {self.temperature_eV:g} eV "
+                             f"({self.screening})", "units": "cm-3"})
         return coords
 
     @property
     def condition_axes(self):
         return ConditionAxes(
-            density_label="electron density n_e (cm⁻³)", charge_name="nuclear charge Z",
-            temperature_label="electron temperature T_e (eV)", temperature_key="temperature_eV",
+            density_label="electron density $n_e$ (cm$^{-3}$)", charge_name="nuclear charge Z",
+            temperature_label="electron temperature $T_e$ (eV)", temperature_key="temperature_eV",
             temperature_default={"start": 0.1, "stop": 1e4, "num": 81}, temperature_fixed=None,
-            over="electron density and temperature", validity_label="N_D = 1 (Debye picture fails to the right)")
-
-    def validity_field(self, density_m3, screening_length_m):
-        # density_m3 runs along the last axis of screening_length_m (temperature × density).
-        return self.debye_number(density_m3[None, :], screening_length_m)
+            over="electron density and temperature",
+            validity_label=f"{self.screening} screening fails (hatched)")
 
     def command_line_reading(self):
         return {"units": ATOMIC, "energy_unit": "eV", "energy_factor": convert(1.0, "hartree", "eV"),
                 "length_unit": "nm", "length_factor": BOHR_M / 1e-9, "description": "atomic units, plasma preset"}
+
+    def strength_input(self, value):
+        return float(positive("--nuclear-charge", value)), f"nuclear charge Z = {value:g}"

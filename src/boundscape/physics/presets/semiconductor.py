@@ -1,5 +1,5 @@
 """The semiconductor preset: a hydrogenic donor, or a Wannier–Mott exciton, screened by free
-carriers (Thomas–Fermi or Debye), read in effective atomic units (``units: effective``: lengths
+carriers (an ideal Fermi gas at T, or its Debye and Thomas–Fermi limits), read in effective atomic units (``units: effective``: lengths
 in a*, energies in 2Ry*, mass 1) or true atomic units (``units: atomic``: strength Z/ε_r, mass μ*).
 Both describe one problem (one-scale law); energies are shown in meV and lengths in nm."""
 
@@ -14,7 +14,8 @@ from scipy import constants as sc
 
 from ...checks import positive
 from ...errors import InputError
-from ..units import ATOMIC, BOHR_M, ELECTRON_MASS_KG, UnitSystem, effective_atomic_units
+from ..screening import Carriers, Species
+from ..units import ATOMIC, BOHR_M, ELECTRON_MASS_KG, UnitSystem, convert, effective_atomic_units
 from .base import ConditionAxes, EngineParameters, Unit
 from .carriers import CarrierScreening
 
@@ -32,15 +33,19 @@ class Semiconductor(CarrierScreening):
         For a donor the bound electron has this mass: μ* = m_e*.
     hole_mass : float, optional
         An exciton's hole mass m_h* (electron masses): the bound pair then has the two-body
-        reduced mass μ* = m_e* m_h*/(m_e* + m_h*), which sets a* and Ry*; the carriers that
-        screen are still electrons of mass m_e*.
-    screening : {"thomas_fermi", "debye"}
-        Degenerate carriers: Thomas–Fermi, q_TF² = 3e²n/(2εE_F), E_F = ħ²(3π²n)^{2/3}/(2m_e*mₑ)
-        (Ashcroft & Mermin, *Solid State Physics*, ch. 17).  Non-degenerate carriers: Debye,
-        λ² = ε k_B T/(n e²) (Yu & Cardona, §6.3).
+        reduced mass μ* = m_e* m_h*/(m_e* + m_h*), which sets a* and Ry*.
+    screening : {"finite_temperature", "debye", "thomas_fermi"}
+        The carriers' model (:mod:`boundscape.physics.screening`): the ideal Fermi gas at T,
+        non-degenerate (Debye, λ² = ε k_B T/(n e²); Yu & Cardona §6.3), or degenerate
+        (Thomas–Fermi, q_TF² = 3e²n/(2εE_F); Ashcroft & Mermin ch. 17).  A sweep over
+        ``screening_length`` that names none keeps ``thomas_fermi``.
+    species : {"electrons", "electrons_and_holes"}, optional
+        Who screens: free electrons (a donor in an n-type crystal), or the electrons and holes of
+        an electron–hole plasma of pair density n (excitons; the default with ``hole_mass``).
+    electron_degeneracy, hole_degeneracy : float
+        Spin × valley degeneracy of each carrier (2: spin only).
     temperature_K : float
-        Carrier temperature for Debye screening, and where Thomas–Fermi's degenerate-gas
-        assumption (k_B T < E_F) holds.
+        Reference carrier temperature of a sweep over screening lengths.
     units_choice : {"effective", "atomic"}
         How a cube's numbers are read (config key ``units``; see the module docstring).
 
@@ -52,35 +57,67 @@ class Semiconductor(CarrierScreening):
 
     effective_mass: float = 0.067
     permittivity: float = 12.9
-    screening: str = "thomas_fermi"
+    screening: str = "finite_temperature"
     temperature_K: float = 300.0
     units_choice: str = "effective"
     hole_mass: float | None = None
+    species: str | None = None
+    electron_degeneracy: float = 2.0
+    hole_degeneracy: float = 2.0
 
     kind = "semiconductor"
     energy_unit = Unit("meV", sc.milli * sc.electron_volt)
     length_unit = Unit("nm", sc.nano)
     density_name = "carrier_density"
+    temperature_name = "temperature"
+    temperature_unit = "K"
+    condition_labels = {"strength": "charge $Z$", "carrier_density": "carrier density $n$ (cm$^{-3}$)",
+                        "temperature": "carrier temperature $T$ (K)"}
+    condition_keys = ("carrier_density", "temperature")
+    reference_key = "temperature_K"
+    legacy_defaults = {"screening": "thomas_fermi", "species": "electrons"}
     config_names = {"units": "units_choice"}
     command_line = (("--effective-mass", "effective_mass", True), ("--hole-mass", "hole_mass", False),
-                    ("--permittivity", "permittivity", True))
+                    ("--permittivity", "permittivity", True), ("--temperature-K", "temperature_K", False),
+                    ("--screening", "screening", False), ("--species", "species", False))
+    length_flag = ("--carrier-density", "semiconductor: free-carrier (or pair) density, cm-3 (with --temperature-K), "
+                                        "instead of --screening-length: the carriers' screening length")
+    temperature_flag = "--temperature-K"
+    line_units = ("meV", "cm-1", "THz")
     mass_given_by = "μ* comes from --effective-mass (and --hole-mass for an exciton)"
     named_length_units = {"a*": "ε_r/μ* bohr"}
 
     def __post_init__(self):
-        if self.screening not in ("thomas_fermi", "debye"):
-            raise InputError(f"semiconductor screening must be 'thomas_fermi' or 'debye', got {self.screening!r}")
+        self._check_screening()
         if self.units_choice not in ("effective", "atomic"):
             raise InputError(f"semiconductor units must be 'effective' or 'atomic', got {self.units_choice!r}")
-        for name in ("effective_mass", "permittivity", "temperature_K"):
+        for name in ("effective_mass", "permittivity", "temperature_K", "electron_degeneracy", "hole_degeneracy"):
             positive(f"semiconductor {name}", getattr(self, name))
         if self.hole_mass is not None:
             positive("semiconductor hole_mass", self.hole_mass)
+        if self.species not in (None, "electrons", "electrons_and_holes"):
+            raise InputError(f"semiconductor species must be 'electrons' or 'electrons_and_holes', got {self.species!r}")
+        if self.species == "electrons_and_holes" and self.hole_mass is None:
+            raise InputError("semiconductor species electrons_and_holes needs hole_mass (the holes' effective mass)")
 
     # -- the physics ------------------------------------------------------------------------
     @property
     def is_exciton(self) -> bool:
         return self.hole_mass is not None
+
+    @property
+    def screening_species(self) -> str:
+        """Who screens: the configured species, else electrons and holes for an exciton."""
+        if self.species is not None:
+            return self.species
+        return "electrons_and_holes" if self.is_exciton else "electrons"
+
+    @property
+    def carriers(self) -> Carriers:
+        species = [Species("electrons", 1.0, self.effective_mass * ELECTRON_MASS_KG, self.electron_degeneracy)]
+        if self.screening_species == "electrons_and_holes":
+            species.append(Species("holes", 1.0, self.hole_mass * ELECTRON_MASS_KG, self.hole_degeneracy))
+        return Carriers(tuple(species), self.permittivity)
 
     @property
     def reduced_mass(self) -> float:
@@ -98,33 +135,20 @@ class Semiconductor(CarrierScreening):
         return self.effective if self.units_choice == "effective" else ATOMIC
 
     def degenerate_density(self, temperature_K=None):
-        """Carrier density (m⁻³) at which E_F = k_B T: Thomas–Fermi screening assumes n well above it.
+        """Electron density (m⁻³) at which E_F = k_B T: the gas is degenerate above it.
 
-        From E_F = ħ²(3π²n)^{2/3}/(2m_e*mₑ): n = (2m_e*mₑ k_B T)^{3/2}/(3π²ħ³)."""
+        From E_F = ħ²(6π²n/g)^{2/3}/(2m_e*mₑ): n = g(2m_e*mₑ k_B T)^{3/2}/(6π²ħ³)."""
         t = self.temperature_K if temperature_K is None else temperature_K
-        return (2 * self.effective_mass * ELECTRON_MASS_KG * sc.k * t) ** 1.5 / (3 * math.pi ** 2 * sc.hbar ** 3)
-
-    @property
-    def _epsilon(self):
-        return self.permittivity * sc.epsilon_0
+        return self.electron_degeneracy * (2 * self.effective_mass * ELECTRON_MASS_KG * sc.k * np.asarray(t)) ** 1.5 / (
+            6 * math.pi ** 2 * sc.hbar ** 3)
 
     def screening_length(self, carrier_density):
-        """Screening length (m) for a carrier density (m⁻³)."""
-        n = positive("carrier density", carrier_density)
-        if self.screening == "debye":
-            return np.sqrt(self._epsilon * sc.k * self.temperature_K / (n * sc.e ** 2))
-        fermi_energy = sc.hbar ** 2 * (3 * math.pi ** 2 * n) ** (2 / 3) / (2 * self.effective_mass * ELECTRON_MASS_KG)
-        return 1.0 / np.sqrt(3 * sc.e ** 2 * n / (2 * self._epsilon * fermi_energy))
+        """Screening length (m) for a carrier density (m⁻³) at the reference temperature."""
+        return self.screening_length_at(positive("carrier density", carrier_density), self.temperature_K)
 
     def density_for(self, screening_length_m):
-        """The carrier density (m⁻³) whose screening length is ``screening_length_m``."""
-        lam = positive("screening length", screening_length_m)
-        if self.screening == "debye":
-            return self._epsilon * sc.k * self.temperature_K / (sc.e ** 2 * lam ** 2)
-        # q² = 3 e² μ* mₑ n^{1/3} / (ε ħ² (3π²)^{2/3}), solved for n.
-        cube_root = (3 * math.pi ** 2) ** (2 / 3) * self._epsilon * sc.hbar ** 2 / (
-            3 * sc.e ** 2 * self.effective_mass * ELECTRON_MASS_KG * lam ** 2)
-        return cube_root ** 3
+        """The carrier density (m⁻³) whose screening length is ``screening_length_m`` at the reference temperature."""
+        return self.loss_density(positive("screening length", screening_length_m))
 
     def to_engine(self, carrier_density, donor_charge=1.0, units=None) -> EngineParameters:
         """Engine inputs for a donor of charge ``donor_charge`` at a carrier density (m⁻³)."""
@@ -169,17 +193,26 @@ class Semiconductor(CarrierScreening):
     def reference_temperature(self):
         return self.temperature_K
 
-    @property
-    def density_note(self):
-        return f"({self.screening})"
+    def condition_attributes(self):
+        who = "charge number Z of the exciton's Coulomb attraction" if self.is_exciton else "donor charge number Z"
+        return {"strength": {"long_name": who, "units": "1"},
+                "carrier_density": {"long_name": "pair density n" if self.screening_species == "electrons_and_holes"
+                                    else "free electron density n", "units": "cm-3"},
+                "temperature": {"long_name": "carrier temperature T", "units": "K"}}
 
-    def screening_length_at(self, density_m3, temperature):
-        return dataclasses.replace(self, temperature_K=temperature).screening_length(density_m3)
-
-    def loss_density(self, screening_length_m, temperature=None):
-        if self.screening != "debye" or temperature is None:
-            return self.density_for(screening_length_m)
-        return dataclasses.replace(self, temperature_K=temperature).density_for(screening_length_m)
+    def trade_criticals(self, critical_length_m, grid, strength_dim="strength"):
+        out = super().trade_criticals(critical_length_m, grid, strength_dim)
+        dims, loss, _ = out["loss_carrier_density"]
+        # n_c^{1/3} a*: Mott's criterion puts the metal–insulator transition of a doped crystal at 0.25.
+        out["mott_parameter"] = (dims, np.cbrt(loss * 1e6) * self.effective.length_m, {
+            "long_name": "cube root of the loss density times the effective Bohr radius, n_c^(1/3) a*",
+            "units": "1",
+            "comment": f"a* = {self.effective.length_m / sc.nano:.6g} nm; Mott's criterion of the metal-insulator "
+                       "transition is 0.25 (Mott 1961; Edwards & Sienko 1978: 0.26, value from memory), set by "
+                       "Thomas-Fermi screening length = a*; this model loses the bound state where the screening "
+                       "length reaches its critical length 0.84 a* (1s, Yukawa), at a higher density, and counts "
+                       "the screening at the temperature; NaN where the state is never bound"})
+        return out
 
     def strength_values(self, strength, cube_mass=1.0):
         return np.asarray(self.donor_charge(strength))
@@ -192,10 +225,13 @@ class Semiconductor(CarrierScreening):
         who = "charge number Z of the exciton's Coulomb attraction" if self.is_exciton else "donor charge number Z"
         return who if self.units_choice == "effective" else f"{who} divided by eps_r (true atomic units)"
 
-    def physical_coordinates(self, strength, screening_length_m, cube_mass=1.0):
-        coords = super().physical_coordinates(strength, screening_length_m, cube_mass)
-        coords["carrier_density"] = ("screening_length", self.density_for(screening_length_m), {
-            "long_name": f"carrier density giving this screening length ({self.screening})", "units": "m-3"})
+    def physical_coordinates(self, strength, screening_length_m, cube_mass=1.0, dims=("screening_length",)):
+        coords = super().physical_coordinates(strength, screening_length_m, cube_mass, dims)
+        if dims == ("screening_length",):
+            density, _ = self.length_conditions(screening_length_m)
+            coords["carrier_density"] = (dims, convert(density, "m-3", "cm-3"), {
+                "long_name": f"carrier density giving this screening length at T = {self.temperature_K:g} K "
+                             f"({self.screening})", "units": "cm-3"})
         coords["donor_charge"] = ("strength", self.donor_charge(strength), {
             "long_name": "donor charge number", "units": "1"})
         return coords
@@ -210,25 +246,16 @@ class Semiconductor(CarrierScreening):
 
     @property
     def condition_axes(self):
-        # Debye screening depends on temperature (a density × temperature map); Thomas–Fermi
-        # screening does not (one density axis, at the preset's temperature).
-        two_d = self.screening == "debye"
+        # Thomas–Fermi screening does not depend on temperature (a density axis at the preset's
+        # temperature); the other models do (a density × temperature map).
+        two_d = self.screening != "thomas_fermi"
         who = "pair charge Z" if self.is_exciton else "donor charge Z"
-        if two_d:
-            validity = "E_F = k_B T (non-degenerate Debye picture fails to the right)"
-        else:
-            validity = f"E_F < k_B T at {self.temperature_K:g} K: not degenerate, Thomas–Fermi fails"
         return ConditionAxes(
-            density_label="carrier density n (cm⁻³)", charge_name=who, temperature_label="carrier temperature T (K)",
+            density_label="carrier density $n$ (cm$^{-3}$)", charge_name=who, temperature_label="carrier temperature $T$ (K)",
             temperature_key="temperature_K", temperature_default={"start": 4, "stop": 600, "num": 61},
             temperature_fixed=None if two_d else self.temperature_K,
             over="carrier density and temperature" if two_d else f"carrier density at {self.temperature_K:g} K",
-            validity_label=validity, validity_gid="degenerate")
-
-    def validity_density(self, temperature):
-        # Thomas–Fermi screening needs a degenerate gas (E_F > k_B T), Debye screening a
-        # non-degenerate one: the line E_F = k_B T bounds both.
-        return self.degenerate_density(temperature)
+            validity_label=f"{self.screening} screening fails (hatched)", validity_gid="invalid")
 
     def command_line_reading(self):
         units = self.effective
@@ -237,6 +264,12 @@ class Semiconductor(CarrierScreening):
                 "length_factor": units.length_m / 1e-9,
                 "description": f"{what}, μ* = {self.reduced_mass:.6g}, ε_r = {self.permittivity:g}: effective atomic "
                                f"units a* = {units.length_m / 1e-9:.6g} nm, 2Ry* = {units.energy_eV * 1e3:.6g} meV"}
+
+    def critical_columns(self, critical_length_m):
+        columns = super().critical_columns(critical_length_m)
+        n = columns[f"loss_{self.density_name}_cm-3"]
+        columns["mott_parameter"] = float(np.cbrt(n * 1e6) * self.effective.length_m) if np.isfinite(n) else float("nan")
+        return columns
 
     def strength_input(self, value):
         return float(value), f"{'strength' if self.is_exciton else 'donor charge'} {value:g}"
