@@ -19,16 +19,21 @@ import yaml
 
 from ..engine import FAMILIES, ParameterError, potential
 from ..errors import InputError
-from ..physics.presets import PRESETS, from_config
+from ..physics.presets import PRESETS, from_config, is_condition_sweep
 from .limits import check_limits
 from .lines import check_lines
 
 __all__ = ["SCHEMA_PATH", "load_config", "load_yaml", "read_config_files", "config_file_error", "schema_error", "validate_config",
-           "config_text", "axis_values", "DEFAULT_CELLS_PER_TILE"]
+           "config_text", "axis_values", "DEFAULT_CELLS_PER_TILE", "GRID_AXES"]
 
 SCHEMA_PATH = Path(str(resources.files(__package__).joinpath("schema.yaml")))
 
 DEFAULT_CELLS_PER_TILE = 2048
+
+# Every numeric grid axis but l: the engine's (strength, screening length), the nuclear coupling
+# in MeV fm, and the trades' conditions (physics.presets: condition_keys).
+GRID_AXES = ("strength", "coupling_MeV_fm", "screening_length", "electron_density", "electron_temperature",
+             "carrier_density", "temperature", "coupling", "range")
 
 
 _TYPE_WORDS = {"object": "a mapping of keys", "array": "a list", "number": "a number", "integer": "an integer",
@@ -83,29 +88,31 @@ def validate_config(config: dict) -> dict:
     own = _family_parameters(pot)
     grid = config["grid"]
     uses_length = FAMILIES[family].uses_screening_length(own)
-    if uses_length and "screening_length" not in grid:
-        raise InputError(f"config key grid.screening_length: family {family} needs a screening length axis")
-    if not uses_length and "screening_length" in grid:
-        raise InputError(f"config key grid.screening_length: family {family} has no screening length here, so "
-                         "every value would give the same cells; remove the key")
-    if config["resonances"]:
-        _check_resonances(family, own)
     try:
-        preset = from_config(config.get("preset"))
+        preset = from_config(config.get("preset"), grid)
     except InputError as exc:
         raise InputError(f"config key preset: {exc}") from None
-    _check_strength_axis(grid, preset)
+    if is_condition_sweep(grid):
+        _check_conditions(grid, config.get("preset") or {}, preset, family, uses_length)
+    else:
+        if uses_length and "screening_length" not in grid:
+            raise InputError(f"config key grid.screening_length: family {family} needs a screening length axis")
+        if not uses_length and "screening_length" in grid:
+            raise InputError(f"config key grid.screening_length: family {family} has no screening length here, so "
+                             "every value would give the same cells; remove the key")
+        _check_strength_axis(grid, preset)
+    if config["resonances"]:
+        _check_resonances(family, own)
     pot["mass"] = _sweep_mass(pot.get("mass"), config.get("preset") or {}, preset)
-    for name in ("strength", "coupling_MeV_fm", "screening_length"):
-        if name not in grid:
-            continue
+    axes = [name for name in GRID_AXES if name in grid]
+    for name in axes:
         axis = grid[name]
         if isinstance(axis, dict) and axis.get("num", 1) > 1 and axis["start"] == axis["stop"]:
             raise InputError(f"config key grid.{name}: start equals stop but num is {axis['num']}")
     lgrid = config["grid"]["l"]
     if isinstance(lgrid, dict) and lgrid["stop"] < lgrid["start"]:
         raise InputError("config key grid.l: stop is below start")
-    for name in ("strength", "coupling_MeV_fm", "screening_length", "l"):
+    for name in axes + ["l"]:
         if name not in grid:
             continue
         values = axis_values(grid[name], name)
@@ -133,6 +140,37 @@ def _check_resonances(family, own):
     if probe.tail != "short":
         raise InputError(f"config key resonances: family {family} has a {probe.tail} tail, so every state stays "
                          "bound and none turns into a resonance; set resonances: false")
+
+
+def _check_conditions(grid, section, preset, family, uses_length):
+    """A sweep over a trade's conditions: the preset's axes, all of them, and nothing that would
+    set the screening length a second way."""
+    given = [key for key in grid if any(key in cls.condition_keys for cls in PRESETS.values())]
+    for key in given:
+        if key not in preset.condition_keys:
+            kinds = " or ".join(kind for kind, cls in PRESETS.items() if key in cls.condition_keys)
+            raise InputError(f"config key grid.{key}: a sweep over {key} needs preset kind {kinds}")
+    for key in preset.condition_keys:
+        if key not in grid:
+            raise InputError(f"config key grid.{key}: a sweep over {', '.join(given)} needs {key} as well (a list "
+                             "of one value for a single one)")
+    if "screening_length" in grid:
+        raise InputError(f"config key grid.screening_length: the conditions ({', '.join(preset.condition_keys)}) set "
+                         "the screening length; remove it")
+    if not uses_length:
+        raise InputError(f"config key potential.family: family {family} has no screening length, so the conditions "
+                         f"({', '.join(preset.condition_keys)}) change nothing; use yukawa, ecsc, hulthen or a "
+                         "screened table")
+    strength_axis = preset.condition_strength_key
+    for key in ("strength", "coupling_MeV_fm"):
+        if key != strength_axis and key in grid:
+            raise InputError(f"config key grid.{key}: the strength of this sweep is grid.{strength_axis}; remove it")
+    if strength_axis not in grid:
+        raise InputError(f"config key grid.{strength_axis}: a sweep over {', '.join(given)} needs it")
+    reference = preset.reference_key
+    if reference is not None and reference in section:
+        raise InputError(f"config key preset.{reference}: the temperatures of this sweep are grid."
+                         f"{preset.condition_keys[1]}; remove it")
 
 
 def _check_strength_axis(grid, preset):

@@ -29,6 +29,10 @@ N_R_MAX_LIMIT = 200
 # bohr (any QM textbook), about 10^6/Z bohr at n = l + 1 = 1001: beyond any screened ion,
 # donor or nucleus this models.
 L_LIMIT = 1000
+# The grid's strength axis, and the trades' condition axes that replace screening_length
+# (boundscape.physics.presets: condition_keys); read here from the raw config, before any preset.
+STRENGTH_AXES = ("strength", "coupling_MeV_fm", "coupling")
+CONDITION_AXES = ("electron_density", "electron_temperature", "carrier_density", "temperature", "range")
 
 
 def axis_size(spec, name) -> int | None:
@@ -78,18 +82,21 @@ def check_limits(config) -> None:
     if too_high:
         raise InputError(f"config key grid.l: l = {max(too_high)} is over the limit of {L_LIMIT} (a level of that l "
                          f"has n > {L_LIMIT} and a mean radius near 10^6/Z bohr, outside any screened system)")
-    strength_key = "strength" if "strength" in grid else "coupling_MeV_fm"
-    sizes = (axis_size(grid.get(strength_key), strength_key),
-             axis_size(grid.get("screening_length"), "screening_length"), axis_size(l_spec, "l"))
+    strength_key = next((key for key in STRENGTH_AXES if key in grid), "strength")
+    conditions = [key for key in CONDITION_AXES if key in grid]
+    named = [(strength_key, "strengths")] + ([(key, key.replace("_", " ") + " values") for key in conditions]
+                                             or [("screening_length", "screening lengths")])
+    sizes = tuple(axis_size(grid.get(key), key) for key, _ in named) + (axis_size(l_spec, "l"),)
     if None in sizes or 0 in sizes:
         return
     limits = config.get("limits") if isinstance(config.get("limits"), dict) else {}
     max_cells = _int(limits.get("max_cells"), LIMITS["max_cells"])
     cells = math.prod(sizes)
     if cells > max_cells:
-        raise InputError(f"config key grid: {cells:,} cells ({sizes[0]:,} strengths x {sizes[1]:,} screening lengths x "
-                         f"{sizes[2]:,} l) is over the limit of {max_cells:,} (limits.max_cells); split the sweep, or "
-                         "raise limits.max_cells if the machine holds it")
+        shown = " x ".join(f"{size:,} {words}" for size, (_, words) in zip(sizes, named))
+        raise InputError(f"config key grid: {cells:,} cells ({shown} x {sizes[-1]:,} l) is over the limit of "
+                         f"{max_cells:,} (limits.max_cells); split the sweep, or raise limits.max_cells if the machine "
+                         "holds it")
 
 
 def max_tiles(config) -> int:

@@ -2,7 +2,9 @@
 
 No physics here: this module only cuts the grid strength × screening_length × l into tiles
 (blocks of strengths × a share of the λ row × every l) and the strengths into blocks for the
-critical lengths. A tile is described by the values it covers (not by indices), so a tile's
+critical lengths.  A sweep over a trade's conditions (density × temperature, coupling × range)
+is mapped to engine cells by its preset; the plan keeps each distinct screening length once
+(:func:`distinct_lengths`) and tiles those. A tile is described by the values it covers (not by indices), so a tile's
 description changes exactly when the cells it computes change; the workflow passes it as the
 job's params.
 
@@ -19,13 +21,13 @@ import numpy as np
 
 from ..engine import FAMILIES
 from ..errors import InputError
-from ..physics.presets import from_config
+from ..physics.presets import ConditionGrid, from_config, is_condition_sweep
 from ..version import VERSION
 from .config import axis_values, validate_config
 from .limits import check_limits, max_tiles
 from .lines import label_of, line_pairs
 
-__all__ = ["Plan", "Tile", "plan", "tile_layout", "TILE_FILE", "CRITICAL_FILE"]
+__all__ = ["Plan", "Tile", "plan", "tile_layout", "distinct_lengths", "TILE_FILE", "CRITICAL_FILE", "SAME_LENGTH"]
 
 # The parts' files under results/<sweep>/ ({tile}, {block}: a tile's or block's name).
 TILE_FILE = "tiles/tile_{tile}.nc"
@@ -54,7 +56,13 @@ class Tile:
 
 @dataclass(frozen=True)
 class Plan:
-    """The axes of a sweep, its engine settings, and its tiles."""
+    """The axes of a sweep, its engine settings, and its tiles.
+
+    ``strength`` × ``screening_length`` is the grid of engine cells the tiles solve.  A sweep over
+    a trade's conditions has ``conditions`` (the preset's
+    :class:`~boundscape.physics.presets.ConditionGrid`) and ``length_index``, which gives each
+    condition the index of its screening length in ``screening_length``: the distinct lengths,
+    each solved once."""
 
     sweep: str
     engine: dict
@@ -65,10 +73,35 @@ class Plan:
     tiles: tuple[Tile, ...]
     critical_blocks: tuple[Tile, ...]
     lines: tuple[str, ...] = ()  # the configured E1 lines, e.g. "1s-2p" (lower n first)
+    conditions: ConditionGrid | None = None
+    length_index: np.ndarray | None = None
+    critical_strengths: bool = False  # also the critical strength at each screening length (block 0)
 
     @property
     def num_cells(self) -> int:
+        """Cells of the sweep: conditions (or strength × screening length) × l."""
+        if self.conditions is None:
+            return self.num_engine_cells
+        return self.strength.size * self.length_index.size * self.l.size
+
+    @property
+    def num_engine_cells(self) -> int:
+        """Distinct engine cells (strength, screening length, l) the tiles solve."""
         return self.strength.size * self.screening_length.size * self.l.size
+
+    def describe(self) -> str:
+        """One line: the cells, the distinct engine cells, the tiles."""
+        if self.conditions is None:
+            cells = (f"{self.num_cells} cells = {self.strength.size} strengths x {self.screening_length.size} "
+                     f"screening lengths x {self.l.size} l")
+        else:
+            grid = self.conditions
+            sizes = " x ".join(f"{values.size} {name}" for name, values in
+                               zip((grid.strength_dim, *grid.length_dims), (self.strength, *grid.length_values)))
+            cells = (f"{self.num_cells} cells = {sizes} x {self.l.size} l; {self.num_engine_cells} distinct engine "
+                     f"cells ({self.screening_length.size} distinct screening lengths)")
+        return (f"sweep {self.sweep}: {cells}; {len(self.tiles)} tiles, {len(self.critical_blocks)} critical "
+                f"block{'s' * (len(self.critical_blocks) != 1)}")
 
     def tile_spec(self, tile: Tile) -> dict:
         """Everything a tile job needs, and nothing else: its params."""
@@ -93,6 +126,8 @@ class Plan:
         # Critical lengths do not depend on the λ grid; only its ends decide the flags in collect.
         spec.pop("screening_length"), spec.pop("screening_length_index")
         spec.pop("lines", None)
+        if self.critical_strengths and block.index == 0:  # the critical strength at every length, once
+            spec["critical_strength_at"] = self.screening_length.tolist()
         return spec
 
 
@@ -133,12 +168,21 @@ def plan(config: dict) -> Plan:
     check_limits(config)
     config = validate_config(config)
     grid = config["grid"]
-    if "strength" in grid:
+    preset = from_config(config.get("preset"), grid)
+    conditions = length_index = None
+    if is_condition_sweep(grid):
+        axes = {key: axis_values(grid[key], key) for key in preset.condition_keys}
+        given = axis_values(grid["strength"], "strength") if "strength" in grid else None
+        conditions = preset.condition_grid(given, axes, float(config["potential"]["mass"]))
+        strength = np.asarray(conditions.engine_strength, dtype=np.float64)
+        screening_length, length_index = distinct_lengths(conditions.engine_length)
+    elif "strength" in grid:
         strength = axis_values(grid["strength"], "strength")
+        screening_length = axis_values(grid.get("screening_length"), "screening_length")
     else:  # a nuclear preset's couplings g² (MeV fm), as engine strengths
-        strength = np.asarray(from_config(config["preset"]).strength_for(
-            axis_values(grid["coupling_MeV_fm"], "coupling_MeV_fm")), dtype=np.float64)
-    screening_length = axis_values(grid.get("screening_length"), "screening_length")
+        strength = np.asarray(preset.strength_for(axis_values(grid["coupling_MeV_fm"], "coupling_MeV_fm")),
+                              dtype=np.float64)
+        screening_length = axis_values(grid.get("screening_length"), "screening_length")
     l_values = axis_values(grid["l"], "l")
     n_r_max = int(grid["n_r_max"])
     cells = int(config["tiles"]["cells"])
@@ -176,4 +220,29 @@ def plan(config: dict) -> Plan:
     if config["resonances"]:  # only when on, so that a sweep without them keeps its tiles' params
         engine["resonances"] = True
     return Plan(config["sweep"], engine, strength, screening_length, l_values, n_r_max,
-                tuple(tiles), critical_blocks, tuple(label_of(p) for p in line_pairs(config.get("lines"))))
+                tuple(tiles), critical_blocks, tuple(label_of(p) for p in line_pairs(config.get("lines"))),
+                conditions, length_index,
+                preset.critical_strengths_wanted and bool(np.isfinite(screening_length).all()))
+
+
+# Screening lengths closer than this (relative) are one engine cell: on log grids λ ∝ √(T/n)
+# repeats along diagonals, but each repeat is computed from different rounded n and T and
+# differs in its last bits.  The cell is solved at the group's smallest value, which is the
+# coordinate the cube stores for all of them.
+SAME_LENGTH = 1e-12
+
+
+def distinct_lengths(lengths):
+    """(distinct lengths ascending, index of each input's length among them).
+
+    Lengths within :data:`SAME_LENGTH` of their sorted neighbour form one group, represented by
+    its smallest member; the result does not depend on any tiling."""
+    lengths = np.asarray(lengths, dtype=np.float64)
+    flat = lengths.ravel()
+    order = np.argsort(flat, kind="stable")
+    ordered = flat[order]
+    starts = np.ones(flat.size, bool)
+    starts[1:] = np.diff(ordered) > SAME_LENGTH * ordered[1:]
+    index = np.empty(flat.size, np.int64)
+    index[order] = np.cumsum(starts) - 1
+    return ordered[starts], index.reshape(lengths.shape)

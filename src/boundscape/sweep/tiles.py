@@ -107,6 +107,29 @@ def _store_levels(out, cell, res, n_r_max, reasons):
         reasons.append(cell + (f"not converged at {levels}: {'; '.join(why) or 'no reason given'}",))
 
 
+def _critical_strengths(spec: dict, probe) -> dict:
+    """The critical strength of every state (screening length, l, n_r) at the lengths
+    ``spec["critical_strength_at"]`` (the nuclear critical coupling at each range)."""
+    lams, ls, n_r_max = spec["critical_strength_at"], spec["l"], int(spec["n_r_max"])
+    value = np.full((len(lams), len(ls), n_r_max), np.nan)
+    flag = np.zeros(value.shape, np.int8)
+    reasons = []
+    extra = dict(probe.own)
+    for j, lam in enumerate(lams):
+        for k, l in enumerate(ls):
+            for n_r in range(n_r_max):
+                try:
+                    value[j, k, n_r] = engine.critical_strength(spec["family"], lam, int(l), n_r, mass=spec["mass"],
+                                                                **extra)
+                except ConvergenceError as exc:
+                    flag[j, k, n_r] = CRITICAL_FLAGS.index("not_converged")
+                    reasons.append((j, k, n_r, _one_line(exc)))
+                    continue
+                if math.isinf(value[j, k, n_r]):
+                    flag[j, k, n_r] = CRITICAL_FLAGS.index("never_bound")
+    return {"critical_strength": value, "critical_strength_flag": flag, "critical_strength_reasons": reasons}
+
+
 def solve_criticals(spec: dict) -> dict:
     """Critical screening length of every state (strength, l, n_r < n_r_max) of a block.
 
@@ -116,7 +139,8 @@ def solve_criticals(spec: dict) -> dict:
         ``critical_screening_length`` (strength, l, n_r), bohr, +inf where the state is never
         bound; ``critical_flag`` (same shape, only ``never_bound``, ``not_converged`` and
         ``not_applicable`` are set here: the grid flags are set in collect, which knows the
-        grid); ``reasons`` and ``engine_seconds``.
+        grid); ``reasons`` and ``engine_seconds``; with ``critical_strength_at`` in the spec also
+        ``critical_strength`` and its flag over (screening length, l, n_r).
     """
     strengths, ls, n_r_max = spec["strength"], spec["l"], int(spec["n_r_max"])
     shape = (len(strengths), len(ls), n_r_max)
@@ -144,6 +168,8 @@ def solve_criticals(spec: dict) -> dict:
                     if math.isinf(value):
                         flag[i, k, n_r] = CRITICAL_FLAGS.index("never_bound")
     result = {"critical_screening_length": critical, "critical_flag": flag, "reasons": reasons}
+    if "critical_strength_at" in spec:
+        result.update(_critical_strengths(spec, probe))
     if resonance_tiles.wanted(spec):
         result.update(resonance_tiles.solve_dissolutions(spec))
     result["engine_seconds"] = time.perf_counter() - start
