@@ -21,9 +21,11 @@ from ..sweep.plan import plan as make_plan
 from ..sweep.tiles import CRITICAL_FLAGS, UNKNOWN_COUNT
 from ..version import VERSION
 from .lines import add_lines, fill_lines
-from .model import LEVEL_VARS, NUM_BOUND_UNKNOWN, build_cube
+from ..sweep.line_tiles import LINE_VARS
+from .conditions import layout_of, write_mapped
+from .model import LEVEL_VARS, NUM_BOUND_UNKNOWN, build_cube, strength_attributes
 from .netcdf import open_for_filling, read_part, read_part_variables, write_cube
-from .physical import add_physical_coordinates
+from .physical import add_physical_coordinates, add_trade_variables
 from .resonances import RESONANCE_VARS, add_resonances
 from .resonances import placeholders as resonance_placeholders
 
@@ -55,11 +57,15 @@ def _read_checked(path, expected_spec, names=None):
     return arrays, attrs
 
 
-def _fill_levels(plan, tile_paths, names=LEVEL_VARS):
-    """Write each tile's levels into the cube file, one tile in memory at a time."""
+def _fill_levels(plan, tile_paths, names=LEVEL_VARS, layout=None):
+    """Write each tile's levels into the cube file, one tile in memory at a time (a sweep over
+    conditions: one block of strengths, whose engine cells fill all its conditions)."""
     def fill(cube_path):
         nc = open_for_filling(cube_path)
         try:
+            if layout is not None and layout.mapped:
+                _fill_mapped(nc, plan, tile_paths, names + (LINE_VARS if plan.lines else ()), layout)
+                return
             for tile, path in zip(plan.tiles, tile_paths):
                 arrays = read_part_variables(path, names)
                 s0, s1 = tile.strength_slice
@@ -72,6 +78,26 @@ def _fill_levels(plan, tile_paths, names=LEVEL_VARS):
             nc.close()
 
     return fill
+
+
+def _fill_mapped(nc, plan, tile_paths, names, layout):
+    """The tiles of each block of strengths gathered over every engine screening length, then
+    written onto every condition that has one of them."""
+    blocks: dict = {}
+    for tile, path in zip(plan.tiles, tile_paths):
+        blocks.setdefault(tuple(tile.strength_slice), []).append((tile, path))
+    for (s0, s1), members in blocks.items():
+        slabs = {}
+        for tile, path in members:
+            arrays = read_part_variables(path, names)
+            index = list(tile.screening_length_index)
+            for name in names:
+                if name not in slabs:
+                    shape = (s1 - s0, plan.screening_length.size) + arrays[name].shape[2:]
+                    slabs[name] = np.zeros(shape, arrays[name].dtype)
+                slabs[name][:, index] = arrays[name]
+        for name in names:
+            write_mapped(nc, name, (s0, s1), slabs.pop(name), layout.length_index)
 
 
 def collect(config: dict, tile_paths, critical_paths, output, summary=None) -> str:
@@ -98,11 +124,14 @@ def collect(config: dict, tile_paths, critical_paths, output, summary=None) -> s
     if len(tile_paths) != len(plan.tiles) or len(critical_paths) != len(plan.critical_blocks):
         raise InputError(f"collect needs {len(plan.tiles)} tiles and {len(plan.critical_blocks)} "
                          f"critical blocks, got {len(tile_paths)} and {len(critical_paths)}")
-    shape = (plan.strength.size, plan.screening_length.size, plan.l.size)
+    family = plan.engine["family"]
+    layout = layout_of(plan, family, strength_attributes(family))
+    engine_shape = (plan.strength.size, plan.screening_length.size, plan.l.size)
+    shape = layout.shape(plan) + (plan.l.size,)  # the cube's cells (the engine's, or the conditions')
     placeholder = np.broadcast_to(np.float64(np.nan), shape + (plan.n_r_max,))
     levels = {name: placeholder for name in LEVEL_VARS}
-    levels["num_bound"] = np.full(shape, UNKNOWN_COUNT, np.int32)
-    levels["status"] = np.zeros(shape, np.int8)
+    levels["num_bound"] = np.full(engine_shape, UNKNOWN_COUNT, np.int32)
+    levels["status"] = np.zeros(engine_shape, np.int8)
     levels["reasons"] = []
     past = bool(plan.engine.get("resonances"))  # the states past threshold (cube/resonances.py)
     if past:
@@ -128,6 +157,8 @@ def collect(config: dict, tile_paths, critical_paths, output, summary=None) -> s
     # A flagged cell keeps its count when the count was found (some level short of tolerance);
     # where the solve failed or the input was rejected the tile says the count is unknown.
     levels["num_bound"][levels["num_bound"] == UNKNOWN_COUNT] = NUM_BOUND_UNKNOWN
+    flagged = int(np.count_nonzero(levels["status"]))  # engine cells
+    levels["num_bound"], levels["status"] = layout.cells(levels["num_bound"]), layout.cells(levels["status"])
 
     crit_shape = (plan.strength.size, plan.l.size, plan.n_r_max)
     criticals = {"critical_screening_length": np.full(crit_shape, np.nan),
@@ -144,6 +175,12 @@ def collect(config: dict, tile_paths, critical_paths, output, summary=None) -> s
         engine_seconds += float(attrs["engine_seconds"])
         criticals["reasons"] += [f"strength={block.strength[i]!r} l={int(plan.l[k])} n_r={n_r}: {text}"
                                  for i, k, n_r, text in json.loads(attrs["reasons_json"])]
+        if "critical_strength" in arrays:  # block 0 of a sweep that asks for them
+            criticals["critical_strength"] = arrays["critical_strength"]
+            criticals["critical_strength_flag"] = arrays["critical_strength_flag"]
+            criticals["critical_strength_reasons"] = [
+                f"screening_length={plan.screening_length[j]!r} l={int(plan.l[k])} n_r={n_r}: {text}"
+                for j, k, n_r, text in json.loads(attrs["critical_strength_reasons_json"])]
     # The grid flags need the grid's λ range, which only the whole plan knows.
     lam_c, flag = criticals["critical_screening_length"], criticals["critical_flag"]
     finite = np.isfinite(lam_c) & (flag == 0)
@@ -157,19 +194,23 @@ def collect(config: dict, tile_paths, critical_paths, output, summary=None) -> s
                   "history": f"boundscape collect: {len(tile_paths)} tiles and "
                              f"{len(critical_paths)} critical blocks merged"}
     ds = build_cube({"strength": plan.strength, "screening_length": plan.screening_length,
-                     "l": plan.l, "n_r_max": plan.n_r_max}, levels, criticals, provenance=provenance)
+                     "l": plan.l, "n_r_max": plan.n_r_max}, levels, criticals, provenance=provenance, layout=layout)
     ds.attrs["engine_seconds"] = engine_seconds
     if past:
         ds = add_resonances(ds, past_levels, past_dissolution)
     if plan.lines:
-        ds = add_lines(ds, plan, tile_paths)
-    # The physical reading of the axes travels with the cube as extra coordinates.
-    ds = add_physical_coordinates(ds, from_config(config.get("preset")))
-    write_cube(ds, output, fill=_fill_levels(plan, tile_paths, LEVEL_VARS + (RESONANCE_VARS if past else ())))
-    flagged = int(np.count_nonzero(levels["status"]))
-    lines = [f"sweep {plan.sweep}: {plan.num_cells} cells ({' x '.join(map(str, shape))}), "
-             f"{flagged} flagged, {len(criticals['reasons'])} critical lengths not converged; "
-             f"engine time {engine_seconds:.2f} s",
+        ds = add_lines(ds, plan, tile_paths, layout)
+    # The physical reading of the axes travels with the cube as extra coordinates, with the
+    # screening model's validity and the critical values in the trade's terms.
+    preset = from_config(config.get("preset"), config["grid"])
+    ds = add_physical_coordinates(ds, preset)
+    ds = add_trade_variables(ds, preset, plan, criticals)
+    write_cube(ds, output, fill=_fill_levels(plan, tile_paths, LEVEL_VARS + (RESONANCE_VARS if past else ()), layout))
+    cells = f"{plan.num_cells} cells ({' x '.join(map(str, shape))})"
+    if layout.mapped:
+        cells += f" from {plan.num_engine_cells} distinct engine cells"
+    lines = [f"sweep {plan.sweep}: {cells}, {flagged} flagged{' (engine cells)' * layout.mapped}, "
+             f"{len(criticals['reasons'])} critical lengths not converged; engine time {engine_seconds:.2f} s",
              f"cube: {output}"]
     if flagged or criticals["reasons"]:
         lines.append(f"flagged cells: variable status (attribute flagged_cells) in {output}, "

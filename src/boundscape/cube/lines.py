@@ -46,9 +46,10 @@ def _attributes():
     }
 
 
-def add_lines(ds, plan, tile_paths):
+def add_lines(ds, plan, tile_paths, layout=None):
     """``ds`` with the plan's lines as coordinates, the status gathered from the tiles, and NaN
-    placeholders of :data:`LINE_VARS` for :func:`fill_lines` to fill."""
+    placeholders of :data:`LINE_VARS` for :func:`fill_lines` to fill (over ``layout``'s
+    dimensions: a sweep over conditions maps each engine cell onto its conditions)."""
     labels = list(plan.lines)
     lower = [label.split("-")[0] for label in labels]
     upper = [label.split("-")[1] for label in labels]
@@ -64,10 +65,13 @@ def add_lines(ds, plan, tile_paths):
             listed = json.loads(nc.getncattr("line_reasons_json"))
         reasons += [f"strength={tile.strength[i]!r} screening_length={tile.screening_length[j]!r} "
                     f"line={labels[m]}: {text}" for i, j, m, text in listed]
-    placeholder = np.broadcast_to(np.float64(np.nan), shape)
+    dims = LINE_DIMS if layout is None else layout.line_dims
+    if layout is not None:
+        status = layout.cells(status)
+    placeholder = np.broadcast_to(np.float64(np.nan), status.shape)
     attrs = _attributes()
-    data = {name: (LINE_DIMS, placeholder, attrs[name]) for name in LINE_VARS}
-    data["line_status"] = (LINE_DIMS, status, {
+    data = {name: (dims, placeholder, attrs[name]) for name in LINE_VARS}
+    data["line_status"] = (dims, status, {
         "long_name": "status of the line in the cell", **flag_attrs(LINE_FLAGS),
         "comment": "absent: a level of the line is not bound in this cell",
         "flagged_lines": listing(reasons)})

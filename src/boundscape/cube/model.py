@@ -18,7 +18,7 @@ from ..labels import FAMILY_NAMES
 from ..physics.units import BOHR_M, BOHR_UDUNITS, HARTREE_EV, HARTREE_J, HARTREE_UDUNITS, udunits_scaled
 from ..sweep.tiles import CRITICAL_FLAGS
 
-__all__ = ["build_cube", "chunk_shape", "listing", "flag_attrs", "CELL_DIMS", "LEVEL_DIMS", "CRITICAL_DIMS",
+__all__ = ["build_cube", "strength_attributes", "chunk_shape", "listing", "flag_attrs", "CELL_DIMS", "LEVEL_DIMS", "CRITICAL_DIMS",
            "LEVEL_VARS", "MAX_LISTED", "NUM_BOUND_UNKNOWN", "FILL_VALUES"]
 
 CELL_DIMS = ("strength", "screening_length", "l")
@@ -69,7 +69,13 @@ def flag_attrs(flags) -> dict:
     return {"flag_values": np.arange(len(flags), dtype=np.int8), "flag_meanings": " ".join(flags)}
 
 
-def build_cube(axes, levels, criticals, *, provenance):
+def strength_attributes(family: str) -> dict:
+    """CF attributes of the engine's strength of a family."""
+    units, name = _strength_units(family)
+    return {"long_name": name, "units": units}
+
+
+def build_cube(axes, levels, criticals, *, provenance, layout=None):
     """Assemble the cube Dataset.
 
     Parameters
@@ -80,7 +86,7 @@ def build_cube(axes, levels, criticals, *, provenance):
         ``energy``, ``energy_error``, ``mean_radius`` (strength, screening_length, l, n_r);
         ``num_bound`` (:data:`NUM_BOUND_UNKNOWN` where the count is unknown), ``status``
         (strength, screening_length, l); ``reasons``, a list of one-line texts naming each
-        flagged cell.
+        flagged cell.  With a ``layout`` the arrays run over its dimensions instead.
     criticals : dict
         ``critical_screening_length`` and ``critical_flag`` (strength, l, n_r), ``reasons``.
     provenance : dict
@@ -96,12 +102,16 @@ def build_cube(axes, levels, criticals, *, provenance):
     family = provenance["family"]
     n_r = np.arange(axes["n_r_max"], dtype=np.int32)
     l_values = np.asarray(axes["l"], dtype=np.int32)
-    strength_units, strength_name = _strength_units(family)
+    if layout is None:
+        from .conditions import Layout
+
+        layout = Layout("strength", ("screening_length",), {
+            "strength": ("strength", np.asarray(axes["strength"], np.float64), strength_attributes(family)),
+            "screening_length": ("screening_length", np.asarray(axes["screening_length"], np.float64),
+                                 {"long_name": family_info(family).length_long_name, "units": BOHR_UDUNITS})})
+    cell_dims, level_dims, critical_dims = layout.cell_dims, layout.level_dims, layout.critical_dims
     coords = {
-        "strength": ("strength", np.asarray(axes["strength"], np.float64),
-                     {"long_name": strength_name, "units": strength_units}),
-        "screening_length": ("screening_length", np.asarray(axes["screening_length"], np.float64),
-                             {"long_name": family_info(family).length_long_name, "units": BOHR_UDUNITS}),
+        **{name: (dims, values, dict(attrs)) for name, (dims, values, attrs) in layout.coords.items()},
         "l": ("l", l_values, {"long_name": "angular momentum l", "units": "1"}),
         "n_r": ("n_r", n_r, {"long_name": "radial quantum number n_r", "units": "1",
                              "comment": "nodes of u(r) in 0 < r < inf"}),
@@ -117,33 +127,33 @@ def build_cube(axes, levels, criticals, *, provenance):
     status = levels["status"].astype(np.int8)
     flagged = int(np.count_nonzero(status))
     data_vars = {
-        "energy": (LEVEL_DIMS, levels["energy"], {
+        "energy": (level_dims, levels["energy"], {
             "long_name": "energy", **energy_attrs,
             "comment": "energy of the bound state (n_r, l); NaN where it is not bound, or where status is not ok"}),
-        "energy_error": (LEVEL_DIMS, levels["energy_error"], {
+        "energy_error": (level_dims, levels["energy_error"], {
             "long_name": "energy error estimate", **energy_attrs,
             "comment": "absolute error estimate of the energy"}),
-        "mean_radius": (LEVEL_DIMS, levels["mean_radius"], {
+        "mean_radius": (level_dims, levels["mean_radius"], {
             "long_name": "mean radius <r>", **length_attrs, "bohr_in_m": BOHR_M}),
-        "num_bound": (CELL_DIMS, levels["num_bound"].astype(np.int32), {
+        "num_bound": (cell_dims, levels["num_bound"].astype(np.int32), {
             "long_name": "number of bound states of this l", "units": "1", "ancillary_variables": "status",
             "comment": "exact count from the nodes of the zero-energy solution, also where some level of the "
                        f"cell did not converge; levels with n_r >= {axes['n_r_max']} are counted but not "
                        "stored; -1 means infinitely many (a Coulomb tail or a confining potential); "
                        f"_FillValue ({int(NUM_BOUND_UNKNOWN)}) where the count is unknown: the cell's input "
                        "was rejected or its solve failed (see status)"}),
-        "status": (CELL_DIMS, status, {
+        "status": (cell_dims, status, {
             "long_name": "solver status of the cell",
             **flag_attrs(LEVEL_STATUS),
             "flagged_cell_count": np.int32(flagged),
             "flagged_cells": listing(levels["reasons"])}),
-        "critical_screening_length": (CRITICAL_DIMS, criticals["critical_screening_length"], {
+        "critical_screening_length": (critical_dims, criticals["critical_screening_length"], {
             "long_name": "critical screening length",
             **length_attrs, "ancillary_variables": "critical_screening_length_flag",
             "comment": "the screening length below which the state (n_r, l) is not bound; from the zero-energy "
                        "solution by root finding; +inf where never bound; stored for every state, also outside "
                        "the grid's screening_length range"}),
-        "critical_screening_length_flag": (CRITICAL_DIMS, criticals["critical_flag"].astype(np.int8), {
+        "critical_screening_length_flag": (critical_dims, criticals["critical_flag"].astype(np.int8), {
             "long_name": "position of the critical screening length against the grid",
             **flag_attrs(CRITICAL_FLAGS),
             "comment": "below_grid: bound over the whole grid; above_grid: not bound anywhere on it",
@@ -153,8 +163,8 @@ def build_cube(axes, levels, criticals, *, provenance):
     config = yaml.safe_load(provenance.get("config_yaml") or "") or {}
     attrs = {
         "Conventions": "CF-1.10",
-        "title": f"Bound states of the {FAMILY_NAMES.get(family, family)} potential over strength x screening "
-                 f"length x l (sweep {provenance['sweep']})",
+        "title": f"Bound states of the {FAMILY_NAMES.get(family, family)} potential over "
+                 f"{' x '.join(d.replace('_', ' ') for d in cell_dims)} (sweep {provenance['sweep']})",
         # CF: who produced the data. Only the config can say; absent otherwise.
         **({"institution": config["institution"]} if isinstance(config, dict) and config.get("institution") else {}),
         "source": f"boundscape {provenance['version']} radial engine (bound_levels, "

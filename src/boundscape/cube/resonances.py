@@ -12,7 +12,7 @@ import numpy as np
 
 from ..physics.units import BOHR_M, BOHR_UDUNITS, HARTREE_EV, HARTREE_J, HARTREE_UDUNITS, udunits_scaled
 from ..sweep.resonance_tiles import DISSOLUTION_FLAGS, NOT_SOLVED, RESONANCE_FLAGS, RESONANCE_VARS
-from .model import CRITICAL_DIMS, LEVEL_DIMS, flag_attrs, listing
+from .model import flag_attrs, listing
 
 __all__ = ["RESONANCE_VARS", "ENERGY_VARS", "LENGTH_VARS", "INVERSE_LENGTH_VARS", "placeholders",
            "add_resonances", "inverse_length_attrs"]
@@ -23,8 +23,10 @@ INVERSE_LENGTH_VARS = ("virtual_state_kappa",)
 
 
 def inverse_length_attrs(length_m: float) -> dict:
-    """Units of a wavenumber in a system whose length unit is ``length_m`` metres."""
-    return {"units": udunits_scaled(1.0 / length_m, "m-1"), "wavenumber_unit_in_per_m": 1.0 / length_m}
+    """Units of a wavenumber in a system whose length unit is ``length_m`` metres: ``1/(L m)``
+    keeps L's digits (1/L written out can read ``999999999999999.9 m-1`` for L = 1 fm)."""
+    # The factor to 15 digits: 1/1e-15 is 999999999999999.9 in binary floating point.
+    return {"units": f"1/({udunits_scaled(length_m, 'm')})", "wavenumber_unit_in_per_m": float(f"{1.0 / length_m:.15g}")}
 
 
 def placeholders(shape) -> dict:
@@ -50,38 +52,39 @@ def add_resonances(ds, levels: dict, dissolution: dict):
     length = {"units": BOHR_UDUNITS, "length_unit_in_m": BOHR_M}
     wavenumber = {**inverse_length_attrs(BOHR_M), "bohr_in_m": BOHR_M}
     status = levels["resonance_status"]
+    level_dims, critical_dims = ds["energy"].dims, ds["critical_screening_length"].dims
     variables = {
-        "resonance_energy": (LEVEL_DIMS, levels["resonance_energy"], {
+        "resonance_energy": (level_dims, levels["resonance_energy"], {
             "long_name": "energy of the state past its threshold", **energy,
             "ancillary_variables": "resonance_status",
             "comment": "l >= 1: E_r of the shape resonance, the S-matrix pole E_r - i Gamma/2 continued from the "
                        "bound state (n_r, l); l = 0: the virtual state's E_v = -kappa_v^2/(2 mu), on the "
                        "unphysical sheet (not a bound state); NaN where the state is bound, not found or out "
                        "of reach (see resonance_status)"}),
-        "resonance_width": (LEVEL_DIMS, levels["resonance_width"], {
+        "resonance_width": (level_dims, levels["resonance_width"], {
             "long_name": "width of the shape resonance", **energy, "ancillary_variables": "resonance_status",
             "comment": "Gamma of the pole E_r - i Gamma/2 (l >= 1); NaN for l = 0 (a virtual state has no width), "
                        "where the state is bound, and where it is not found"}),
-        "virtual_state_kappa": (LEVEL_DIMS, levels["virtual_state_kappa"], {
+        "virtual_state_kappa": (level_dims, levels["virtual_state_kappa"], {
             "long_name": "momentum kappa_v of the virtual state", **wavenumber,
             "ancillary_variables": "resonance_status",
             "comment": "l = 0 only: the pole k = -i kappa_v on the negative imaginary axis; its energy "
                        "E_v = -kappa_v^2/(2 mu) lies on the unphysical sheet and is stored in resonance_energy; "
                        "NaN for l >= 1, where the state is bound, and where it is not found"}),
-        "resonance_status": (LEVEL_DIMS, status, {
+        "resonance_status": (level_dims, status, {
             "long_name": "status of the state past its threshold",
             **flag_attrs(RESONANCE_FLAGS),
             "comment": "ok: found, Gamma <= E_r; dissolved: Gamma > E_r (values given) or the pole out of reach "
                        "(NaN); not_converged: error estimate above tolerance (NaN); bound: a bound state (see "
                        "energy); not_solved: the cell's bound states were not solved (see status)",
             "flagged_states": listing(levels["reasons"])}),
-        "dissolution_screening_length": (CRITICAL_DIMS, dissolution["dissolution_screening_length"], {
+        "dissolution_screening_length": (critical_dims, dissolution["dissolution_screening_length"], {
             "long_name": "dissolution screening length", **length,
             "ancillary_variables": "dissolution_screening_length_flag",
             "comment": "l >= 1: the screening length below which the resonance (n_r, l) is broader than its "
                        "energy (Gamma > E_r); between it and critical_screening_length the state lives on as a "
                        "resonance narrower than its energy; NaN where there is none (see the flag)"}),
-        "dissolution_screening_length_flag": (CRITICAL_DIMS, dissolution["dissolution_flag"].astype(np.int8), {
+        "dissolution_screening_length_flag": (critical_dims, dissolution["dissolution_flag"].astype(np.int8), {
             "long_name": "why a dissolution screening length is or is not given",
             **flag_attrs(DISSOLUTION_FLAGS),
             "comment": "out_of_reach: the pole leaves the solver's reach (or the state is never bound) before "
