@@ -18,8 +18,9 @@ from matplotlib.figure import Figure
 from ..labels import state_label
 from ..physics.presets import NO_PRESET
 from ..physics.units import convert
-from .level_fan import fan_strengths
-from .style import HALO, cell_edges, count_colorbar, count_norm, cube_unit_system, family_title
+from .style import (HALO, cell_edges, count_colorbar, count_norm, cube_unit_system, family_title, invalid_handle,
+                    is_condition_cube, shade_invalid, shade_invalid_x)
+from .views import fan_strengths
 
 # Panels drawn when the config names no strengths: every stored one up to this many.
 MAX_PANELS = 6
@@ -51,7 +52,9 @@ def condition_map(ds, preset=NO_PRESET, settings=None):
 
     A state survives where the preset's screening length at (n, T) exceeds its stored λ_c.  The
     preset's :attr:`~boundscape.physics.presets.Preset.condition_axes` say how the map reads it,
-    its ``validity_field`` and ``validity_density`` where its screening model fails.
+    its :meth:`~boundscape.physics.presets.Preset.validity` where its screening model fails
+    (hatched).  A sweep over the conditions themselves has no such map: its threshold maps are
+    over them.
 
     Returns
     -------
@@ -62,7 +65,7 @@ def condition_map(ds, preset=NO_PRESET, settings=None):
     """
     settings = settings or {}
     axes_of = preset.condition_axes
-    if axes_of is None:
+    if axes_of is None or is_condition_cube(ds):  # a sweep over conditions has its own maps
         return None, {}
     units = cube_unit_system(ds, preset)
     two_d = axes_of.temperature_fixed is None
@@ -83,10 +86,8 @@ def condition_map(ds, preset=NO_PRESET, settings=None):
     n_m3 = convert(density, "cm-3", "m-3")
     lam_m = np.array([preset.screening_length_at(n_m3, t) for t in temperature])  # (T, n)
     lam = lam_m / units.length_m
-    # Where the screening model fails: a field equal to 1 there, or a density per temperature.
-    validity = preset.validity_field(n_m3, lam_m)
-    boundary = preset.validity_density(temperature)
-    boundary = None if boundary is None else convert(boundary, "m-3", "cm-3")
+    # Where the screening model fails (T × n).
+    fails = preset.validity(n_m3[None, :], temperature[:, None]).flag != 0
     stored = ds["strength"].values
     chosen = settings.get("strengths")
     strengths = _axis_values(chosen, list(stored if stored.size <= MAX_PANELS else fan_strengths(stored, 4)))
@@ -102,7 +103,7 @@ def condition_map(ds, preset=NO_PRESET, settings=None):
     l0 = ds["l"].values[0]
     for ax, s in zip(axes, strengths):
         charge = _charge(ds, preset, s)
-        ax.set(xscale="log", title=f"{what} = {charge:g}", xlim=(density.min(), density.max()))
+        ax.set(xscale="log", title=f"{what} = {charge:g}", xlim=cell_edges(density)[[0, -1]])
         if two_d:
             mesh = ax.pcolormesh(cell_edges(density), cell_edges(temperature), counts[s], cmap=cmap, norm=norm, rasterized=True)
             ax.set_yscale("log")
@@ -130,13 +131,10 @@ def condition_map(ds, preset=NO_PRESET, settings=None):
                 ax.axvline(loss[0], ls="--", color="C0", lw=1)
                 ax.annotate(f"{name} lost", (loss[0], top), rotation=90, fontsize=7, xytext=(-8, 0),
                             textcoords="offset points", ha="center", va="top", color="C0")
-        if validity is not None and validity.min() < 1 < validity.max():
-            ax.contour(density, temperature, validity, levels=[1.0], colors="red", linestyles=":", linewidths=1.2)
-        if boundary is not None and two_d:
-            ax.plot(boundary, temperature, ":", color="red", lw=1.2, gid=axes_of.validity_gid)
-        elif boundary is not None and density.min() < boundary[0] < density.max():
-            ax.axvspan(density.min(), boundary[0], color="0.85", zorder=0, gid=axes_of.validity_gid)
-            ax.axvline(boundary[0], ls=":", color="red", lw=1.2)
+        if two_d:
+            shade_invalid(ax, cell_edges(density), cell_edges(temperature), fails.T)
+        else:
+            shade_invalid_x(ax, density, fails[0])
     for ax in axes[len(strengths):]:
         ax.set_visible(False)
     for ax in axes[:len(strengths)]:
@@ -147,11 +145,9 @@ def condition_map(ds, preset=NO_PRESET, settings=None):
     if two_d:
         count_colorbar(fig, mesh, list(axes[:len(strengths)]), top, "surviving stored bound states (all l)")
     handles = [matplotlib.lines.Line2D([], [], color="0.4" if two_d else "C0", ls="--",
-                                       label=f"loss of the lowest l = {l0} states")]
-    if two_d:
-        handles.append(matplotlib.lines.Line2D([], [], color="red", ls=":", label=axes_of.validity_label))
-    else:
-        handles.append(matplotlib.patches.Patch(color="0.85", label=axes_of.validity_label))
+                                       label=f"loss of the lowest $l$ = {l0} states")]
+    if fails.any():
+        handles.append(invalid_handle())
     fig.legend(handles=handles, loc="outside lower center", fontsize=7, ncols=2)
     shown = ", ".join(f"{_charge(ds, preset, s):g}" for s in strengths)
     note = "" if len(strengths) == stored.size else \

@@ -1,145 +1,151 @@
-"""Line figures: the relative shift of each E1 line over (strength, screening length) with the
-curve where it is lost, and a survival chart of every line (where it disappears, at which
-wavelength).  Drawn from the cube's line variables and stored critical lengths alone."""
+"""Line-shift maps: the shift of each E1 line against the unscreened line, relative and in the
+trade's energy unit side by side, over (strength, screening length) with the curve where the line
+is lost — or, in a sweep over density × temperature, over (density, temperature) per strength with
+the density above which it is lost.  Where the screening model fails the cells are hatched.
+Drawn from the cube's line variables and stored critical values alone."""
 
 from __future__ import annotations
 
 import numpy as np
 from matplotlib.colors import LogNorm
 from matplotlib.figure import Figure
-from scipy import constants
 
-from ..labels import parse_state
 from ..physics.presets import NO_PRESET
-from ..physics.units import convert
-from .style import (HALO, cell_edges, cube_unit_system, family_title, length_label, strength_label, strength_values,
-                    tidy_log_axis, value_ticks)
+from .line_survival import line_loss_density, line_loss_length, line_survival_chart
+from .style import (HALO, axis_label, cell_edges, cube_dims, energy_unit, family_title, invalid_mask, length_label,
+                    shade_invalid, strength_label, strength_values, tidy_log_axis, unit_names, value_ticks)
+from .views import picks
 
-__all__ = ["line_shift_map", "line_survival_chart", "line_loss_length"]
+__all__ = ["line_shift_map", "line_survival_chart", "line_loss_length", "line_loss_density"]
 
-
-def _critical(ds, state):
-    n, l = parse_state(state)
-    if "critical_screening_length" not in ds or l not in ds["l"].values or n - l - 1 >= ds.sizes["n_r"]:
-        return np.full(ds.sizes["strength"], np.nan)
-    return ds["critical_screening_length"].sel(l=l, n_r=n - l - 1).values
+MAX_ROWS = 3
 
 
-def line_loss_length(ds, m):
-    """The screening length below which line ``m`` is gone, per strength: the larger of its two
-    levels' stored critical lengths (the upper level's, unless screening reorders them)."""
-    return np.fmax(_critical(ds, str(ds["line_lower"].values[m])), _critical(ds, str(ds["line_upper"].values[m])))
+def _shifts(ds, m, preset):
+    """(relative shift, |absolute shift| in the shown unit, the unit's name) of line ``m``."""
+    energy = ds["line_energy"].isel(line=m).values
+    shift = ds["line_shift"].isel(line=m).values
+    unit, factor = energy_unit(ds, preset)
+    if unit is None:
+        unit, factor = unit_names(preset)[1], 1.0
+    with np.errstate(divide="ignore", invalid="ignore"):
+        relative = shift / (energy - shift)
+    return relative, shift * factor, unit
+
+
+def _direction(relative):
+    signs = np.sign(relative[np.isfinite(relative) & (relative != 0)])
+    if signs.size and (signs < 0).all():
+        return "red-shifted (to lower energy)"
+    if signs.size and (signs > 0).all():
+        return "blue-shifted (to higher energy)"
+    return "shifted both ways"
+
+
+def _panel(fig, ax, x_edges, y_edges, values, label):
+    shown = np.abs(values)
+    shown = np.where(shown > 0, shown, np.nan)
+    finite = shown[np.isfinite(shown)]
+    if not finite.size:
+        ax.text(0.5, 0.5, "no unscreened counterpart to shift from\n(or the line is never present)",
+                transform=ax.transAxes, ha="center", va="center", fontsize=8)
+        return None
+    norm = LogNorm(vmin=max(finite.min(), finite.max() * 1e-8), vmax=finite.max())
+    mesh = ax.pcolormesh(x_edges, y_edges, np.ma.masked_invalid(shown).T, cmap="viridis", norm=norm, rasterized=True)
+    bar = fig.colorbar(mesh, ax=ax, pad=0.02, label=label)
+    bar.solids.set_rasterized(True)
+    return mesh
 
 
 def line_shift_map(ds, m, preset=NO_PRESET):
-    """Relative shift |ΔE − ΔE₀|/ΔE₀ of line ``m`` over (strength, λ), with its loss curve.
+    """The shift of line ``m`` against the unscreened line: relative |ΔE − ΔE₀|/ΔE₀ beside
+    |ΔE − ΔE₀| in the trade's energy unit, with the curve where the line is lost.
 
     Returns
     -------
     fig : matplotlib.figure.Figure
     data : dict
-        ``relative_shift`` (strength × screening length; NaN where the line is gone or has no
-        unscreened counterpart) and ``loss`` (the loss curve's (strength, λ) arrays).
+        ``relative_shift`` and ``shift`` (the cube's cells; NaN where the line is gone or has no
+        unscreened counterpart; ``shift`` in ``shift_unit``), and ``loss``: the loss curve's
+        arrays (strength, λ) — per strength (density, temperature) in a sweep over conditions.
     """
+    label = str(ds["line_label"].values[m])
+    relative, absolute, unit = _shifts(ds, m, preset)
+    way = _direction(relative)
+    pretty = label.replace("-", "–")
+    if len(cube_dims(ds)[1]) == 2:
+        fig, loss = _condition_shift_map(ds, m, preset, relative, absolute, unit, way)
+    else:
+        fig, loss = _strength_shift_map(ds, m, preset, relative, absolute, unit, way)
+    fig.suptitle(f"{family_title(ds)}: line {pretty}, shift against the unscreened line ({way})", fontsize=9)
+    return fig, {"relative_shift": relative, "shift": absolute, "shift_unit": unit, "loss": loss}
+
+
+def _strength_shift_map(ds, m, preset, relative, absolute, unit, way):
     label = str(ds["line_label"].values[m])
     z = strength_values(ds, preset)
     lam = ds["screening_length"].values
-    energy = ds["line_energy"].isel(line=m).values
-    shift = ds["line_shift"].isel(line=m).values
-    relative = shift / (energy - shift)
-    fig = Figure(figsize=(6.4, 4.6), layout="constrained")
-    ax = fig.add_subplot()
-    magnitude = np.abs(relative)
-    shown = np.where(magnitude > 0, magnitude, np.nan)
-    finite = shown[np.isfinite(shown)]
-    title = f"{family_title(ds)}: line {label.replace('-', '–')}, shift against the unscreened line"
-    ax.set(xscale="log", yscale="log", xlim=cell_edges(z)[[0, -1]], ylim=cell_edges(lam)[[0, -1]],
-           xlabel=strength_label(ds, preset), ylabel=length_label(ds, preset), title=title)
-    if finite.size:
-        norm = LogNorm(vmin=max(finite.min(), finite.max() * 1e-8), vmax=finite.max())
-        mesh = ax.pcolormesh(cell_edges(z), cell_edges(lam), np.ma.masked_invalid(shown).T, cmap="viridis",
-                             norm=norm, rasterized=True)
-        signs = np.sign(relative[np.isfinite(relative) & (relative != 0)])
-        way = ("to lower energy (red)" if (signs < 0).all() else "to higher energy (blue)" if (signs > 0).all()
-               else "in both directions")
-        bar = fig.colorbar(mesh, ax=ax, pad=0.02, label=f"relative shift |ΔE − ΔE₀|/ΔE₀, lines move {way}")
-        bar.solids.set_rasterized(True)
-    else:
-        ax.text(0.5, 0.5, "no unscreened counterpart to shift from\n(or the line is never present)",
-                transform=ax.transAxes, ha="center", va="center")
+    fig = Figure(figsize=(11.6, 4.6), layout="constrained")
+    axes = fig.subplots(1, 2, sharey=True)
     loss = line_loss_length(ds, m)
     ok = np.isfinite(loss) & (loss > 0)
-    if ok.any():
-        ax.plot(z[ok], loss[ok], "-", color="white", lw=1.6, path_effects=HALO, gid=f"loss:{label}",
-                label=f"{label.replace('-', '–')} lost below this line")
-        ax.legend(loc="lower left", fontsize=7, framealpha=0.8)
-    value_ticks(ax.xaxis, z)
-    tidy_log_axis(ax.yaxis, lam.min(), lam.max())
-    return fig, {"relative_shift": relative, "loss": (z[ok], loss[ok])}
+    bad = invalid_mask(ds)
+    titles = ("relative shift $|\\Delta E - \\Delta E_0|/\\Delta E_0$", f"shift $|\\Delta E - \\Delta E_0|$ ({unit})")
+    for ax, values, title in zip(axes, (relative, absolute), titles):
+        ax.set(xscale="log", yscale="log", xlim=cell_edges(z)[[0, -1]], ylim=cell_edges(lam)[[0, -1]],
+               xlabel=strength_label(ds, preset), title=title)
+        _panel(fig, ax, cell_edges(z), cell_edges(lam), values, title)
+        handles = []
+        if bad is not None:
+            shaded = shade_invalid(ax, cell_edges(z), cell_edges(lam), np.broadcast_to(bad[None, :], (z.size, lam.size)))
+            handles = [shaded] if shaded is not None else []
+        if ok.any():
+            (line,) = ax.plot(z[ok], loss[ok], "-", color="white", lw=1.6, path_effects=HALO, gid=f"loss:{label}",
+                              label=f"{label.replace('-', '–')} lost below this line")
+            handles.insert(0, line)
+        if handles:
+            ax.legend(handles=handles, loc="lower left", fontsize=7, framealpha=0.8)
+        value_ticks(ax.xaxis, z)
+        tidy_log_axis(ax.yaxis, lam.min(), lam.max())
+    axes[0].set_ylabel(length_label(ds, preset))
+    return fig, (z[ok], loss[ok])
 
 
-def _wavelength_nm(ds):
-    """Vacuum wavelength hc/ΔE (nm) of each line at the sweep's largest screening length, per
-    strength (NaN where the line is gone there): a unit conversion of the stored ΔE."""
-    joules = ds["line_energy"].isel(screening_length=-1).values * float(ds["line_energy"].attrs["energy_unit_in_J"])
-    with np.errstate(divide="ignore", invalid="ignore"):
-        return constants.h * constants.c / joules / constants.nano  # (strength, line)
-
-
-def line_survival_chart(ds, preset=NO_PRESET):
-    """Where each line disappears: per line and strength, the screening length below which it is
-    gone (under the plasma or semiconductor preset, the carrier density above which it is gone)
-    against its vacuum wavelength in nm.
-
-    Returns
-    -------
-    fig : matplotlib.figure.Figure
-    data : dict
-        ``threshold`` (strength × line; bohr-like cube lengths, or cm⁻³ under a preset),
-        ``wavelength_nm`` (strength × line).
-    """
-    z = strength_values(ds, preset)
-    labels = [str(v) for v in ds["line_label"].values]
-    loss = np.stack([line_loss_length(ds, m) for m in range(len(labels))], axis=1)  # (strength, line)
-    wavelength = _wavelength_nm(ds)
-    density = preset.density_name is not None
-    if density:
-        length_m = cube_unit_system(ds, preset).length_m
-        with np.errstate(divide="ignore", invalid="ignore"):
-            threshold = np.where(np.isfinite(loss) & (loss > 0),
-                                 convert(np.asarray(preset.loss_density(np.where(loss > 0, loss, 1.0) * length_m),
-                                                    dtype=float), "m-3", "cm-3"),
-                                 np.nan)
-        who = preset.density_name.replace("_", " ")
-        xlabel = f"{who} above which the line is gone (cm⁻³, {preset.density_note})"
-    else:
-        threshold = np.where(loss > 0, loss, np.nan)
-        xlabel = f"screening length below which the line is gone ({length_label(ds, preset).rsplit('(', 1)[-1]}"
-    fig = Figure(figsize=(6.8, 4.6), layout="constrained")
-    ax = fig.add_subplot()
-    colours = [f"C{i % 10}" for i in range(len(labels))]
-    placed = []
-    for m, label in enumerate(labels):
-        x, y = threshold[:, m], wavelength[:, m]
-        ok = np.isfinite(x) & np.isfinite(y) & (y > 0)
-        if not ok.any():
-            continue
-        ax.plot(x[ok], y[ok], "-o", color=colours[m], ms=4, lw=1, label=label.replace("-", "–"), gid=f"line:{label}")
-        placed.append((x[ok], y[ok]))
-    ax.set(xscale="log", yscale="log", xlabel=xlabel, ylabel="vacuum wavelength (nm), least screened cell",
-           title=f"{family_title(ds)}: where each line disappears")
-    if placed:
-        xs = np.concatenate([p[0] for p in placed])
-        ys = np.concatenate([p[1] for p in placed])
-        ax.set_xlim(xs.min() / 1.6, xs.max() * 1.6)
-        ax.set_ylim(ys.min() / 1.4, ys.max() * 1.4)
-        tidy_log_axis(ax.xaxis, xs.min() / 1.6, xs.max() * 1.6)
-        tidy_log_axis(ax.yaxis, ys.min() / 1.4, ys.max() * 1.4)
-        ax.legend(title="line", fontsize=7, title_fontsize=7, loc="best", framealpha=0.85)
-        if z.size > 1:
-            ax.text(0.99, 0.01, f"points along a line: strength {z.min():.3g} … {z.max():.3g} "
-                                f"({'left to right' if density else 'right to left'} as it rises)",
-                    transform=ax.transAxes, ha="right", va="bottom", fontsize=7, color="0.3")
-    else:
-        ax.text(0.5, 0.5, "no line is present in the sweep", transform=ax.transAxes, ha="center", va="center")
-    return fig, {"threshold": threshold, "wavelength_nm": wavelength}
+def _condition_shift_map(ds, m, preset, relative, absolute, unit, way):
+    label = str(ds["line_label"].values[m])
+    strength_dim, (x_dim, y_dim) = cube_dims(ds)
+    x, y = ds[x_dim].values, ds[y_dim].values
+    rows = picks(ds.sizes[strength_dim], MAX_ROWS)
+    fig = Figure(figsize=(11.6, 3.4 * rows.size + 0.8), layout="constrained")
+    axes = fig.subplots(rows.size, 2, sharex=True, sharey=True, squeeze=False)
+    loss = line_loss_density(ds, m)  # (strength, y)
+    bad = invalid_mask(ds)
+    drawn = {}
+    titles = ("relative shift $|\\Delta E - \\Delta E_0|/\\Delta E_0$", f"shift $|\\Delta E - \\Delta E_0|$ ({unit})")
+    for row, i in enumerate(rows):
+        z = float(ds[strength_dim].values[i])
+        name = preset.strength_text(z, ds[strength_dim].attrs)
+        for col, (values, title) in enumerate(zip((relative[i], absolute[i]), titles)):
+            ax = axes[row, col]
+            ax.set(xscale="log", yscale="log", xlim=cell_edges(x)[[0, -1]], ylim=cell_edges(y)[[0, -1]],
+                   title=f"{name}: {title}")
+            _panel(fig, ax, cell_edges(x), cell_edges(y), values, title)
+            handles = []
+            if loss is not None:
+                ok = np.isfinite(loss[i]) & (loss[i] > 0)
+                if ok.any():
+                    drawn[z] = (loss[i][ok], y[ok])
+                    (line,) = ax.plot(loss[i][ok], y[ok], "-", color="white", lw=1.6, path_effects=HALO,
+                                      gid=f"loss:{label}", label=f"{label.replace('-', '–')} lost right of this line")
+                    handles.append(line)
+            if bad is not None and (shaded := shade_invalid(ax, cell_edges(x), cell_edges(y), bad)) is not None:
+                handles.append(shaded)
+            if handles:
+                ax.legend(handles=handles, loc="lower right", fontsize=7, framealpha=0.8)
+            tidy_log_axis(ax.xaxis, x.min(), x.max())
+            tidy_log_axis(ax.yaxis, y.min(), y.max())
+            if row == rows.size - 1:
+                ax.set_xlabel(axis_label(ds, x_dim, preset))
+            if col == 0:
+                ax.set_ylabel(axis_label(ds, y_dim, preset))
+    return fig, drawn

@@ -9,7 +9,8 @@ import matplotlib
 from ..cube.physical import preset_of
 from .conditions import condition_map
 from .level_fan import level_fan
-from .line_maps import line_shift_map, line_survival_chart
+from .line_maps import line_shift_map
+from .line_survival import line_survival_chart
 from .loss_table import write_critical_csv
 from .resonance_fan import resonance_fan
 from .style import RC, save
@@ -37,7 +38,10 @@ def render_all(ds, outdir):
                 written += save(line_shift_map(ds, m, preset)[0], outdir / f"line_shift_{label}")
             written += save(line_survival_chart(ds, preset)[0], outdir / "line_survival")
     write_critical_csv(ds, outdir / "critical_screening_lengths.csv", preset)
+    tables = [outdir / "critical_screening_lengths.csv"]
+    if "critical_coupling" in ds:
+        tables.append(outdir / "critical_couplings.csv")
     # The configuration the cube was computed from, as stored in it, for the report.
     config = outdir / "sweep_config.yaml"
     config.write_text(f"# config_sha256: {ds.attrs.get('config_sha256', 'unknown')}\n{ds.attrs.get('config_yaml', '')}")
-    return written + [outdir / "critical_screening_lengths.csv", config]
+    return written + tables + [config]

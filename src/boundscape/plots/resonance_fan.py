@@ -1,6 +1,7 @@
-"""Resonance fans: each l ≥ 1 state's energy against λ on both sides of its threshold — the bound
-branch E < 0 (as in the level fan) and, past λ_c, the resonance E_r > 0 with a band of ±Γ/2.
-Drawn from a cube alone (``resonances: true``)."""
+"""Resonance fans: each l ≥ 1 state's energy against λ (or, in a sweep over conditions, against
+the density) on both sides of its threshold — the bound branch E < 0 (as in the level fan) and,
+past the threshold, the resonance E_r > 0 with a band of ±Γ/2.  Drawn from a cube alone
+(``resonances: true``)."""
 
 from __future__ import annotations
 
@@ -14,17 +15,13 @@ from matplotlib.figure import Figure
 
 from ..labels import state_label
 from ..physics.presets import NO_PRESET
-from .level_fan import LABEL_WIDTH, ROW_POINTS, fan_strengths, place_in_rows
-from .style import family_title, length_label, strength_label, strength_values, tidy_log_axis, unit_names
+from .level_fan import LABEL_WIDTH, ROW_POINTS, place_in_rows
+from .style import family_title, shade_invalid_x, tidy_log_axis, unit_names
+from .views import fan_view
 
 __all__ = ["resonance_fan"]
 
 OK, DISSOLVED = 0, 2  # resonance_status codes (the cube's flag_values)
-
-
-def _z_text(ds, z, preset):
-    shown = float(strength_values(ds.sel(strength=[z]), preset)[0])
-    return f"{strength_label(ds, preset).split(' of ')[0]} = {shown:.4g}"
 
 
 def resonance_fan(ds, strengths=None, preset=NO_PRESET):
@@ -37,10 +34,8 @@ def resonance_fan(ds, strengths=None, preset=NO_PRESET):
         ``resonances`` maps (strength, state name) to the (λ, E_r, Γ) arrays drawn;
         ``bound`` maps them to the (λ, E) arrays of the bound branch.
     """
-    strengths = fan_strengths(ds["strength"].values) if strengths is None else np.atleast_1d(strengths)
     ls = [int(l) for l in ds["l"].values if l >= 1]
-    lam = ds["screening_length"].values
-    if not ls or not np.isfinite(lam).all():
+    if not ls or not np.isfinite(ds["screening_length"].values).all():
         fig = Figure(figsize=(6.4, 2.4), layout="constrained")
         ax = fig.add_subplot()
         ax.set_axis_off()
@@ -49,12 +44,17 @@ def resonance_fan(ds, strengths=None, preset=NO_PRESET):
         ax.text(0.5, 0.5, why, ha="center", va="center", transform=ax.transAxes)
         fig.suptitle(f"Resonance fan of the {family_title(ds)}")
         return fig, {"resonances": {}, "bound": {}}
-    fig = Figure(figsize=(max(3.0 * len(ls) + 2.0, 5.6), 2.9 * len(strengths) + 0.8), layout="constrained")
-    axes = fig.subplots(len(strengths), len(ls), sharex=True, sharey="row", squeeze=False)
+    view = fan_view(ds, preset, strengths)
+    lam = view.x
+    near_end = -1 if view.lost_towards_small else 0  # the resonance next to the threshold
+    fig = Figure(figsize=(max(3.3 * len(ls) + 3.6, 8.0), 2.9 * len(view.rows) + 0.8), layout="constrained")
+    axes = fig.subplots(len(view.rows), len(ls), sharex=True, sharey="row", squeeze=False)
     colors = matplotlib.colormaps["viridis"](np.linspace(0, 0.85, ds.sizes["n_r"]))
     drawn_res, drawn_bound = {}, {}
-    for row, z in enumerate(strengths):
-        cell = ds.sel(strength=z)
+    invalid = None
+    for row, fan in enumerate(view.rows):
+        cell = fan.cube
+        z = fan.key
         e_r = cell["resonance_energy"].values
         finite = e_r[np.isfinite(e_r) & (e_r > 0)]
         # The symlog axis is linear within ±linthresh: about the smallest resonance energy shown.
@@ -65,6 +65,7 @@ def resonance_fan(ds, strengths=None, preset=NO_PRESET):
             if finite.size else linthresh
         for col, l in enumerate(ls):
             ax = axes[row, col]
+            invalid = shade_invalid_x(ax, lam, fan.invalid) or invalid
             k_l = int(np.flatnonzero(ds["l"].values == l)[0])
             ax.axhline(0.0, color="0.5", lw=0.6, zorder=1)
             marks = []
@@ -73,7 +74,7 @@ def resonance_fan(ds, strengths=None, preset=NO_PRESET):
                 e = bound[:, k_l, k]
                 keep = np.isfinite(e)
                 if keep.any():
-                    drawn_bound[(float(z), name)] = (lam[keep], e[keep])
+                    drawn_bound[(z, name)] = (lam[keep], e[keep])
                     ax.plot(lam[keep], e[keep], "-", color=colors[k], lw=1.2, zorder=2, gid=f"bound:{name}")
                 er = e_r[:, k_l, k]
                 width = cell["resonance_width"].values[:, k_l, k]
@@ -81,7 +82,7 @@ def resonance_fan(ds, strengths=None, preset=NO_PRESET):
                 has = np.isfinite(er) & np.isfinite(width)
                 if not has.any():
                     continue
-                drawn_res[(float(z), name)] = (lam[has], er[has], width[has])
+                drawn_res[(z, name)] = (lam[has], er[has], width[has])
                 # E_r ± Γ/2, cut at E = 0 (below it the band would only overlap the bound side)
                 low = np.maximum(er[has] - width[has] / 2, 0.0)
                 ax.fill_between(lam[has], low, er[has] + width[has] / 2, color=colors[k],
@@ -93,15 +94,16 @@ def resonance_fan(ds, strengths=None, preset=NO_PRESET):
                 gone = has & (status == DISSOLVED)
                 ax.plot(lam[gone], er[gone], "o", mfc="white", mec=colors[k], ms=4, zorder=4,
                         gid=f"dissolved:{name}")
-                lc = float(ds["critical_screening_length"].sel(strength=z, l=l, n_r=n_r))
+                lc = math.nan if fan.critical is None else float(fan.critical.sel(l=l, n_r=n_r))
                 if math.isfinite(lc) and lam.min() <= lc <= lam.max():
                     ax.plot([lc], [0.0], "|", color=colors[k], ms=9, mew=1.5, zorder=4)
-                    # Dotted guides (not computed values): the bound branch's last grid point to λ_c, and
-                    # λ_c to the resonance nearest it, so each state reads as one line through E = 0.
-                    near = np.flatnonzero(has)[-1]
+                    # Dotted guides (not computed values): the bound branch's last grid point to the
+                    # threshold, and the threshold to the resonance nearest it, so each state reads
+                    # as one line through E = 0.
+                    near = np.flatnonzero(has)[near_end]
                     ax.plot([lc, lam[near]], [0.0, er[near]], ":", color=colors[k], lw=1.0, zorder=2)
                     if keep.any():
-                        last = np.flatnonzero(keep)[0]
+                        last = np.flatnonzero(keep)[-1 - near_end]
                         ax.plot([lam[last], lc], [e[last], 0.0], ":", color=colors[k], lw=1.0, zorder=2)
                     marks.append((math.log10(lam[near]), er[near] + width[near] / 2, name, colors[k]))
             top = 4 * max(highest, linthresh)
@@ -114,21 +116,24 @@ def resonance_fan(ds, strengths=None, preset=NO_PRESET):
             ax.set(xscale="log", yscale="symlog", xlim=(lam.min(), lam.max()),
                    ylim=(-2 * deepest, top * 30))
             ax.set_yscale("symlog", linthresh=linthresh, linscale=0.6)
-            ax.set_title(f"{_z_text(ds, z, preset)}, l = {l}", fontsize=9)
-            ax.text(0.02, 0.97, "resonances: E_r ± Γ/2", transform=ax.transAxes, ha="left", va="top",
+            ax.set_title(f"{fan.title}, $l$ = {l}", fontsize=9)
+            ax.text(0.02, 0.97, "resonances: $E_r \\pm \\Gamma/2$", transform=ax.transAxes, ha="left", va="top",
                     fontsize=7, color="0.3")
             ax.text(0.98, 0.03, "bound: E < 0", transform=ax.transAxes, ha="right", va="bottom", fontsize=7,
                     color="0.3")
     tidy_log_axis(axes[-1, 0].xaxis, lam.min(), lam.max())
-    handles = [matplotlib.lines.Line2D([], [], color=c, lw=1.2, label=f"n_r = {k}") for k, c in enumerate(colors)]
-    handles += [matplotlib.lines.Line2D([], [], color="0.3", marker="o", ls="none", label="resonance, Γ < E_r"),
+    handles = [matplotlib.lines.Line2D([], [], color=c, lw=1.2, label=f"$n_r$ = {k}") for k, c in enumerate(colors)]
+    threshold = "$\\lambda_c$ (E = 0)" if view.lost_towards_small else "loss density (E = 0)"
+    handles += [matplotlib.lines.Line2D([], [], color="0.3", marker="o", ls="none", label="resonance, $\\Gamma < E_r$"),
                 matplotlib.lines.Line2D([], [], color="0.3", marker="o", mfc="white", ls="none",
-                                        label="dissolved, Γ > E_r"),
-                matplotlib.patches.Patch(color="0.3", alpha=0.3, label="E_r ± Γ/2"),
-                matplotlib.lines.Line2D([], [], color="0.3", marker="|", ms=9, ls="none", label="λ_c (E = 0)")]
-    fig.legend(handles=handles, loc="outside right center", fontsize=7, title="n = n_r + l + 1", title_fontsize=7)
-    fig.supxlabel(length_label(ds, preset), fontsize="medium")
+                                        label="dissolved, $\\Gamma > E_r$"),
+                matplotlib.patches.Patch(color="0.3", alpha=0.3, label="$E_r \\pm \\Gamma/2$"),
+                matplotlib.lines.Line2D([], [], color="0.3", marker="|", ms=9, ls="none", label=threshold)]
+    if invalid is not None:
+        handles.append(invalid)
+    fig.legend(handles=handles, loc="outside right center", fontsize=7, title="$n = n_r + l + 1$", title_fontsize=7)
+    fig.supxlabel(view.x_label, fontsize="medium")
     fig.supylabel(f"energy E ({unit_names(preset)[1]}; symmetric log scale)", fontsize="medium")
-    fig.suptitle(f"Resonance fan of the {family_title(ds)}: each state bound (E < 0), then past λ_c a "
-                 "resonance E_r − iΓ/2")
+    fig.suptitle(f"Resonance fan of the {family_title(ds)}: each state bound (E < 0), then past its threshold a "
+                 "resonance $E_r - i\\Gamma/2$", fontsize=9)
     return fig, {"resonances": drawn_res, "bound": drawn_bound}

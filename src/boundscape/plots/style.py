@@ -17,7 +17,8 @@ from ..physics.presets import NO_PRESET
 
 __all__ = ["HALO", "RC", "cell_edges", "count_norm", "count_colorbar", "value_ticks", "tidy_log_axis",
            "strength_label", "strength_values", "family_title", "length_label", "cube_unit_system", "unit_names",
-           "length_unit", "energy_unit", "save"]
+           "length_unit", "energy_unit", "save", "cube_dims", "is_condition_cube", "axis_label", "invalid_mask",
+           "invalid_handle", "shade_invalid", "shade_invalid_x", "INVALID_LABEL"]
 
 HALO = [patheffects.withStroke(linewidth=2.6, foreground="black")]
 PNG_METADATA = {"Software": None}
@@ -148,3 +149,80 @@ def save(fig, stem):
         fig.savefig(stem.with_suffix(".png"), dpi=150, metadata=PNG_METADATA)
         fig.savefig(stem.with_suffix(".pdf"), metadata=PDF_METADATA)
     return [stem.with_suffix(".png"), stem.with_suffix(".pdf")]
+
+
+# -- the cube's dimensions, and where the screening model fails --------------------------------
+INVALID_FACE = (0.55, 0.55, 0.55, 0.55)
+INVALID_EDGE = (0.15, 0.15, 0.15, 0.7)
+INVALID_HATCH = "////"
+INVALID_LABEL = "screening model fails (hatched; see screening_validity)"
+
+
+def cube_dims(ds):
+    """(strength dimension, condition dimensions) of a cube: ``("strength", ("screening_length",))``,
+    ``("strength", ("electron_density", "electron_temperature"))``, ``("coupling", ("range",))``."""
+    dims = ds["energy"].dims
+    return dims[0], tuple(dims[1:-2])
+
+
+def is_condition_cube(ds) -> bool:
+    return cube_dims(ds)[1] != ("screening_length",)
+
+
+def axis_label(ds, name, preset=NO_PRESET):
+    """A condition dimension's label: the preset's (mathtext), else the cube's long name and units."""
+    if name in preset.condition_labels:
+        return preset.condition_labels[name]
+    attrs = ds[name].attrs
+    return f"{attrs.get('long_name', name)} ({attrs.get('units', '1')})"
+
+
+def invalid_mask(ds):
+    """Where the screening model fails, over the cube's condition dimensions (None if the cube
+    does not say)."""
+    if "screening_validity" not in ds:
+        return None
+    return ds["screening_validity"].values != 0
+
+
+def _runs(mask):
+    """(start, stop) index pairs of the runs of True in a 1-D mask."""
+    padded = np.concatenate([[False], np.asarray(mask, bool), [False]])
+    edges = np.flatnonzero(np.diff(padded.astype(np.int8)))
+    return list(zip(edges[::2], edges[1::2]))
+
+
+def invalid_handle():
+    from matplotlib.patches import Patch
+
+    return Patch(facecolor=INVALID_FACE, edgecolor=INVALID_EDGE, hatch=INVALID_HATCH, lw=0, label=INVALID_LABEL)
+
+
+def shade_invalid(ax, x_edges, y_edges, mask):
+    """Grey and hatch the cells (x index, y index) of ``mask`` on a map with those cell edges;
+    returns the legend handle, or None if no cell fails."""
+    from matplotlib.collections import PatchCollection
+    from matplotlib.patches import Rectangle
+
+    mask = np.asarray(mask, bool)
+    if not mask.any():
+        return None
+    boxes = [Rectangle((x_edges[a], y_edges[j]), x_edges[b] - x_edges[a], y_edges[j + 1] - y_edges[j])
+             for j in range(mask.shape[1]) for a, b in _runs(mask[:, j])]
+    ax.add_collection(PatchCollection(boxes, facecolor=INVALID_FACE, edgecolor=INVALID_EDGE, hatch=INVALID_HATCH,
+                                      lw=0, zorder=1.8, gid="invalid"))
+    return invalid_handle()
+
+
+def shade_invalid_x(ax, x, mask):
+    """Grey and hatch the stretches of a curve plot's x axis (values ``x``) where ``mask`` holds;
+    returns the legend handle, or None."""
+    if mask is None or not np.asarray(mask).any():
+        return None
+    order = np.argsort(x)
+    x, mask = np.asarray(x)[order], np.asarray(mask, bool)[order]
+    edges = cell_edges(x)
+    for a, b in _runs(mask):
+        ax.axvspan(edges[a], edges[b], facecolor=INVALID_FACE, edgecolor=INVALID_EDGE, hatch=INVALID_HATCH, lw=0,
+                   zorder=0.5, gid="invalid")
+    return invalid_handle()

@@ -1,5 +1,8 @@
 """Threshold maps: the (strength, λ) plane at one l, shaded by the exact bound-state count, with
-every state's loss curve λ_c(Z).  Drawn from a cube alone: every curve is a stored critical length."""
+every state's loss curve λ_c(Z) and the screening lengths where the screening model fails hatched;
+a sweep over density × temperature gets a map per strength (:mod:`.condition_maps`), a sweep of
+one strength the binding energies as curves.  Drawn from a cube alone: every curve is a stored
+critical length."""
 
 from __future__ import annotations
 
@@ -10,8 +13,10 @@ from ..engine import INPUT_REJECTED
 from ..labels import state_label
 from ..physics.presets import NO_PRESET
 from .resonance_overlay import draw_resonance_bands, has_resonances
-from .style import (HALO, cell_edges, count_colorbar, count_norm, family_title, length_label, length_unit,
-                    strength_label, strength_values, tidy_log_axis, unit_names, value_ticks)
+from .condition_maps import binding_curves, condition_threshold_map
+from .style import (HALO, cell_edges, count_colorbar, count_norm, cube_dims, family_title, invalid_mask, length_label,
+                    length_unit, shade_invalid, strength_label, strength_values, tidy_log_axis, unit_names,
+                    value_ticks)
 
 __all__ = ["threshold_map"]
 
@@ -26,10 +31,14 @@ def threshold_map(ds, l, preset=NO_PRESET):
         ``count`` (strength × screening length, from ``num_bound``) and ``curves``, mapping a
         state name to the (strength, λ_c) arrays drawn (the finite stored critical lengths).
     """
+    if len(cube_dims(ds)[1]) == 2:  # density × temperature: a map per strength
+        return condition_threshold_map(ds, l, preset)
     z = strength_values(ds, preset)
     lam = ds["screening_length"].values
     if not np.isfinite(lam).all():
         return _count_against_strength(ds, l, preset)
+    if z.size == 1:  # one coloured column: curves say more
+        return binding_curves(ds, l, preset)
     count = ds["num_bound"].sel(l=l).values.astype(float)
     status = ds["status"].sel(l=l).values
     # A cell whose input the engine rejected has no count at all: left blank, not "0 states".
@@ -48,14 +57,19 @@ def threshold_map(ds, l, preset=NO_PRESET):
                          cmap=cmap, norm=norm, rasterized=True)
     ax.set(xscale="log", yscale="log", xlim=cell_edges(z)[[0, -1]], ylim=cell_edges(lam)[[0, -1]],
            xlabel=strength_label(ds, preset), ylabel=length_label(ds, preset),
-           title=f"{family_title(ds)}, l = {l}: bound states and where each is lost")
+           title=f"{family_title(ds)}, $l$ = {l}: bound states and where each is lost")
     value_ticks(ax.xaxis, z)
     tidy_log_axis(ax.yaxis, lam.min(), lam.max())
-    count_colorbar(fig, mesh, ax, top, f"number of bound states with l = {l}", capped=True)
+    count_colorbar(fig, mesh, ax, top, f"number of bound states with $l$ = {l}", capped=True)
+    invalid = invalid_mask(ds)
+    shaded = None if invalid is None else shade_invalid(
+        ax, cell_edges(z), cell_edges(lam), np.broadcast_to(invalid[None, :], (z.size, lam.size)))
     if (status != 0).any():
         bad = np.argwhere(status != 0)
         ax.plot(z[bad[:, 0]], lam[bad[:, 1]], "x", color="red", ms=5, label="solver flagged (see status)")
-        ax.legend(loc="lower left", fontsize=7)
+    if (status != 0).any() or shaded is not None:
+        ax.legend(handles=ax.get_legend_handles_labels()[0] + ([shaded] if shaded else []), loc="lower left",
+                  fontsize=7)
     curves = {}
     if "critical_screening_length" in ds:
         critical = ds["critical_screening_length"].sel(l=l)
@@ -75,7 +89,8 @@ def threshold_map(ds, l, preset=NO_PRESET):
     if past:  # past each loss curve: where the state lives on as a resonance
         extra = draw_resonance_bands(ax, window_ax, ds, l, z, lambda v: f"{strength_label(ds, preset).split(' of ')[0]} = {v:.3g}")[1]
         if extra:
-            ax.legend(handles=ax.get_legend_handles_labels()[0] + extra, loc="lower left", fontsize=7)
+            ax.legend(handles=ax.get_legend_handles_labels()[0] + ([shaded] if shaded else []) + extra,
+                      loc="lower left", fontsize=7)
     if infinite.all():
         ax.text(0.5, 0.5, "infinitely many bound states in every cell\n(Coulomb tail or confining potential)",
                 transform=ax.transAxes, ha="center", va="center", color="black")
