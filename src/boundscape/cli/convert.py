@@ -12,6 +12,7 @@ import sys
 
 from ..checks import positive
 from ..physics.presets import Nuclear, Plasma, Semiconductor
+from ..physics.screening import MODELS, VALIDITY_FLAGS, VALIDITY_REASONS
 from ..physics.units import UNITS, convert
 from .readings import significant
 
@@ -65,6 +66,9 @@ def register(subparsers) -> argparse.ArgumentParser:
     p.add_argument("--screening-ion-charge", type=float, default=1.0,
                    help="with --species electrons_and_ions: charge Z_i of the plasma's screening ions (default 1)")
     p.add_argument("--ion-temperature-ratio", type=float, default=1.0, help="T_i/T_e when ions screen (default 1)")
+    p.add_argument("--screening", default="finite_temperature", choices=MODELS,
+                   help="the electrons' screening: finite_temperature (ideal Fermi gas at T_e, default), debye "
+                        "(classical) or thomas_fermi (degenerate); the engine's screening length is the model's")
 
     p = add("semiconductor", "effective Bohr radius and Rydberg, and the screening length of a carrier density")
     p.add_argument("--effective-mass", type=float, required=True,
@@ -77,11 +81,14 @@ def register(subparsers) -> argparse.ArgumentParser:
     which.add_argument("--screening-length", type=float, help="screening length, in --length-unit (default bohr)")
     p.add_argument("--length-unit", default="bohr", choices=("bohr", "nm", "a*"),
                    help="unit of --screening-length (default bohr; a* = ε_r/μ* bohr)")
-    p.add_argument("--screening", default="thomas_fermi", choices=("thomas_fermi", "debye"),
-                   help="thomas_fermi: degenerate carriers (default); debye: non-degenerate carriers at --temperature")
+    p.add_argument("--screening", default="finite_temperature", choices=MODELS,
+                   help="finite_temperature: the ideal Fermi gas at --temperature (default); debye: its classical "
+                        "limit; thomas_fermi: its degenerate limit")
     p.add_argument("--temperature", type=float, default=300.0,
-                   help="carrier temperature, K (default 300): Debye screening's, and where Thomas–Fermi's "
-                        "degenerate gas starts")
+                   help="carrier temperature, K (default 300)")
+    p.add_argument("--species", default=None, choices=("electrons", "electrons_and_holes"),
+                   help="who screens: electrons (default for a donor) or electrons_and_holes (default with "
+                        "--hole-mass: an exciton in an electron-hole plasma)")
     p.add_argument("--donor-charge", type=float, default=1.0,
                    help="charge number of the donor (1 for a hydrogenic donor or an exciton); the engine strength "
                         "in effective units")
@@ -100,22 +107,26 @@ def _rows(args) -> list[tuple[str, float, str]]:
         temperature_eV = args.temperature if args.temperature_unit == "eV" else convert(
             args.temperature, "K", "eV_temperature")
         plasma = Plasma(species=args.species, screening_ion_charge=args.screening_ion_charge,
-                        ion_temperature_ratio=args.ion_temperature_ratio)
+                        ion_temperature_ratio=args.ion_temperature_ratio, screening=args.screening)
         if args.density is not None:
             density = convert(args.density, args.density_unit, "m-3")
-            lam_m = float(plasma.debye_length(density, temperature_eV))
         else:
-            lam_m = float(convert(args.screening_length, args.length_unit, "m"))
-            density = float(plasma.density_for(lam_m, temperature_eV))
+            density = float(plasma.density_for(float(convert(args.screening_length, args.length_unit, "m")),
+                                               temperature_eV))
+        lam_m = float(plasma.screening_length_at(density, temperature_eV))
+        debye = float(plasma.debye_length(density, temperature_eV))
         engine = plasma.to_engine(args.nuclear_charge, density, temperature_eV)
         return [("electron density", convert(density, "m-3", "cm-3"), "cm-3"),
                 ("electron temperature", temperature_eV, "eV"),
-                ("Debye length", lam_m, "m"), ("Debye length", lam_m / 1e-9, "nm"),
+                ("Debye length", debye, "m"), ("Debye length", debye / 1e-9, "nm"),
+                (f"screening length ({args.screening})", lam_m / 1e-9, "nm"),
+                *_validity_rows(plasma.validity(density, temperature_eV)),
                 ("engine strength Z (nuclear charge)", engine.strength, "1"), ("engine screening_length", engine.screening_length, "bohr"),
                 ("engine mass", engine.mass, "electron masses")]
     if args.convert_kind == "semiconductor":
         semi = Semiconductor(effective_mass=args.effective_mass, permittivity=args.permittivity,
-                             screening=args.screening, temperature_K=args.temperature, hole_mass=args.hole_mass)
+                             screening=args.screening, temperature_K=args.temperature, hole_mass=args.hole_mass,
+                             species=args.species)
         eff = semi.effective
         rows = [("reduced mass μ*", semi.reduced_mass, "electron masses"),
                 ("effective Bohr radius a*", eff.length_m / 1e-9, "nm"),
@@ -132,14 +143,13 @@ def _rows(args) -> list[tuple[str, float, str]]:
             density = float(semi.density_for(lam_m))
         as_effective = semi.to_engine(density, args.donor_charge, units="effective")
         as_atomic = semi.to_engine(density, args.donor_charge, units="atomic")
-        degenerate = []
-        if args.screening == "thomas_fermi":
-            # Thomas–Fermi screening assumes a degenerate gas: n well above where E_F = k_B T.
-            degenerate = [(f"E_F = k_B T at {args.temperature:g} K (Thomas–Fermi needs n well above)",
-                           convert(semi.degenerate_density(), "m-3", "cm-3"), "cm-3")]
+        # Below this density the electrons are classical (k_B T > E_F), above it degenerate.
+        degenerate = [(f"E_F = k_B T at {args.temperature:g} K (degenerate above)",
+                       convert(semi.degenerate_density(), "m-3", "cm-3"), "cm-3")]
         return rows + [
             ("carrier density", convert(density, "m-3", "cm-3"), "cm-3"), *degenerate,
             (f"screening length ({args.screening})", lam_m / 1e-9, "nm"),
+            *_validity_rows(semi.validity(density, args.temperature)),
             ("effective units: strength", as_effective.strength, "1"),
             ("effective units: screening_length", as_effective.screening_length, "a*"),
             ("effective units: mass", as_effective.mass, "μ*"),
@@ -153,6 +163,15 @@ def _rows(args) -> list[tuple[str, float, str]]:
             ("engine strength", engine.strength, "1"), ("engine screening_length", engine.screening_length, "fm"),
             ("engine mass", engine.mass, "μ"),
             ("energy unit (ħc)²/(μc² fm²)", engine.units.energy_J / convert(1.0, "MeV", "J"), "MeV")]
+
+
+def _validity_rows(validity) -> list:
+    """Γ, N_D, k_B T/E_F and the screening model's validity flag (as a row with its reason)."""
+    flag = VALIDITY_FLAGS[int(validity.flag)]
+    return [("coupling parameter Γ", float(validity.coupling_parameter), "1"),
+            ("Debye number N_D", float(validity.debye_number), "1"),
+            ("degeneracy k_B T/E_F", float(validity.degeneracy), "1"),
+            (f"screening model validity: {flag}", int(validity.flag), "flag")]
 
 
 def run(args) -> int:
@@ -171,4 +190,8 @@ def run(args) -> int:
         width = max(len(q) for q, _, _ in rows)
         for q, v, u in rows:
             print(f"{q:<{width}}  {v:<.10g}  {u}")
+        for q, _, u in rows:
+            if u == "flag":  # why the screening model does (not) hold here
+                flag = q.rsplit(": ", 1)[-1]
+                print(f"# {flag}: {VALIDITY_REASONS[flag]}")
     return 0

@@ -18,8 +18,9 @@ import os
 import sys
 
 from . import convert, lines, resonances
-from .options import describe, make_potential, parse_l_values, potential_args, title
-from .readings import engine_strength, reading_of, significant
+from .options import make_potential, parse_l_values, potential_args
+from .readings import describe, engine_length, engine_strength, reading_of, significant, title
+from .trade import critical_strengths, print_table, trade_columns, trade_notes
 from ..engine import bound_levels, critical_screening_length, family_info
 from ..errors import ConvergenceError, InputError
 from ..labels import orbital_letter, state_label
@@ -74,7 +75,7 @@ def run_levels(args) -> int:
     ls = parse_l_values(args.l)
     reading = reading_of(args)
     strength, strength_text = engine_strength(args, reading)
-    lam = None if args.screening_length is None else reading.engine_length(args.screening_length, args.length_unit)
+    lam, conditions = engine_length(args, reading)
     pot = make_potential(args, strength, lam)
     e_unit, r_unit = reading.energy_unit, reading.length_unit
     rows, counts = [], {}
@@ -95,13 +96,13 @@ def run_levels(args) -> int:
             rows.append(row)
     note = _note(pot, args.n_r_max)
     if args.format == "json":
-        out = {"potential": describe(pot, reading, strength_text), "num_bound": {str(k): v for k, v in counts.items()},
-               "levels": rows}
+        out = {"potential": describe(pot, reading, strength_text, conditions),
+               "num_bound": {str(k): v for k, v in counts.items()}, "levels": rows}
         if note:
             out["note"] = note
         print(json.dumps(out, indent=2, allow_nan=True))
         return 0
-    print(f"# {title(pot, reading, strength_text)}")
+    print(f"# {title(pot, reading, strength_text, conditions)}")
     if note:
         print(f"# {note}")
     if reading.preset is None and e_unit == "hartree":
@@ -126,11 +127,13 @@ def run_critical(args) -> int:
     if args.n_max < 1:
         raise InputError(f"--n-max must be at least 1, got {args.n_max}")
     reading = reading_of(args)
-    strength, strength_text = engine_strength(args, reading)
     info = family_info(args.family)
     if not info.uses_screening_length(info.screened_parameters({})):
         raise InputError(f"family {args.family!r} has no screening length, so no state is ever lost; "
                          "critical lengths need a screened family")
+    if engine_length(args, reading)[0] is not None:  # a range (or density) given: the critical strength there
+        return critical_strengths(args, reading, ls)
+    strength, strength_text = engine_strength(args, reading)
     pot = make_potential(args, strength, 1.0)  # validates family and parameters
     unit, factor = reading.length_unit, reading.length_factor
     rows = []
@@ -145,18 +148,19 @@ def run_critical(args) -> int:
                 shown = significant(lam * factor, 13)
                 row.update({f"critical_screening_length_{unit}": shown,
                             f"critical_inverse_length_per_{unit}": 0.0 if math.isinf(lam) else significant(1.0 / shown, 13)})
+            row.update(trade_columns(args, reading, lam))  # where the state is lost, in the trade's terms
             rows.append(row)
+    notes = trade_notes(args, reading, rows)
     if args.format == "json":
-        print(json.dumps({"potential": describe(pot, reading, strength_text, with_length=False), "states": rows},
-                         indent=2))
+        print(json.dumps({"potential": describe(pot, reading, strength_text, with_length=False), "states": rows,
+                          **notes}, indent=2))
         return 0
     print(f"# critical screening lengths, {title(pot, reading, strength_text, with_length=False)}")
-    print(f"{'n':>3} {'l':>2} {'state':>6} {f'lambda_c ({unit})':>22} {f'1/lambda_c (1/{unit})':>22}")
-    for row in rows:
-        print(f"{row['n']:>3} {row['l']:>2} {row['state']:>6} {row[f'critical_screening_length_{unit}']:>22.13g} "
-              f"{row[f'critical_inverse_length_per_{unit}']:>22.13g}")
+    print_table(rows, ("n", "l", "state"))
     if not rows:
         print("# no states with n ≤ --n-max for these l")
+    for key, text in notes.items():
+        print(f"# {key}: {text}")
     return 0
 
 

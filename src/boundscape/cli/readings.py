@@ -1,10 +1,14 @@
-"""How ``levels`` and ``critical`` read their inputs and show their numbers: atomic units, or a
-preset's (plasma: eV and nm; semiconductor: meV and nm, effective atomic units inside; nuclear:
-MeV and fm).
+"""How ``levels``, ``critical``, ``resonances`` and ``lines`` read their inputs and show their
+numbers: atomic units, or a preset's (plasma: eV and nm; semiconductor: meV and nm, effective
+atomic units inside; nuclear: MeV and fm), with the trade's conditions as inputs.
 
 Each flag keeps one meaning and one unit whatever the preset: ``--strength`` is the engine's
-strength (Z, a depth, ω), ``--coupling`` a nuclear g² in MeV fm, ``--screening-length`` a length
-in ``--length-unit`` (bohr unless given), ``--mass`` the reduced mass in electron masses.
+strength (Z, a depth, ω), ``--nuclear-charge`` a plasma ion's Z, ``--coupling`` a nuclear g² in
+MeV fm, ``--screening-length`` a length in ``--length-unit`` (bohr unless given), ``--density`` a
+plasma's electron density and ``--carrier-density`` a semiconductor's (cm⁻³), ``--temperature``
+a plasma's T_e (eV) and ``--temperature-K`` a semiconductor's T (K), ``--range`` a nuclear range
+(fm), ``--mass`` the reduced mass in electron masses.  The preset classes declare which flags
+they take (``command_line``, ``strength_flag``, ``length_flag``, ``temperature_flag``).
 """
 
 from __future__ import annotations
@@ -15,10 +19,14 @@ from dataclasses import dataclass
 
 from ..engine import family_info
 from ..errors import InputError
-from ..physics.presets import NO_PRESET, PRESETS, NoPreset, Preset
-from ..physics.units import ATOMIC, UnitSystem, convert
+from ..checks import positive
+from ..physics.presets import NO_PRESET, PRESETS, NoPreset, Nuclear, Plasma, Preset, Semiconductor
+from ..physics.screening import MODELS
+from ..physics.units import ATOMIC, BOHR_M, UnitSystem, convert
 
-__all__ = ["add_preset_arguments", "Reading", "reading_of", "significant"]
+__all__ = ["add_preset_arguments", "Reading", "reading_of", "engine_strength", "engine_length", "describe", "title",
+           "flag_value",
+           "significant"]
 
 LENGTH_UNITS = ("bohr", "nm", "fm", "a*")
 
@@ -31,21 +39,48 @@ def significant(value, digits: int = 13):
 
 
 def add_preset_arguments(p: argparse.ArgumentParser):
-    group = p.add_argument_group("physical units (a preset)")
+    group = p.add_argument_group("physical units and conditions (a preset)")
     group.add_argument("--preset", choices=tuple(PRESETS), default=None,
-                       help="show energies and lengths in a trade's units: plasma eV and nm; semiconductor meV "
-                            "and nm (needs --effective-mass, --permittivity); nuclear MeV and fm (needs "
-                            "--reduced-mass, takes --coupling instead of --strength). Default: atomic units")
+                       help="show energies and lengths in a trade's units and take its conditions: plasma eV and nm "
+                            "(--nuclear-charge, --density, --temperature); semiconductor meV and nm (needs "
+                            "--effective-mass, --permittivity; --carrier-density, --temperature-K); nuclear MeV and fm "
+                            "(needs --reduced-mass; --coupling instead of --strength, --range). Default: atomic units")
     group.add_argument("--length-unit", choices=LENGTH_UNITS, default="bohr",
                        help="unit of --screening-length (default bohr; a* needs --preset semiconductor)")
-    group.add_argument("--effective-mass", type=float, default=None,
-                       help="semiconductor: the electrons' effective mass m_e* (a donor's μ*), electron masses")
-    group.add_argument("--hole-mass", type=float, default=None,
-                       help="semiconductor, exciton: hole mass m_h*, electron masses; μ* = m_e* m_h*/(m_e* + m_h*)")
-    group.add_argument("--permittivity", type=float, default=None, help="semiconductor: relative permittivity ε_r")
-    group.add_argument("--reduced-mass", type=float, default=None, help="nuclear: reduced mass μ, MeV/c²")
-    group.add_argument("--coupling", type=float, default=None,
-                       help="nuclear: g² of V = -g² exp(-r/λ)/r, MeV fm (instead of --strength)")
+    group.add_argument("--screening", choices=MODELS, default=None,
+                       help="plasma and semiconductor: how the carriers screen at --density/--carrier-density: "
+                            "finite_temperature (the ideal Fermi gas at T, default), debye (classical limit) or "
+                            "thomas_fermi (degenerate limit)")
+    plasma = p.add_argument_group("--preset plasma")
+    plasma.add_argument("--nuclear-charge", type=float, default=None,
+                        help="plasma: nuclear charge Z of the hydrogen-like ion (its charge is Z - 1), instead of "
+                             "--strength")
+    plasma.add_argument("--density", type=float, default=None, help=Plasma.length_flag[1])
+    plasma.add_argument("--temperature", type=float, default=None,
+                        help="plasma: electron temperature T_e, eV (with --density; for critical, where the loss "
+                             "densities are read)")
+    plasma.add_argument("--species", choices=("electrons", "electrons_and_ions", "electrons_and_holes"), default=None,
+                        help="who screens: plasma electrons (default) or electrons_and_ions; semiconductor electrons "
+                             "(default for a donor) or electrons_and_holes (default for an exciton)")
+    plasma.add_argument("--screening-ion-charge", type=float, default=None,
+                        help="plasma with --species electrons_and_ions: charge Z_i of the screening ions (default 1)")
+    plasma.add_argument("--ion-temperature-ratio", type=float, default=None,
+                        help="plasma with --species electrons_and_ions: T_i/T_e (default 1)")
+    semi = p.add_argument_group("--preset semiconductor")
+    semi.add_argument("--effective-mass", type=float, default=None,
+                      help="semiconductor: the electrons' effective mass m_e* (a donor's μ*), electron masses")
+    semi.add_argument("--hole-mass", type=float, default=None,
+                      help="semiconductor, exciton: hole mass m_h*, electron masses; μ* = m_e* m_h*/(m_e* + m_h*)")
+    semi.add_argument("--permittivity", type=float, default=None, help="semiconductor: relative permittivity ε_r")
+    semi.add_argument("--carrier-density", type=float, default=None, help=Semiconductor.length_flag[1])
+    semi.add_argument("--temperature-K", type=float, default=None,
+                      help="semiconductor: carrier temperature, K (with --carrier-density; for critical, where the "
+                           "loss densities are read)")
+    nuclear = p.add_argument_group("--preset nuclear")
+    nuclear.add_argument("--reduced-mass", type=float, default=None, help="nuclear: reduced mass μ, MeV/c²")
+    nuclear.add_argument("--coupling", type=float, default=None,
+                         help="nuclear: g² of V = -g² exp(-r/λ)/r, MeV fm (instead of --strength)")
+    nuclear.add_argument("--range", type=float, default=None, help=Nuclear.length_flag[1])
 
 
 @dataclass(frozen=True)
@@ -81,42 +116,105 @@ def _naming(unit):
     return next((cls for cls in PRESETS.values() if unit in cls.named_length_units), None)
 
 
-def _flag_value(args, flag):
+def flag_value(args, flag):
+    """The value given with ``flag`` (``None`` if not given)."""
     return getattr(args, flag.lstrip("-").replace("-", "_"))
 
 
 def _needs(args, flag, why):
-    value = _flag_value(args, flag)
+    value = flag_value(args, flag)
     if value is None:
         raise InputError(f"{flag} is required with {why}")
     return value
 
 
-def _refuse(args, flags, why):
-    for flag in flags:
-        if _flag_value(args, flag) is not None:
-            raise InputError(f"{flag} does not apply {why}")
-
-
 def _own_flags(cls):
-    # The flags only this preset takes: those that build it, and its own strength flag.
-    strength = () if cls.strength_flag == "--strength" else (cls.strength_flag,)
-    return tuple(flag for flag, _, _ in cls.command_line) + strength
+    # The flags this preset takes: those that build it, its strength flag, its condition flags.
+    flags = [flag for flag, _, _ in cls.command_line]
+    flags += [flag for flag in (cls.strength_flag, cls.length_flag and cls.length_flag[0], cls.temperature_flag)
+              if flag and flag != "--strength"]
+    return tuple(flags)
 
 
 def reading_of(args) -> Reading:
     """The reading the command line asks for; checks that every preset flag fits the preset."""
-    for kind, cls in PRESETS.items():
-        if args.preset != kind:
-            _refuse(args, _own_flags(cls), f"without --preset {kind}")
     cls = PRESETS[args.preset] if args.preset else NoPreset
+    mine = set(_own_flags(cls))
+    for kind, other in PRESETS.items():
+        for flag in _own_flags(other):
+            if flag not in mine and flag_value(args, flag) is not None:
+                takers = " or ".join(k for k, c in PRESETS.items() if flag in _own_flags(c))
+                raise InputError(f"{flag} does not apply {'without' if args.preset is None else 'with'} --preset "
+                                 f"{args.preset or takers}" + (f" (it belongs to --preset {takers})" if args.preset else ""))
     if args.mass is not None and cls.mass_given_by:
         raise InputError(f"--mass does not apply with --preset {args.preset}: {cls.mass_given_by}")
     why = f"--preset {args.preset}"
-    preset = cls(**{field: _needs(args, flag, why) if required else _flag_value(args, flag)
-                    for flag, field, required in cls.command_line})
+    fields = {}
+    for flag, field, required in cls.command_line:
+        value = _needs(args, flag, why) if required else flag_value(args, flag)
+        if value is not None:
+            fields[field] = value
+    preset = cls(**fields)
     shown = preset.command_line_reading()
     return Reading(None if shown["units"] is ATOMIC else preset, trade=preset, **shown)
+
+
+def engine_length(args, reading: Reading) -> tuple[float | None, dict]:
+    """The engine's screening length the command line gives — ``--screening-length`` (in
+    ``--length-unit``) or the preset's condition (``--density`` with ``--temperature``, ...) —
+    and the conditions to print (``{}`` for a length given directly)."""
+    preset = reading.trade
+    length = getattr(args, "screening_length", None)
+    flag = preset.length_flag[0] if preset.length_flag else None
+    value = flag_value(args, flag) if flag else None
+    if value is None:
+        return (None if length is None else reading.engine_length(length, args.length_unit)), {}
+    if length is not None:
+        raise InputError(f"give {flag} or --screening-length, not both: each sets the screening length")
+    positive(flag, value)
+    if preset.temperature_flag and flag_value(args, preset.temperature_flag) is None:
+        raise InputError(f"{flag} needs {preset.temperature_flag} (the screening depends on the temperature)")
+    return preset.command_line_length(value, reading.units), preset.command_line_conditions(value)
+
+
+def describe(pot, reading: Reading, strength_text: str, conditions: dict | None = None, with_length: bool = True):
+    """The potential as the JSON output gives it: the engine's inputs (``strength``, ``mass`` and
+    ``screening_length_bohr``, whatever the units), the trade's reading, and the conditions."""
+    d = {"family": pot.family, "strength": pot.strength, "mass": pot.mass}
+    if reading.trade.kind is not None or reading.length_unit != "bohr":
+        d.update(units=reading.description, input=strength_text)
+    if with_length and math.isfinite(pot.screening_length):
+        d["screening_length_bohr"] = significant(pot.screening_length * reading.units.length_m / BOHR_M) \
+            if reading.units is not ATOMIC else pot.screening_length
+        if reading.units is not ATOMIC:
+            d[f"screening_length_{_unit_key(reading)}"] = pot.screening_length
+        if reading.length_unit != "bohr":
+            d[f"screening_length_{reading.length_unit}"] = significant(pot.screening_length * reading.length_factor)
+    if conditions:
+        d["conditions"] = {k: significant(v) if isinstance(v, float) else v for k, v in conditions.items()}
+    return d
+
+
+def _unit_key(reading):
+    # The engine's own length unit, as a JSON key says it.
+    return {"effective atomic": "effective_bohr_radii", "nuclear": "engine_length_unit"}.get(reading.units.name,
+                                                                                         reading.units.name)
+
+
+def title(pot, reading: Reading, strength_text: str, conditions: dict | None = None, with_length: bool = True):
+    """The table's header line."""
+    lam = ""
+    if with_length and math.isfinite(pot.screening_length):
+        lam = f", λ = {pot.screening_length * reading.length_factor:.10g} {reading.length_unit}"
+    mass = f", mass {pot.mass:g} m_e" if reading.trade.kind is None else ""
+    text = f"{pot.info.display_name}, {strength_text}{lam}{mass} ({reading.description})"
+    if conditions:
+        shown = ", ".join(f"{k} = {v:.6g}" if isinstance(v, float) else f"{k} = {v}" for k, v in conditions.items()
+                          if k not in ("screening_validity_reason", "screening_species"))
+        text += f"\n# conditions: {shown}"
+        if conditions.get("screening_validity") not in (None, "ok"):
+            text += f"\n# WARNING: {conditions['screening_validity_reason']}"
+    return text
 
 
 def engine_strength(args, reading: Reading) -> tuple[float, str]:

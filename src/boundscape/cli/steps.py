@@ -69,10 +69,14 @@ def write_criticals(spec: dict, output) -> None:
     names = ("critical_screening_length", "critical_flag")
     attrs = {"spec_json": json.dumps(spec), "engine_seconds": result["engine_seconds"],
              "reasons_json": json.dumps(result["reasons"])}
+    dims = dict.fromkeys(names, CRITICAL_DIMS)
     if "dissolution_flag" in result:
-        names += resonance_tiles.DISSOLUTION_VARS
+        dims.update(dict.fromkeys(resonance_tiles.DISSOLUTION_VARS, CRITICAL_DIMS))
         attrs["dissolution_reasons_json"] = json.dumps(result["dissolution_reasons"])
-    write_part(output, {name: result[name] for name in names}, dict.fromkeys(names, CRITICAL_DIMS), attrs)
+    if "critical_strength" in result:  # over (screening length, l, n_r)
+        dims.update(dict.fromkeys(("critical_strength", "critical_strength_flag"), ("screening_length", "l", "n_r")))
+        attrs["critical_strength_reasons_json"] = json.dumps(result["critical_strength_reasons"])
+    write_part(output, {name: result[name] for name in dims}, dims, attrs)
     print(f"criticals {output}: {result['critical_flag'].size} states, engine {result['engine_seconds']:.3f} s")
 
 
@@ -143,10 +147,7 @@ def _collect(args):
 
 
 def _plan(args):
-    p = plan(load_config(args.config))
-    print(f"sweep {p.sweep}: {p.num_cells} cells = {p.strength.size} strengths x "
-          f"{p.screening_length.size} screening lengths x {p.l.size} l; "
-          f"{len(p.tiles)} tiles, {len(p.critical_blocks)} critical blocks")
+    print(plan(load_config(args.config)).describe())
 
 
 def _figures(args):
