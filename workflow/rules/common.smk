@@ -52,7 +52,8 @@ TILES = {tile.name: tile for tile in PLAN.tiles}
 CRITICAL_BLOCKS = {block.name: block for block in PLAN.critical_blocks}
 TILE_PATHS = PLAN.tile_paths(RESULTS)  # as the rules' {TILE_FILE} names them; faster than expand()
 CRITICAL_PATHS = PLAN.critical_paths(RESULTS)
-HAS_CONDITION_MAP = PRESET.has_condition_map
+# A sweep over the trade's conditions has its threshold maps over them, and no separate condition map.
+HAS_CONDITION_MAP = PRESET.has_condition_map and PLAN.conditions is None
 # (stem, caption, report category, subcategory) of each figure: a PNG in the report, a PDF beside it.
 FIGURE_LIST = [(f"threshold_map_l{l}", "threshold_map.rst", "Threshold maps", f"l = {l}") for l in PLAN.l]
 FIGURE_LIST.append(("level_fan", "level_fan.rst", "Level fans", None))
@@ -64,12 +65,14 @@ FIGURE_LIST += [(f"line_shift_{line}", "line_shift.rst", "Spectral lines", line)
 if PLAN.lines:
     FIGURE_LIST.append(("line_survival", "line_survival.rst", "Spectral lines", "survival"))
 TABLES = ("critical_screening_lengths.csv", "sweep_config.yaml")
+CRITICAL_COUPLINGS = PLAN.critical_strengths  # the nuclear critical coupling at each range, a table of its own
 
 
 def all_targets():
     """The cube, every figure (PNG and PDF), the tables and the report's run summary."""
     figures = [f"{FIGURES}/{stem}.{ext}" for stem, *_ in FIGURE_LIST for ext in ("png", "pdf")]
-    return [f"{RESULTS}/levels.nc", *figures, *(f"{FIGURES}/{name}" for name in TABLES),
+    tables = TABLES + (("critical_couplings.csv",) if CRITICAL_COUPLINGS else ())
+    return [f"{RESULTS}/levels.nc", *figures, *(f"{FIGURES}/{name}" for name in tables),
             f"{RESULTS}/report/run_summary.txt"]
 
 

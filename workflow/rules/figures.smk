@@ -4,6 +4,9 @@ FIGURE_OUTPUTS = {"table": report(f"{FIGURES}/critical_screening_lengths.csv", c
                                   category="Tables", labels={"table": "critical screening lengths"}),
                   "config": report(f"{FIGURES}/sweep_config.yaml", caption="../report/sweep_config.rst",
                                    category="Run", labels={"file": "configuration"})}
+if CRITICAL_COUPLINGS:
+    FIGURE_OUTPUTS["couplings"] = report(f"{FIGURES}/critical_couplings.csv", caption="../report/critical_couplings.rst",
+                                         category="Tables", labels={"table": "critical couplings"})
 for _stem, _caption, _category, _subcategory in FIGURE_LIST:
     FIGURE_OUTPUTS[_stem] = [report(f"{FIGURES}/{_stem}.png", caption=f"../report/{_caption}", category=_category,
                                     subcategory=_subcategory, labels={"figure": _stem}),
