@@ -45,7 +45,7 @@ def test_ions_add_to_the_inverse_square_debye_length():
 
 @pytest.mark.parametrize("species", ["electrons", "electrons_and_ions"])
 def test_plasma_density_inverts_debye_length(species):
-    plasma = Plasma(species=species, screening_ion_charge=3.0)
+    plasma = Plasma(species=species, screening_ion_charge=3.0, screening="debye")
     n = np.logspace(18, 28, 7)
     lam = plasma.debye_length(n, 20.0)
     np.testing.assert_allclose(plasma.density_for(lam, 20.0), n, rtol=1e-12)
@@ -57,7 +57,7 @@ def test_plasma_density_inverts_debye_length(species):
 def test_thomas_fermi_wavenumber():
     # q_TF² = (4/π) k_F/a* with k_F = (3π² n)^{1/3} (Ashcroft & Mermin, Solid State Physics, eq. 17.55
     # with a₀ -> a* in a medium; value from memory), an independent route to the same formula.
-    semi = Semiconductor(effective_mass=0.067, permittivity=12.9)
+    semi = Semiconductor(effective_mass=0.067, permittivity=12.9, screening="thomas_fermi")
     n = np.array([1e22, 1e23, 1e24, 1e25])
     a_star = 12.9 / 0.067 * BOHR
     k_F = (3 * math.pi ** 2 * n) ** (1 / 3)
@@ -123,17 +123,23 @@ def test_nuclear_first_bound_state_threshold():
 
 def _toy_cube(mass=1.0):
     # Coordinates only: the physical coordinates depend on nothing else.
-    return xr.Dataset(coords={"strength": [1.0, 2.0], "screening_length": np.geomspace(1, 100, 5)},
-                      attrs={"mass": mass})
+    lam = ("screening_length", np.geomspace(1, 100, 5), {"units": f"{BOHR!r} m", "length_unit_in_m": BOHR})
+    return xr.Dataset(coords={"strength": [1.0, 2.0], "screening_length": lam}, attrs={"mass": mass})
 
 
-def test_physical_coordinates_plasma():
-    plasma = Plasma(temperature_eV=10.0)
+@pytest.mark.parametrize("screening", ["debye", "finite_temperature"])
+def test_physical_coordinates_plasma(screening):
+    # The density coordinate is in cm-3 and gives back each screening length in the preset's model.
+    plasma = Plasma(temperature_eV=10.0, screening=screening)
     ds = add_physical_coordinates(_toy_cube(), plasma)
     lam = ds["screening_length"].values
     np.testing.assert_allclose(ds["screening_length_nm"], lam * BOHR * 1e9, rtol=1e-14)
-    np.testing.assert_allclose(plasma.debye_length(ds["electron_density"].values, 10.0), lam * BOHR, rtol=1e-12)
-    assert ds["electron_density"].attrs["units"] == "m-3"
+    np.testing.assert_allclose(plasma.screening_length_at(ds["electron_density"].values * 1e6, 10.0), lam * BOHR,
+                               rtol=1e-12)
+    assert ds["electron_density"].attrs["units"] == "cm-3"
+    if screening == "debye":  # NRL Plasma Formulary: λ_D = 7.43e2 (T/eV)^{1/2} (n/cm^-3)^{-1/2} cm
+        coefficient = lam * BOHR * 100 / np.sqrt(10.0 / ds["electron_density"].values)
+        assert {f"{c:.3g}" for c in coefficient} == {"743"}
 
 
 def test_physical_coordinates_semiconductor_and_nuclear():
@@ -274,7 +280,7 @@ def test_every_preset_answers_every_question(preset):
     np.testing.assert_array_equal(np.shape(preset.strength_values(np.array([1.0, 2.0]))), (2,))
     assert preset.sweep_mass(None, {}) > 0
     coords = preset.physical_coordinates(np.array([1.0, 2.0]), np.array([1e-9, 1e-8]))
-    assert all(dim in ("strength", "screening_length") and attrs["units"] for dim, _, attrs in coords.values())
+    assert all(set(dims) <= {"strength", "screening_length"} and attrs["units"] for dims, _, attrs in coords.values())
     columns = preset.critical_length_columns(1.0, 5.0)
     assert all(math.isfinite(v) for v in columns.values())
     shown = preset.command_line_reading()
@@ -282,6 +288,24 @@ def test_every_preset_answers_every_question(preset):
     strength, text = preset.strength_input(50.0)
     assert strength > 0 and text
     assert preset.has_condition_map == (preset.density_name is not None)
+    # A sweep over the trade's conditions: each condition gets a positive engine length.
+    if preset.condition_keys:
+        axes = {key: np.array([1e17, 1e19]) if "density" in key else np.array([3.0, 30.0])
+                for key in preset.condition_keys}
+        grid = preset.condition_grid(np.array([1.0, 2.0]), axes)
+        assert grid.engine_length.shape == tuple(v.size for v in grid.length_values)
+        assert np.all(grid.engine_length > 0) and np.all(grid.engine_strength > 0)
+        assert set(grid.attributes) >= {grid.strength_dim, *grid.length_dims}
+        assert all(preset.condition_labels[name] for name in grid.length_dims)
+    if preset.validity_flags is not None:
+        names, reasons = preset.validity_flags
+        assert names[0] == "ok" and set(reasons) == set(names)
+        valid = preset.validity(np.array([1e20, 1e26]), np.array([preset.reference_temperature]))
+        assert valid.flag.shape == (2,) and np.all(valid.coupling_parameter > 0)
+        lam_c = np.full((1, 1, 2), 5e-9)
+        criticals = preset.trade_criticals(lam_c, None)
+        (name, (dims, values, attrs)), *_ = criticals.items()
+        assert name == f"loss_{preset.density_name}" and attrs["units"] == "cm-3" and np.all(values > 0)
     if preset.kind is None:
         assert preset.shown_energy_unit() == (None, None) and coords == {} and columns == {}
     else:
@@ -301,14 +325,15 @@ def test_no_preset_is_atomic_units_and_leaves_a_cube_alone():
 
 def test_debye_number_matches_nrl_formulary():
     # NRL Plasma Formulary (2019), p. 28: N_D = (4π/3) n λ_D³ = 1.72e9 T^{3/2} n^{-1/2} (T in eV,
-    # n in cm⁻³), to its 3 digits; the condition map's validity line is N_D = 1.
+    # n in cm⁻³), to its 3 digits; below N_D = 1 the screening sphere is empty and the cell flagged.
     plasma = Plasma()
     for T_eV, n_cm3 in [(1.0, 1e12), (100.0, 1e20)]:
         n = n_cm3 * 1e6
         number = plasma.debye_number(n, plasma.debye_length(n, T_eV))
         assert f"{number / (T_eV ** 1.5 / math.sqrt(n_cm3)):.3g}" == "1.72e+09"
-    field = plasma.validity_field(np.array([1e24, 1e30]), plasma.debye_length(np.array([1e24, 1e30]), 10.0)[None, :])
-    assert field.shape == (1, 2) and field[0, 0] > 1 > field[0, 1]
+        assert plasma.validity(n, T_eV).debye_number == pytest.approx(number, rel=1e-12)
+    valid = Plasma(screening="debye").validity(np.array([1e24, 1e30]), 10.0)
+    assert valid.debye_number[0] > 1 > valid.debye_number[1] and valid.flag[0] == 0 and valid.flag[1] != 0
 
 
 def test_degenerate_density_is_where_the_fermi_energy_meets_k_t():
@@ -316,11 +341,12 @@ def test_degenerate_density_is_where_the_fermi_energy_meets_k_t():
     # value from memory) equals k_B T at the semiconductor's validity density.
     semi = Semiconductor(effective_mass=0.067, permittivity=12.9)
     for T in (4.2, 77.0, 300.0):
-        n = float(semi.validity_density(np.array([T]))[0])
+        n = float(semi.degenerate_density(T))
         fermi = sc.hbar ** 2 * (3 * math.pi ** 2 * n) ** (2 / 3) / (2 * 0.067 * sc.m_e)
         assert fermi == pytest.approx(sc.k * T, rel=1e-12)
-    assert Plasma().validity_density(np.array([1.0])) is None
-    assert semi.validity_field(np.ones(2), np.ones((1, 2))) is None
+        # k_B T/E_F, the cube's degeneracy, is 1 there
+        assert float(semi.validity(n, T).degeneracy) == pytest.approx(1.0, rel=1e-12)
+    assert NO_PRESET.validity(1.0, 1.0) is None and Nuclear().validity(1.0, 1.0) is None
 
 
 @pytest.mark.parametrize("preset", [Plasma(species="electrons_and_ions", screening_ion_charge=2.0),
@@ -336,15 +362,21 @@ def test_loss_density_inverts_the_screening_length(preset):
 
 
 def test_loss_table_columns_follow_the_preset():
-    # The loss density of the CSV is where the preset's screening length equals λ_c (NRL Debye
-    # length, via test_debye_length_matches_nrl_formulary), in cm⁻³.
-    plasma = Plasma(temperature_eV=10.0)
+    # The loss density (the command line's, and the cube's) is where the preset's screening length
+    # equals λ_c (NRL Debye length, via test_debye_length_matches_nrl_formulary), in cm⁻³.
+    plasma = Plasma(temperature_eV=10.0, screening="debye")
     columns = plasma.critical_length_columns(1.0, 20.0)
-    assert list(columns) == ["critical_screening_length_nm", "loss_electron_density_cm-3"]
+    assert list(columns) == ["critical_screening_length_nm"]
     assert columns["critical_screening_length_nm"] == pytest.approx(20.0 * BOHR * 1e9, rel=1e-14)
+    columns = plasma.critical_columns(20.0 * BOHR)
     n_m3 = columns["loss_electron_density_cm-3"] * 1e6
     assert plasma.debye_length(n_m3, 10.0) == pytest.approx(20.0 * BOHR, rel=1e-12)
-    assert math.isnan(plasma.critical_length_columns(1.0, math.inf)["loss_electron_density_cm-3"])
+    assert columns["screening_validity"] in ("ok", "strongly_coupled", "few_carriers_in_screening_sphere",
+                                             "debye_model_on_degenerate_gas")
+    assert math.isnan(plasma.critical_columns(math.inf)["loss_electron_density_cm-3"])
+    (dims, loss, _), (_, flag, flag_attrs) = plasma.trade_criticals(np.full((1, 1, 1), 20.0 * BOHR), None).values()
+    assert dims == ("strength", "l", "n_r") and loss[0, 0, 0] * 1e6 == pytest.approx(n_m3, rel=1e-12)
+    assert flag_attrs["flags"][int(flag[0, 0, 0])] == columns["screening_validity"]
     nuclear = Nuclear(reduced_mass_MeV=469.4591).critical_length_columns(1.0, 1.4)
     assert list(nuclear) == ["critical_screening_length_fm", "coupling_MeV_fm", "two_mu_g2_lambda_over_hbar2"]
     assert nuclear["two_mu_g2_lambda_over_hbar2"] == pytest.approx(

@@ -13,7 +13,14 @@ from boundscape import sweep
 from boundscape.errors import InputError
 
 REPO = Path(__file__).resolve().parents[1]
-DEMO = yaml.safe_load((REPO / "config" / "config.yaml").read_text())
+# A sweep over screening lengths under the plasma preset (the demo before it ran over n_e x T_e):
+# the checks of the engine's own axes are made on it.
+DEMO = {"sweep": "demo", "potential": {"family": "yukawa", "mass": 1.0},
+        "grid": {"strength": [1, 2, 3, 4, 5, 6], "screening_length": {"start": 0.3, "stop": 300, "num": 48,
+                                                                      "spacing": "log"},
+                 "l": [0, 1, 2, 3], "n_r_max": 8},
+        "resonances": True, "lines": ["1s-2p", "2s-3p", "2p-3d", "1s-3p"], "tiles": {"cells": 96},
+        "preset": {"kind": "plasma", "species": "electrons", "temperature_eV": 20.0}}
 
 
 def mutated(change):
@@ -135,7 +142,7 @@ def test_plan_step_prints_the_plan_and_errors_in_one_line(tmp_path):
 
     ok = subprocess.run([sys.executable, "-m", "boundscape.cli.steps", "plan", "--config", str(REPO / "config" / "config.yaml")],
                         capture_output=True, text=True, check=True)
-    plan = sweep.plan(DEMO)
+    plan = sweep.plan(sweep.load_config(REPO / "config" / "config.yaml"))
     assert f"{plan.num_cells} cells" in ok.stdout and f"{len(plan.tiles)} tiles" in ok.stdout
     bad = tmp_path / "bad.yaml"
     bad.write_text(yaml.safe_dump(mutated(lambda c: c["potential"].update(family="yukava"))))

@@ -14,9 +14,6 @@ from .physical import preset_of
 
 __all__ = ["readable"]
 
-_ENERGIES = ("energy", "energy_error", "binding_energy", "line_energy", "line_shift")
-_LENGTHS = ("screening_length", "mean_radius", "critical_screening_length")
-
 # (energy unit, its size in J, length unit, its size in m) of the atomic reading; a preset's are
 # its energy_unit and length_unit.
 ATOMIC_DISPLAY = ("hartree", HARTREE_J, "bohr", BOHR_M)
@@ -36,8 +33,11 @@ def readable(ds, units: str = "atomic"):
     Returns
     -------
     xarray.Dataset
-        Numbers converted to those units with the cube's own ``energy_unit_in_J`` and
-        ``length_unit_in_m``; ``units`` set to the unit's name; a ``binding_energy`` (−E) added;
+        Numbers converted to those units with the cube's own ``energy_unit_in_J``,
+        ``length_unit_in_m`` and ``wavenumber_unit_in_per_m`` — every energy, length and inverse
+        length it holds (levels, resonances, lines, critical and dissolution lengths, the
+        screening-length coordinate, κ_v); ``units`` set to the unit's name (``1/nm`` for κ_v);
+        a ``binding_energy`` (−E) added;
         dimensionless quantities lose their ``units = "1"`` so labels carry no "[1]".
     """
     if units == "atomic":
@@ -55,10 +55,13 @@ def readable(ds, units: str = "atomic"):
         out["binding_energy"].attrs = {**ds["energy"].attrs, "long_name": "binding energy −E"}
     for name in list(out.variables):
         attrs = dict(out[name].attrs)
-        if name in _ENERGIES and "energy_unit_in_J" in attrs:
+        # Every energy, length and wavenumber of the cube says its unit's size; nothing is listed.
+        if "energy_unit_in_J" in attrs:
             factor, shown = attrs["energy_unit_in_J"] / e_J, e_name
-        elif name in _LENGTHS and "length_unit_in_m" in attrs:
+        elif "length_unit_in_m" in attrs:
             factor, shown = attrs["length_unit_in_m"] / l_m, l_name
+        elif "wavenumber_unit_in_per_m" in attrs:
+            factor, shown = attrs["wavenumber_unit_in_per_m"] * l_m, f"1/{l_name}"
         else:
             if attrs.get("units") == "1":
                 attrs.pop("units")

@@ -46,28 +46,28 @@ def add_physical_coordinates(ds, preset=NO_PRESET, cube_mass=None):
     return out
 
 
-_ENERGIES = ("energy", "energy_error", "line_energy", "line_shift") + past.ENERGY_VARS
-_LENGTHS = ("screening_length", "mean_radius", "critical_screening_length") + past.LENGTH_VARS
 _ATOMIC_ONLY = ("hartree_in_eV", "hartree_in_J", "bohr_in_m")
 
 
 def _describe_units(out, preset, units, mass):
-    """Every unit attribute says what is stored under the preset: no stale hartree or bohr."""
+    """Every unit attribute says what is stored under the preset: no stale hartree or bohr.  An
+    energy, length or wavenumber in the engine's units is known by its ``energy_unit_in_J``,
+    ``length_unit_in_m`` or ``wavenumber_unit_in_per_m``."""
     strength_name = preset.strength_long_name
     if strength_name is not None and "strength" in out.coords and out["strength"].attrs.get("units") == "1":
         out["strength"].attrs["long_name"] = strength_name
     if units is ATOMIC:
         return
     energy_eV = units.energy_J / sc.electron_volt
-    for name in _ENERGIES + _LENGTHS + past.INVERSE_LENGTH_VARS:
-        if name not in out.variables:
-            continue
+    for name in out.variables:
         attrs = out[name].attrs
+        if not {"energy_unit_in_J", "length_unit_in_m", "wavenumber_unit_in_per_m"} & set(attrs):
+            continue
         for key in _ATOMIC_ONLY:
             attrs.pop(key, None)
-        if name in past.INVERSE_LENGTH_VARS:
+        if "wavenumber_unit_in_per_m" in attrs:
             attrs.update(past.inverse_length_attrs(units.length_m))
-        elif name in _LENGTHS:
+        elif "length_unit_in_m" in attrs:
             attrs.update(units=units.length_udunits(), length_unit_in_m=units.length_m)
         else:
             attrs.update(units=units.energy_udunits(), energy_unit_in_J=units.energy_J, energy_unit_in_eV=energy_eV)

@@ -17,9 +17,10 @@ A species marked ``classical`` (a plasma's ions, whose thermal wavelength is at 
 ≈ 43 times the electrons') is screened as a classical gas in every model.
 
 Validity: all three are mean-field (linear-response) models of a weakly coupled gas.  A cell is
-flagged where the carriers are strongly coupled (their Coulomb energy at the mean spacing exceeds
-both k_B T and E_F), where the screening sphere holds fewer than one carrier, where Debye screening
-is applied to a degenerate gas (k_B T < E_F) or Thomas–Fermi screening to a classical one.
+flagged, first reason first, where the carriers are strongly coupled (their Coulomb energy at the
+mean spacing exceeds both k_B T and E_F), where Debye screening is applied to a degenerate gas
+(k_B T < E_F) or Thomas–Fermi screening to a classical one, or where the screening sphere holds
+fewer than one carrier.
 """
 
 from __future__ import annotations
@@ -43,8 +44,8 @@ MODEL_DESCRIPTIONS = {
 }
 
 # CF flag_values are the positions here; one flag per cell, the first that applies in this order.
-VALIDITY_FLAGS = ("ok", "strongly_coupled", "few_carriers_in_screening_sphere", "debye_model_on_degenerate_gas",
-                  "thomas_fermi_model_on_classical_gas")
+VALIDITY_FLAGS = ("ok", "strongly_coupled", "debye_model_on_degenerate_gas", "thomas_fermi_model_on_classical_gas",
+                  "few_carriers_in_screening_sphere")
 VALIDITY_REASONS = {
     "ok": "weakly coupled, many carriers in the screening sphere, the model fits the gas's degeneracy",
     "strongly_coupled": "the carriers' Coulomb energy at their mean spacing exceeds both k_B T and E_F: linear "
@@ -171,11 +172,11 @@ class Carriers:
             flag[(flag == 0) & where] = VALIDITY_FLAGS.index(name)
 
         mark(coulomb > np.maximum(kT_1, fermi), "strongly_coupled")
-        mark(4 * math.pi / 3 * n_1 * lam ** 3 < 1.0, "few_carriers_in_screening_sphere")
         if model == "debye":
             mark(kT_1 < fermi, "debye_model_on_degenerate_gas")
         elif model == "thomas_fermi":
             mark(kT_1 > fermi, "thomas_fermi_model_on_classical_gas")
+        mark(4 * math.pi / 3 * n_1 * lam ** 3 < 1.0, "few_carriers_in_screening_sphere")
         return Validity(coulomb / kT_1, 4 * math.pi / 3 * n_1 * debye ** 3, kT_1 / fermi, flag)
 
 

@@ -107,7 +107,7 @@ class Nuclear(Preset):
     def physical_coordinates(self, strength, screening_length_m, cube_mass=1.0, dims=("screening_length",)):
         if dims != ("screening_length",):  # a sweep over (coupling, range): both are its axes
             return {}
-        coupling = {"coupling": ("strength", self.coupling_MeV_fm(strength, cube_mass),
+        coupling = {"coupling": (("strength",), self.coupling_MeV_fm(strength, cube_mass),
                                  {"long_name": "coupling g² of V = -g² exp(-r/λ)/r", "units": "MeV fm"})}
         return {**coupling, **super().physical_coordinates(strength, screening_length_m, cube_mass, dims)}
 

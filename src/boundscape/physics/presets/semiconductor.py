@@ -232,7 +232,7 @@ class Semiconductor(CarrierScreening):
             coords["carrier_density"] = (dims, convert(density, "m-3", "cm-3"), {
                 "long_name": f"carrier density giving this screening length at T = {self.temperature_K:g} K "
                              f"({self.screening})", "units": "cm-3"})
-        coords["donor_charge"] = ("strength", self.donor_charge(strength), {
+        coords["donor_charge"] = (("strength",), self.donor_charge(strength), {
             "long_name": "donor charge number", "units": "1"})
         return coords
 
