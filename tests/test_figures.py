@@ -137,7 +137,7 @@ def test_condition_map_counts_match_the_cells(yukawa_cube):
 
 
 def test_semiconductor_condition_map_is_one_dimensional(yukawa_cube):
-    semi = Semiconductor(effective_mass=0.067, permittivity=12.9)
+    semi = Semiconductor(effective_mass=0.067, permittivity=12.9, screening="thomas_fermi")
     fig, data = plots.condition_map(yukawa_cube, semi, {"strengths": [1.0]})
     assert data["count"][1.0].shape == (1, data["density_cm3"].size)
     counts = data["count"][1.0][0]
@@ -151,23 +151,27 @@ def test_semiconductor_condition_map_is_one_dimensional(yukawa_cube):
 
 
 def test_critical_table_equals_the_cube(yukawa_cube, tmp_path):
+    # The cube's config names a plasma preset at 10 eV and no model: a sweep over screening lengths
+    # keeps Debye screening.  Columns in the preset's units only (nm, cm-3): no bohr column.
     ds = yukawa_cube
-    plasma = Plasma(temperature_eV=10.0)
+    plasma = Plasma(temperature_eV=10.0, screening="debye")
     plots.write_critical_csv(ds, tmp_path / "critical.csv", plasma)
     with open(tmp_path / "critical.csv") as f:
         rows = list(csv.DictReader(f))
     assert len(rows) == ds["critical_screening_length"].size
+    assert "critical_screening_length_bohr" not in rows[0] and "screening_validity" in rows[0]
+    meanings = ds["loss_electron_density_validity"].attrs["flag_meanings"].split()
     for row in rows:
-        stored = float(ds["critical_screening_length"].sel(strength=float(row["strength"]), l=int(row["l"]),
-                                                           n_r=int(row["n_r"])))
-        assert float(row["critical_screening_length_bohr"]) == stored
+        where = {"strength": float(row["strength"]), "l": int(row["l"]), "n_r": int(row["n_r"])}
+        stored = float(ds["critical_screening_length"].sel(where))
         # Derived columns carry 13 significant digits.
         assert float(row["critical_screening_length_nm"]) == pytest.approx(stored * BOHR * 1e9, rel=1e-12)
         assert len(row["critical_screening_length_nm"].replace("-", "").replace(".", "").split("e")[0].strip("0")) <= 13
         assert int(row["n"]) == int(row["n_r"]) + int(row["l"]) + 1
-        # The loss density gives back λ_c through the NRL-checked Debye length.
+        # The loss density gives back λ_c through the NRL-checked Debye length, and carries its flag.
         lam = plasma.debye_length(float(row["loss_electron_density_cm-3"]) * 1e6, 10.0)
         assert lam == pytest.approx(stored * BOHR, rel=1e-12)
+        assert row["screening_validity"] == meanings[int(ds["loss_electron_density_validity"].sel(where))]
 
 
 def test_never_bound_states_are_kept_out_of_the_curves(never_binding_cube, tmp_path):
@@ -242,7 +246,7 @@ def test_workflow_renders_figures_and_builds_the_report(tmp_path):
     run = subprocess.run(snakemake, cwd=tmp_path, capture_output=True, text=True, timeout=300)
     assert run.returncode == 0, run.stderr[-2000:]
     out = tmp_path / "results" / "tiny"
-    for stem in ("threshold_map_l0", "level_fan", "condition_map"):
+    for stem in ("threshold_map_l0", "level_fan", "condition_map"):  # a sweep over λ keeps its condition map
         assert (out / "figures" / f"{stem}.png").stat().st_size > 0
         assert (out / "figures" / f"{stem}.pdf").stat().st_size > 0
     run = subprocess.run(snakemake + ["--report", str(out / "report.html")], cwd=tmp_path, capture_output=True,
@@ -418,19 +422,28 @@ def test_condition_map_shows_every_stored_strength_and_distinct_bands():
 
 def test_thomas_fermi_map_marks_where_the_gas_is_not_degenerate():
     # E_F = ħ²k_F²/(2m*) with k_F = (3π²n)^{1/3} (Ashcroft & Mermin, ch. 2): E_F = k_B T at
-    # n = (2m* k_B T)^{3/2}/(3π² ħ³).
+    # n = (2m* k_B T)^{3/2}/(3π² ħ³).  Below it Thomas–Fermi screening fails, and every density there
+    # is hatched; so is every other density the preset flags (here also the too dilute degenerate
+    # gas, whose Thomas–Fermi sphere holds less than one electron), and nothing else.
     from scipy import constants as sc
 
-    semi = Semiconductor(effective_mass=0.067, permittivity=12.9, temperature_K=77.0)
+    semi = Semiconductor(effective_mass=0.067, permittivity=12.9, temperature_K=77.0, screening="thomas_fermi")
     ds = synthetic_cube(preset=semi)
-    fig, _ = plots.condition_map(ds, semi, {"density_cm3": {"start": 1e10, "stop": 1e20, "num": 50}})
+    density = np.geomspace(1e10, 1e20, 51)
+    fig, _ = plots.condition_map(ds, semi, {"density_cm3": list(density)})
     k_F = math.sqrt(2 * 0.067 * sc.m_e * sc.k * 77.0) / sc.hbar
     n_cm3 = k_F ** 3 / (3 * math.pi ** 2) / 1e6
-    spans = [p for ax in fig.axes for p in ax.patches if p.get_gid() == "degenerate"]
+    flags = semi.validity(density * 1e6, 77.0).flag
+    assert np.all(flags[density < n_cm3] == 3)  # thomas_fermi_model_on_classical_gas
+    spans = [p for ax in fig.axes for p in ax.patches if p.get_gid() == "invalid"]
     assert spans
+    edges = plots.style.cell_edges(density)
+    hatched = np.zeros(density.size, bool)
     for span in spans:
-        x = np.array([span.get_x(), span.get_x() + span.get_width()])
-        assert x.max() == pytest.approx(n_cm3, rel=1e-9) and x.min() == pytest.approx(1e10)
+        lo, hi = span.get_x(), span.get_x() + span.get_width()
+        hatched |= (density > lo) & (density < hi)
+    np.testing.assert_array_equal(hatched, flags != 0)
+    assert edges[0] == pytest.approx(1e10 / math.sqrt(density[1] / density[0]))
 
 
 def test_family_names_and_the_square_well_radius():

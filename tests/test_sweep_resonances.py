@@ -113,10 +113,11 @@ def test_cube_has_the_variables_with_cf_attributes(cube):
     assert cube["resonance_energy"].attrs["units"] == cube["energy"].attrs["units"]
     assert cube["resonance_width"].attrs["units"] == cube["energy"].attrs["units"]
     assert cube["dissolution_screening_length"].attrs["units"] == cube["critical_screening_length"].attrs["units"]
-    # κ_v per bohr: the inverse of the bohr the lengths are in (scipy.constants' Bohr radius)
-    assert math.isclose(cube["virtual_state_kappa"].attrs["wavenumber_unit_in_per_m"],
-                        1.0 / cube["screening_length"].attrs["length_unit_in_m"], rel_tol=1e-15)
-    assert cube["virtual_state_kappa"].attrs["units"].endswith(" m-1")
+    # κ_v per bohr: the inverse of the bohr the lengths are in (scipy.constants' Bohr radius), to the
+    # 15 digits the factor is written with; the unit string keeps the length's digits, 1/(L m)
+    bohr = float(cube["screening_length"].attrs["length_unit_in_m"])
+    assert math.isclose(cube["virtual_state_kappa"].attrs["wavenumber_unit_in_per_m"], 1.0 / bohr, rel_tol=1e-14)
+    assert cube["virtual_state_kappa"].attrs["units"] == f"1/({bohr!r} m)"
     assert "-kappa_v^2/(2 mu)" in cube["virtual_state_kappa"].attrs["comment"]
     flags = cube["resonance_status"].attrs
     assert flags["flag_meanings"].split() == list(RESONANCE_FLAGS)
@@ -193,8 +194,11 @@ def test_a_preset_rewrites_their_units_as_the_levels(cube, preset, tmp_path):
         assert "hartree_in_eV" not in out[name].attrs
     for key in ("units", "length_unit_in_m"):
         assert out["dissolution_screening_length"].attrs[key] == out["critical_screening_length"].attrs[key]
-    length_m = out["critical_screening_length"].attrs["length_unit_in_m"]
-    assert out["virtual_state_kappa"].attrs["wavenumber_unit_in_per_m"] == 1.0 / length_m
+    length_m = float(out["critical_screening_length"].attrs["length_unit_in_m"])
+    assert math.isclose(out["virtual_state_kappa"].attrs["wavenumber_unit_in_per_m"], 1.0 / length_m, rel_tol=1e-14)
+    # no float artefact in the unit: 1/(1e-15 m), not 999999999999999.9 m-1
+    assert out["virtual_state_kappa"].attrs["units"] == f"1/({length_m!r} m)" and "99999" not in str(
+        out["virtual_state_kappa"].attrs["wavenumber_unit_in_per_m"])
     assert "bohr_in_m" not in out["virtual_state_kappa"].attrs
     write_cube(out, tmp_path / "preset.nc")  # and it still writes
 

@@ -131,14 +131,21 @@ def unit_names(preset=NO_PRESET):
 
 def energy_unit(ds, preset=NO_PRESET):
     """(unit name, factor from the cube's energy unit) of the preset's energies: eV, meV, MeV;
-    (None, None) without a preset."""
-    return preset.shown_energy_unit(_cube_mass(ds))
+    (None, None) without a preset.  The factor is the cube's own ``energy_unit_in_J`` where it
+    has one (the number every reader converts with)."""
+    name, factor = preset.shown_energy_unit(_cube_mass(ds))
+    if name is not None and "energy_unit_in_J" in ds["energy"].attrs:
+        factor = float(ds["energy"].attrs["energy_unit_in_J"]) / preset.energy_unit.size
+    return name, factor
 
 
 def length_unit(ds, preset=NO_PRESET):
     """(unit name, factor from the cube's length unit) of the preset's physical length;
     (None, None) without a preset."""
-    return preset.shown_length_unit(_cube_mass(ds))
+    name, factor = preset.shown_length_unit(_cube_mass(ds))
+    if name is not None and "length_unit_in_m" in ds["screening_length"].attrs:
+        factor = float(ds["screening_length"].attrs["length_unit_in_m"]) / preset.length_unit.size
+    return name, factor
 
 
 def save(fig, stem):
