@@ -86,7 +86,7 @@ def test_critical_has_no_screened_flag():
 
 
 def test_plasma_charges_have_one_meaning_each(capsys):
-    base = ["convert", "plasma", "--density", "1e20", "--temperature", "10"]
+    base = ["convert", "plasma", "--density", "1e20", "--temperature", "10", "--screening", "debye"]
     rows = {r["quantity"]: r["value"] for r in run_json(capsys, *base, "--nuclear-charge", "3")}
     plain = {r["quantity"]: r["value"] for r in run_json(capsys, *base)}
     assert rows["engine strength Z (nuclear charge)"] == 3.0
