@@ -1,6 +1,7 @@
 """End-to-end speed of the sweep workflow against the plain script on the same cores.
 
     python benchmarks/bench_sweep.py [--cores 2] [--config config/sweeps/large.yaml] [--warm] [--no-plain]
+    python benchmarks/bench_sweep.py --dedupe [--cores 2] [--config config/sweeps/conditions.yaml]
 
 Runs, in one process and one after the other:
 
@@ -13,12 +14,22 @@ Runs, in one process and one after the other:
 
 Printed: wall times, their ratio to the plain script's ideal time, the engine's own time summed
 over the jobs, the collect step's peak resident memory and the cube's size on disk.
+
+``--dedupe`` measures a sweep over conditions (default: the 110,715-cell plasma sweep
+``config/sweeps/conditions.yaml``, n_e × T_e with Debye screening) two ways on the same cores,
+one after the other: the plan's tiles, which solve each distinct engine cell (strength, λ, l)
+once, and the same cells without deduplication, every condition solved at its own λ in tiles of
+the same size.  Both use ``boundscape.sweep.solve_tile`` in ``--cores`` worker processes (their
+kernels loaded before the clock starts); the energies of the two are compared cell by cell.  It
+also prints how many distinct lengths the same grid has under finite-temperature screening, and
+how long planning it takes.
 """
 
 from __future__ import annotations
 
 import argparse
 import csv
+import json
 import multiprocessing
 import os
 import subprocess
@@ -91,13 +102,87 @@ def run_workflow(config_path, cores, workdir, cache_dir):
             "cube_mb": cube.stat().st_size / 2**20, "flagged": flagged}
 
 
+def _solve(spec):
+    from boundscape.sweep import solve_tile
+
+    start = time.perf_counter()
+    out = solve_tile(spec)
+    return out["energy"], time.perf_counter() - start
+
+
+def _warm(_):
+    from boundscape import bound_levels, potential
+
+    bound_levels(potential("yukawa", 1.0, 10.0), 0)
+    return os.getpid()
+
+
+def run_dedupe(config_path, cores):
+    """The sweep's cells solved once per distinct engine cell, and once per condition."""
+    config = sweep.load_config(config_path)
+    start = time.perf_counter()
+    plan = sweep.plan(config)
+    plan_s = time.perf_counter() - start
+    grid = plan.conditions
+    lengths = grid.engine_length.ravel()  # every condition's own λ (the preset's value)
+    per_tile = max(1, int(config["tiles"]["cells"]) // plan.l.size)
+    plain = [{**plan.tile_spec(plan.tiles[0]), "strength": [float(z)], "screening_length": chunk.tolist(),
+              "strength_slice": [i, i + 1], "screening_length_index": list(range(chunk.size))}
+             for i, z in enumerate(plan.strength) for chunk in np.array_split(lengths, -(-lengths.size // per_tile))]
+    print(f"sweep {plan.sweep}: {plan.num_cells} cells; {plan.num_engine_cells} distinct engine cells "
+          f"({plan.screening_length.size} distinct screening lengths of {lengths.size} conditions) in "
+          f"{len(plan.tiles)} tiles; without dedupe {len(plain)} tiles; plan {plan_s:.2f} s", flush=True)
+    with multiprocessing.Pool(cores) as pool:
+        pool.map(_warm, range(4 * cores))
+        results = {}
+        for name, specs in (("dedupe", [plan.tile_spec(t) for t in plan.tiles]), ("no dedupe", plain)):
+            start = time.perf_counter()
+            solved = pool.map(_solve, specs, chunksize=1)
+            wall = time.perf_counter() - start
+            results[name] = (wall, sum(s for _, s in solved), solved, specs)
+            print(f"{name}: wall {wall:.1f} s on {cores} cores, engine {results[name][1]:.1f} s summed, "
+                  f"{len(specs)} tiles", flush=True)
+    # the same energies cell by cell: the dedupe side mapped onto the conditions
+    engine = np.full((plan.strength.size, plan.screening_length.size, plan.l.size, plan.n_r_max), np.nan)
+    for (energy, _), spec in zip(results["dedupe"][2], results["dedupe"][3]):
+        engine[slice(*spec["strength_slice"]), spec["screening_length_index"]] = energy
+    mapped = engine[:, plan.length_index.ravel()]
+    direct = np.concatenate([np.concatenate([energy for (energy, _), spec in zip(results["no dedupe"][2],
+                                                                                 results["no dedupe"][3])
+                                             if spec["strength_slice"][0] == i], axis=1)[0][None]
+                             for i in range(plan.strength.size)])
+    both = np.isfinite(mapped) & np.isfinite(direct)
+    same_count = np.array_equal(np.isfinite(mapped), np.isfinite(direct))
+    worst = float(np.max(np.abs(mapped[both] - direct[both]) / np.abs(direct[both]))) if both.any() else 0.0
+    ratio = results["no dedupe"][0] / results["dedupe"][0]
+    print(f"saving: {ratio:.1f}x in wall time ({results['no dedupe'][1] / results['dedupe'][1]:.1f}x in engine "
+          f"time) for {plan.num_cells / plan.num_engine_cells:.1f}x fewer engine cells; energies agree to "
+          f"{worst:.1e} relative ({'the same' if same_count else 'DIFFERENT'} levels bound)")
+    fermi = json.loads(json.dumps(config))
+    fermi["preset"]["screening"] = "finite_temperature"
+    start = time.perf_counter()
+    fermi_plan = sweep.plan(fermi)
+    print(f"the same grid with finite_temperature screening: {fermi_plan.screening_length.size} distinct screening "
+          f"lengths of {lengths.size} conditions ({fermi_plan.num_engine_cells} engine cells); plan "
+          f"{time.perf_counter() - start:.2f} s")
+
+
 def main():
     parser = argparse.ArgumentParser(description=__doc__.splitlines()[0])
     parser.add_argument("--cores", type=int, default=2)
     parser.add_argument("--config", default=str(REPO / "config" / "sweeps" / "large.yaml"))
     parser.add_argument("--warm", action="store_true", help="also run the workflow again with a filled kernel cache")
     parser.add_argument("--no-plain", action="store_true", help="skip the plain script (e.g. for the scale sweep)")
+    parser.add_argument("--dedupe", action="store_true",
+                        help="a sweep over conditions with and without solving each distinct engine cell once "
+                             "(default config: config/sweeps/conditions.yaml)")
     args = parser.parse_args()
+    if args.dedupe:
+        config = args.config if args.config != parser.get_default("config") else \
+            str(REPO / "config" / "sweeps" / "conditions.yaml")
+        run_dedupe(config, args.cores)
+        print(f"(load average at the end: {os.getloadavg()[0]:.2f})")
+        return
 
     plan = sweep.plan(sweep.load_config(args.config))
     print(f"sweep {plan.sweep}: {plan.num_cells} cells, {len(plan.tiles)} tiles, {args.cores} cores", flush=True)

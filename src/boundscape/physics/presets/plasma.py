@@ -127,8 +127,8 @@ class Plasma(CarrierScreening):
 
     def condition_attributes(self):
         return {"strength": {"long_name": "nuclear charge Z of the hydrogen-like ion", "units": "1"},
-                "electron_density": {"long_name": "electron density n_e", "units": "cm-3"},
-                "electron_temperature": {"long_name": "electron temperature T_e", "units": "eV"}}
+                "electron_density": {"long_name": "electron density", "units": "cm-3"},
+                "electron_temperature": {"long_name": "electron temperature", "units": "eV"}}
 
     def sweep_mass(self, mass, section):
         if "reduced_mass" not in section:

@@ -196,9 +196,9 @@ class Semiconductor(CarrierScreening):
     def condition_attributes(self):
         who = "charge number Z of the exciton's Coulomb attraction" if self.is_exciton else "donor charge number Z"
         return {"strength": {"long_name": who, "units": "1"},
-                "carrier_density": {"long_name": "pair density n" if self.screening_species == "electrons_and_holes"
-                                    else "free electron density n", "units": "cm-3"},
-                "temperature": {"long_name": "carrier temperature T", "units": "K"}}
+                "carrier_density": {"long_name": "pair density" if self.screening_species == "electrons_and_holes"
+                                    else "free electron density", "units": "cm-3"},
+                "temperature": {"long_name": "carrier temperature", "units": "K"}}
 
     def trade_criticals(self, critical_length_m, grid, strength_dim="strength"):
         out = super().trade_criticals(critical_length_m, grid, strength_dim)
