@@ -33,7 +33,7 @@ PLASMA = {"sweep": "cond", "potential": {"family": "yukawa"},
 NUCLEAR = {"sweep": "nucl", "potential": {"family": "yukawa"},
            "grid": {"coupling": [30.0, 60.0, 120.0], "range": {"start": 0.8, "stop": 4.0, "num": 5, "spacing": "log"},
                     "l": [0, 1], "n_r_max": 2},
-           "preset": {"kind": "nuclear", "reduced_mass_MeV": 469.4591}}
+           "resonances": True, "preset": {"kind": "nuclear", "reduced_mass_MeV": 469.4591}}
 
 
 def changed(config, **changes):
@@ -257,3 +257,21 @@ def test_nuclear_sweep_over_coupling_and_range(nuclear_cube):
         assert float(ds["critical_coupling"].sel(range=r, l=1, n_r=0)) == pytest.approx(
             float(nuclear.coupling_MeV_fm(engine)), rel=1e-12)
     assert not any(name.startswith(("coupling_parameter", "screening_validity")) for name in ds.data_vars)
+
+
+def test_readable_reads_a_nuclear_cube_in_MeV_and_fm(nuclear_cube):
+    # The engine's energy unit (ħc)²/(μc² fm²) ≈ 82.9 MeV (ħc from CODATA via scipy): a resonance read
+    # in it as MeV would be 83 times off; readable converts every energy, length and wavenumber.
+    ds, _ = nuclear_cube
+    unit_MeV = sc.physical_constants["reduced Planck constant times c in MeV fm"][0] ** 2 / 469.4591
+    shown = readable(ds, "preset")
+    for name in ("energy", "resonance_energy", "resonance_width"):
+        assert shown[name].attrs["units"] == "MeV"
+        np.testing.assert_allclose(shown[name].values, ds[name].values * unit_MeV, rtol=1e-12, err_msg=name)
+    for name in ("critical_screening_length", "dissolution_screening_length", "screening_length", "mean_radius"):
+        assert shown[name].attrs["units"] == "fm"
+        np.testing.assert_allclose(shown[name].values, ds[name].values, rtol=1e-14, err_msg=name)  # b = 1 fm
+    assert shown["virtual_state_kappa"].attrs["units"] == "1/fm"
+    np.testing.assert_allclose(shown["virtual_state_kappa"].values, ds["virtual_state_kappa"].values, rtol=1e-14)
+    assert np.isfinite(ds["resonance_energy"].values).any()
+    assert ds["virtual_state_kappa"].attrs["units"] == "1/(1e-15 m)"  # no 999999999999999.9 m-1

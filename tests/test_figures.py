@@ -475,7 +475,8 @@ def test_families_without_a_screening_length_render(family, tmp_path):
     assert "no screening length" in plots.threshold_map(ds, 0)[0].axes[0].get_title()
 
 
-def test_the_readme_xarray_snippet_labels_itself_legibly(yukawa_cube, tmp_path, monkeypatch):
+def test_the_readme_xarray_snippet_labels_itself_legibly(tmp_path, monkeypatch):
+    # The README's snippet, run on a cube shaped like the demo's (Z × n_e × T_e under the plasma preset).
     import re
 
     import matplotlib
@@ -483,19 +484,20 @@ def test_the_readme_xarray_snippet_labels_itself_legibly(yukawa_cube, tmp_path, 
     matplotlib.use("Agg")
     import matplotlib.pyplot as plt
 
-    from boundscape.cube import write_cube
+    from test_conditions import PLASMA, build, changed
 
-    write_cube(yukawa_cube, tmp_path / "levels.nc")
+    build(tmp_path, changed(PLASMA, grid__electron_temperature=[1.0, 10.0, 100.0], resonances=False, lines=None))
     readme = (ROOT / "README.md").read_text()
     code = re.search(r"```python\n(.*?)```", readme, re.S).group(1)
     assert "results/demo/levels.nc" in code
     monkeypatch.chdir(tmp_path)
-    code = code.replace("results/demo/levels.nc", str(tmp_path / "levels.nc")).replace("strength=2", "strength=2.0")
+    code = code.replace("results/demo/levels.nc", str(tmp_path / "levels.nc"))
     exec(compile(code, "README.md", "exec"), {})
     ax = plt.gcf().axes[0]
-    assert ax.get_ylabel() == "binding energy −E [hartree]"
-    assert ax.get_xlabel() == "screening length [bohr]"
+    assert ax.get_ylabel() == "binding energy −E [eV]"
+    assert ax.get_xlabel() == "electron density [cm-3]"
     assert ax.get_legend().get_title().get_text() == "radial quantum number n_r"
+    assert (tmp_path / "binding_Z2.png").stat().st_size > 0
     plt.close("all")
 
 
