@@ -162,7 +162,7 @@ def test_critical_table_equals_the_cube(yukawa_cube, tmp_path):
     assert "critical_screening_length_bohr" not in rows[0] and "screening_validity" in rows[0]
     meanings = ds["loss_electron_density_validity"].attrs["flag_meanings"].split()
     for row in rows:
-        where = {"strength": float(row["strength"]), "l": int(row["l"]), "n_r": int(row["n_r"])}
+        where = {"strength": float(row["nuclear_charge"]), "l": int(row["l"]), "n_r": int(row["n_r"])}
         stored = float(ds["critical_screening_length"].sel(where))
         # Derived columns carry 13 significant digits.
         assert float(row["critical_screening_length_nm"]) == pytest.approx(stored * BOHR * 1e9, rel=1e-12)

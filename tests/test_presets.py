@@ -378,9 +378,10 @@ def test_loss_table_columns_follow_the_preset():
     assert dims == ("strength", "l", "n_r") and loss[0, 0, 0] * 1e6 == pytest.approx(n_m3, rel=1e-12)
     assert flag_attrs["flags"][int(flag[0, 0, 0])] == columns["screening_validity"]
     nuclear = Nuclear(reduced_mass_MeV=469.4591).critical_length_columns(1.0, 1.4)
-    assert list(nuclear) == ["critical_screening_length_fm", "coupling_MeV_fm", "two_mu_g2_lambda_over_hbar2"]
-    assert nuclear["two_mu_g2_lambda_over_hbar2"] == pytest.approx(
-        2 * 469.4591 * nuclear["coupling_MeV_fm"] * 1.4 / HBAR_C ** 2, rel=1e-12)
+    assert list(nuclear) == ["critical_screening_length_fm", "two_mu_g2_lambda_over_hbar2"]
+    name, g2 = Nuclear(reduced_mass_MeV=469.4591).table_strength(1.0)
+    assert name == "coupling_MeV_fm" and g2 == pytest.approx(HBAR_C ** 2 / 469.4591, rel=1e-12)
+    assert nuclear["two_mu_g2_lambda_over_hbar2"] == pytest.approx(2 * 469.4591 * g2 * 1.4 / HBAR_C ** 2, rel=1e-12)
 
 
 def test_grid_axes_and_sweep_mass_are_the_presets_rules():

@@ -49,7 +49,8 @@ def critical_rows(ds, preset=NO_PRESET):
                     where = {strength_dim: z, "l": l, "n_r": n_r}
                     lc = float(ds["critical_screening_length"].sel(where))
                     n = int(ds["n"].sel(l=l, n_r=n_r))
-                    row = {strength_dim: float(z)}
+                    name, shown = preset.table_strength(engine_z, mass)
+                    row = {name: shown}
                     if t is not None:
                         row[f"{t[0]}_{ds[t[0]].attrs.get('units', '')}"] = t[1]
                     row.update({"n": n, "l": int(l), "n_r": int(n_r), "state": state_label(n, int(l))})
@@ -97,7 +98,7 @@ def coupling_rows(ds, preset=NO_PRESET):
 
 # Columns the cube stores, printed with every digit; the others are derived through physical
 # constants and a unit conversion, and carry 13 significant digits (not round-trip noise).
-STORED = ("strength", "coupling", "critical_screening_length_bohr")
+STORED = ("strength", "nuclear_charge", "critical_screening_length_bohr")
 
 
 def _shown(key, value):

@@ -242,6 +242,10 @@ class Preset:
         """Global ``comment`` and ``mass_units`` of a cube read in ``units`` (not atomic units)."""
         return {}
 
+    def table_strength(self, strength, cube_mass: float = 1.0) -> tuple[str, float]:
+        """(column name, value) of an engine strength in the loss table, as the trade reads it."""
+        return "strength", float(strength)
+
     def critical_length_columns(self, strength, critical_length: float, cube_mass: float = 1.0) -> dict:
         """The loss table's columns of one stored critical length (cube units), beyond the bohr one."""
         name, factor = self.shown_length_unit(cube_mass)

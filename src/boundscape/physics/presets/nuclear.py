@@ -140,10 +140,12 @@ class Nuclear(Preset):
                            "gives its unit",
                 "mass_units": f"mu = {self.reduced_mass_MeV / cube_mass:g} MeV/c^2 (the mass unit)"}
 
+    def table_strength(self, strength, cube_mass=1.0):
+        return "coupling_MeV_fm", float(self.coupling_MeV_fm(strength, cube_mass))
+
     def critical_length_columns(self, strength, critical_length, cube_mass=1.0):
         columns = super().critical_length_columns(strength, critical_length, cube_mass)
         g2 = float(self.coupling_MeV_fm(strength, cube_mass))
-        columns["coupling_MeV_fm"] = g2
         # 2μg²λ_c/ħ²: the one-scale threshold, 2/1.19061 for the Yukawa ground state.
         _, to_fm = self.shown_length_unit(cube_mass)
         columns["two_mu_g2_lambda_over_hbar2"] = 2 * float(self.dimensionless(g2, critical_length * to_fm))

@@ -138,6 +138,9 @@ class Plasma(CarrierScreening):
                              f"{self.reduced_mass:g}; give the reduced mass once")
         return float(self.reduced_mass)
 
+    def table_strength(self, strength, cube_mass=1.0):
+        return "nuclear_charge", float(strength)
+
     def strength_label(self, attrs):
         return "nuclear charge Z of the ion"
 

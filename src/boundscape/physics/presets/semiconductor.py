@@ -217,6 +217,9 @@ class Semiconductor(CarrierScreening):
     def strength_values(self, strength, cube_mass=1.0):
         return np.asarray(self.donor_charge(strength))
 
+    def table_strength(self, strength, cube_mass=1.0):
+        return "donor_charge", float(self.donor_charge(strength))
+
     def strength_label(self, attrs):
         return "charge number Z of the pair" if self.is_exciton else "donor charge Z"
 
