@@ -257,6 +257,12 @@ def test_nuclear_sweep_over_coupling_and_range(nuclear_cube):
         assert float(ds["critical_coupling"].sel(range=r, l=1, n_r=0)) == pytest.approx(
             float(nuclear.coupling_MeV_fm(engine)), rel=1e-12)
     assert not any(name.startswith(("coupling_parameter", "screening_validity")) for name in ds.data_vars)
+    meanings = ds["critical_coupling_flag"].attrs["flag_meanings"].split()
+    flags = np.array(meanings)[ds["critical_coupling_flag"].values]
+    g2 = ds["critical_coupling"].values
+    inside = np.isfinite(g2) & (g2 >= 30.0 * (1 - 1e-12)) & (g2 <= 120.0 * (1 + 1e-12))
+    np.testing.assert_array_equal(flags == "within_grid", inside)
+    assert set(flags[np.isfinite(g2) & (g2 > 120.0)]) <= {"above_grid"}
 
 
 def test_readable_reads_a_nuclear_cube_in_MeV_and_fm(nuclear_cube):

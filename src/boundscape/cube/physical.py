@@ -106,12 +106,21 @@ def add_trade_variables(ds, preset, plan, criticals):
         name, attrs = preset.critical_strength_variable()
         along = lam.dims[0] if grid is not None else "screening_length"
         dims = (along, "l", "n_r")
-        values = np.asarray(preset.strength_values(criticals["critical_strength"], mass), dtype=float)
+        engine = criticals["critical_strength"]
+        values = np.asarray(preset.strength_values(engine, mass), dtype=float)
+        # where the critical strength lies against the sweep's strengths (as for the lengths)
+        flag = criticals["critical_strength_flag"].copy()
+        finite = np.isfinite(engine) & (flag == 0)
+        flag[finite & (engine < plan.strength.min())] = CRITICAL_FLAGS.index("below_grid")
+        flag[finite & (engine > plan.strength.max())] = CRITICAL_FLAGS.index("above_grid")
+        criticals = {**criticals, "critical_strength_flag": flag}
         out = out.assign({
             name: (dims, values, {**attrs, "ancillary_variables": f"{name}_flag"}),
             f"{name}_flag": (dims, criticals["critical_strength_flag"].astype(np.int8), {
                 "long_name": f"why {name.replace('_', ' ')} is or is not given", **flag_attrs(CRITICAL_FLAGS),
-                "comment": "never_bound: not bound at any strength; not_converged: see flagged_states",
+                "comment": "within_grid, below_grid, above_grid: against the sweep's strengths (below_grid: bound at "
+                           "every strength of the sweep at that length); never_bound: not bound at any strength; "
+                           "not_converged: see flagged_states",
                 "flagged_states": listing(criticals.get("critical_strength_reasons", []))})})
     return out
 
