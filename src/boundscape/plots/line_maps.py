@@ -77,7 +77,8 @@ def line_shift_map(ds, m, preset=NO_PRESET):
         fig, loss = _condition_shift_map(ds, m, preset, relative, absolute, unit, way)
     else:
         fig, loss = _strength_shift_map(ds, m, preset, relative, absolute, unit, way)
-    fig.suptitle(f"{family_title(ds)}: line {pretty}, shift against the unscreened line ({way})", fontsize=9)
+    fig.suptitle(f"{family_title(ds)}: line {pretty}, shift against the unscreened line; the line is {way}",
+                 fontsize=9)
     return fig, {"relative_shift": relative, "shift": absolute, "shift_unit": unit, "loss": loss}
 
 

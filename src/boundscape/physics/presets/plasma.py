@@ -123,7 +123,7 @@ class Plasma(CarrierScreening):
 
     @property
     def temperature_symbol(self) -> str:
-        return "T_e"
+        return "$T_e$"
 
     def condition_attributes(self):
         return {"strength": {"long_name": "nuclear charge Z of the hydrogen-like ion", "units": "1"},
