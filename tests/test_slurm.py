@@ -26,9 +26,10 @@ import yaml
 
 REPO = Path(__file__).resolve().parents[1]
 # Every SLURM job costs some 10 s of Snakemake start-up on the node, so the
-# demo's grid goes in a few large tiles (two for the 1152-cell demo): SLURM
-# still runs jobs side by side, and tile size does not change the cube.
-TILE_CELLS = 576
+# demo's grid goes in a few large tiles (three for the demo's 3 x 325 x 3 engine
+# cells, one per nuclear charge): SLURM still runs jobs side by side, and tile
+# size does not change the cube.
+TILE_CELLS = 1000
 # What a workflow run needs; results/ and .snakemake/ are left behind.
 WORKFLOW_PATHS = ("workflow", "config")
 RUN_TIMEOUT_S = 900

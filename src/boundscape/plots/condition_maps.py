@@ -154,7 +154,7 @@ def binding_curves(ds, l, preset=NO_PRESET):
     handles = [matplotlib.lines.Line2D([], [], color=colors[k], lw=1.3, marker="o", ms=2.5,
                                        label=state_label(int(ds["n"].sel(l=l, n_r=n_r)), int(l)))
                for k, n_r in enumerate(ds["n_r"].values)]
-    where = "λ_c" if view.lost_towards_small else "loss density"
+    where = "$\\lambda_c$" if view.lost_towards_small else "loss density"
     handles.append(matplotlib.lines.Line2D([], [], color="0.3", ls=":", label=f"state lost here ({where})"))
     if invalid is not None:
         handles.append(invalid)

@@ -123,7 +123,7 @@ def level_fan(ds, strengths=None, preset=NO_PRESET):
                 tidy_log_axis(right.yaxis, bottom * e_factor, top * e_factor)
     tidy_log_axis(axes[-1, 0].xaxis, x.min(), x.max())
     handles = [matplotlib.lines.Line2D([], [], color=c, lw=1.3, label=f"$n_r$ = {k}") for k, c in enumerate(colors)]
-    where = "λ_c" if view.lost_towards_small else "the loss density"
+    where = "$\\lambda_c$" if view.lost_towards_small else "the loss density"
     handles.append(matplotlib.lines.Line2D([], [], color="0.3", marker="^", ls=":", label=f"on to {where} (state lost)"))
     if invalid is not None:
         handles.append(invalid)

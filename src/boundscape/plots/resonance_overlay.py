@@ -43,8 +43,8 @@ def draw_resonance_bands(ax, window_ax, ds, l, z, z_text=lambda v: f"strength {v
         return {}, []
     first = {k: v for k, v in drawn.items() if v[0][0] == min(w[0][0] for w in drawn.values())}
     _window(window_ax, ds, l, first, z_text(float(next(iter(first.values()))[0][0])))
-    handles = [matplotlib.patches.Patch(color=BAND_COLOR, label="lives on as a resonance (Γ < E_r)"),
-               matplotlib.lines.Line2D([], [], color=LINE_COLOR, lw=1.0, label="dissolution line Γ = E_r")]
+    handles = [matplotlib.patches.Patch(color=BAND_COLOR, label="lives on as a resonance ($\\Gamma < E_r$)"),
+               matplotlib.lines.Line2D([], [], color=LINE_COLOR, lw=1.0, label="dissolution line $\\Gamma = E_r$")]
     return {k: v[:2] for k, v in drawn.items()}, handles
 
 
@@ -66,8 +66,8 @@ def _window(inset, ds, l, drawn, z_text):
     inset.set(ylim=(bottom, 1.0 + 0.5 * (1.0 - min(lows))), xlim=(-0.6, len(names) - 0.4))
     inset.set_xticks(x, names)
     inset.tick_params(labelsize=7.5)
-    inset.set_ylabel("λ / λ_c")
-    inset.set_title(f"where each state lives on as a resonance: λ_d < λ < λ_c ({z_text})", fontsize=8.5)
+    inset.set_ylabel("$\\lambda/\\lambda_c$")
+    inset.set_title(f"where each state lives on as a resonance: $\\lambda_d < \\lambda < \\lambda_c$ ({z_text})", fontsize=8.5)
     inset.text(0.99, 0.95, "bound above 1", transform=inset.transAxes, ha="right", va="top", fontsize=7.5)
-    inset.text(0.99, 0.05, "below the bars Γ > E_r: dissolved", transform=inset.transAxes, ha="right",
+    inset.text(0.99, 0.05, "below the bars $\\Gamma > E_r$: dissolved", transform=inset.transAxes, ha="right",
                va="bottom", fontsize=7.5)

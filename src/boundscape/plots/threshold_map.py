@@ -6,6 +6,7 @@ critical length."""
 
 from __future__ import annotations
 
+import matplotlib.lines
 import numpy as np
 from matplotlib.figure import Figure
 
@@ -67,9 +68,6 @@ def threshold_map(ds, l, preset=NO_PRESET):
     if (status != 0).any():
         bad = np.argwhere(status != 0)
         ax.plot(z[bad[:, 0]], lam[bad[:, 1]], "x", color="red", ms=5, label="solver flagged (see status)")
-    if (status != 0).any() or shaded is not None:
-        ax.legend(handles=ax.get_legend_handles_labels()[0] + ([shaded] if shaded else []), loc="lower left",
-                  fontsize=7)
     curves = {}
     if "critical_screening_length" in ds:
         critical = ds["critical_screening_length"].sel(l=l)
@@ -86,11 +84,17 @@ def threshold_map(ds, l, preset=NO_PRESET):
             if spot is not None:
                 ax.annotate(name, spot, ha="center", va="center", color="white", fontsize=7.5,
                             path_effects=HALO, annotation_clip=True)
+    extra = []
     if past:  # past each loss curve: where the state lives on as a resonance
         extra = draw_resonance_bands(ax, window_ax, ds, l, z, lambda v: f"{strength_label(ds, preset).split(' of ')[0]} = {v:.3g}")[1]
-        if extra:
-            ax.legend(handles=ax.get_legend_handles_labels()[0] + ([shaded] if shaded else []) + extra,
-                      loc="lower left", fontsize=7)
+    # A legend entry for every kind of line drawn.
+    handles = ax.get_legend_handles_labels()[0]
+    if curves:
+        handles.append(matplotlib.lines.Line2D([], [], color="white", lw=1.4, path_effects=HALO,
+                                               label="where each state is lost ($\\lambda_c$)"))
+    handles += ([shaded] if shaded else []) + extra
+    if handles:
+        ax.legend(handles=handles, loc="lower left", fontsize=7, facecolor="0.85")
     if infinite.all():
         ax.text(0.5, 0.5, "infinitely many bound states in every cell\n(Coulomb tail or confining potential)",
                 transform=ax.transAxes, ha="center", va="center", color="black")
