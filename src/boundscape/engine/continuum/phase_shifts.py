@@ -29,7 +29,8 @@ on (0, R], and φ(kR) in [m π, (m + 1)π), m the zeros of j_l on (0, kR]: δ_l 
 angle in (−π, π) from the two remainders), continuous in E, → 0 as E → ∞ (where the potential's
 share of the phase vanishes) and N_b π at 0⁺ (Sturm: the zero-energy solution has N_b nodes).
 δ is Richardson-extrapolated over the grids h, h/2, h/4 like a level, with the change against
-the two-grid extrapolation as its error; the grid is refined while an energy misses ``rtol``.
+the two-grid extrapolation as its error; the grid's step is halved while an energy misses
+``rtol`` (up to three times).
 
 A Coulomb tail would need the regular and irregular Coulomb functions F_l(η, kr), G_l(η, kr)
 in place of ĵ_l and ŷ_l (``mpmath.coulombf``/``coulombg``; DLMF 33.2), and phase shifts measured
@@ -46,11 +47,11 @@ import numpy as np
 from scipy.special import spherical_jn, spherical_yn
 
 from ...errors import InputError
-from ..bound.zero_energy import THETA_CRITICAL, count_bound
+from ..bound.zero_energy import count_bound
 from ..richardson import extrapolate
 from ..status import NOT_CONVERGED, OK
-from .regular import STRIDES, continuum_grid
-from .scattering import RTOL, THETA_FLOOR, check_scattering_input
+from .regular import REFINEMENTS, STRIDES, continuum_grid
+from .scattering import RTOL, check_scattering_input
 
 __all__ = ["PhaseShifts", "phase_shifts", "riccati_bessel", "riccati_phase", "MAX_ENERGIES"]
 
@@ -117,7 +118,9 @@ def _energies(energies) -> np.ndarray:
 
 
 def _at_energy(cg, energy, mass, l):
-    """δ_l at ``energy`` on the grids h, h/2, h/4 (module docstring)."""
+    """δ_l at ``energy`` on the grids h, h/2, h/4 (module docstring), each as (n, ε) with
+    δ = nπ + ε: ε = arctan(tan δ) keeps the digits of a small δ mod π that nπ + ε would round
+    away (σ_l depends on ε alone)."""
     k = math.sqrt(2.0 * mass * energy)
     R = cg.R
     _, _, yR, dyR = riccati_bessel(l, k * R)
@@ -131,8 +134,12 @@ def _at_energy(cg, energy, mass, l):
         sol = cg.solve(stride, energy)
         cos_part = sol.u_end * dyR - sol.du_end / k * yR
         sin_part = -(2.0 * mass / k) * float(np.sum(sol.weights * vj[::stride] * sol.u))
-        out.append((sol.nodes - m) * math.pi - rest + (rest + math.atan2(sin_part, cos_part)) % math.pi)
-    return out
+        delta = (sol.nodes - m) * math.pi - rest + (rest + math.atan2(sin_part, cos_part)) % math.pi
+        eps = math.atan(sin_part / cos_part) if cos_part != 0.0 else math.pi / 2
+        out.append((round((delta - eps) / math.pi), eps))
+    # on one branch: every grid's ε relative to the first grid's n (ε may cross ±π/2 between grids)
+    n = out[0][0]
+    return n, [eps + (nf - n) * math.pi for nf, eps in out]
 
 
 def phase_shifts(pot, l: int, energies, *, rtol: float = RTOL, num_bound: int | None = None) -> PhaseShifts:
@@ -147,8 +154,9 @@ def phase_shifts(pot, l: int, energies, *, rtol: float = RTOL, num_bound: int | 
     energies : array_like
         Energies E > 0 in hartree (at most :data:`MAX_ENERGIES`).
     rtol : float
-        Tolerance on δ_l relative to |δ_l| (and at least 1e-13 rad); the grid is refined while
-        an energy misses it, and its status is ``not_converged`` if it still does.
+        Tolerance on δ_l relative to |δ_l| (and at least 1e-13 rad); the grid's step is halved
+        while an energy misses it (up to 3 times), and its status is ``not_converged`` if it
+        still does.
     num_bound : int, optional
         The exact count of bound states of this l, if known; default :func:`boundscape.count_bound`.
 
@@ -175,32 +183,34 @@ def phase_shifts(pot, l: int, energies, *, rtol: float = RTOL, num_bound: int | 
     if not (isinstance(rtol, (int, float)) and rtol > 0):
         raise InputError(f"rtol must be a positive number, got {rtol!r}")
     mass = float(pot.mass)
-    theta = THETA_CRITICAL
+    turns = np.zeros(e.size)  # δ = turns·π + best
     best = np.full(e.size, math.nan)
     error = np.full(e.size, math.inf)
     todo = np.arange(e.size)
-    while todo.size:
+    for refine in REFINEMENTS:
         try:
-            cg = continuum_grid(pot, l, float(e[todo].max()), theta)
+            cg = continuum_grid(pot, l, float(e[todo].max()), refine=refine)
         except ValueError as exc:
-            if theta == THETA_CRITICAL:
+            if refine == 1:
                 raise InputError(f"energy {e.max():g} hartree is too high for this potential: {exc}; the phase shift "
                                  "there is its Born value, below this grid's reach") from None
             break  # a finer grid is too large: keep what the coarser one gave
         for i in todo:
-            value, change = extrapolate(_at_energy(cg, float(e[i]), mass, l))
-            best[i], error[i] = value, max(abs(change), ROUNDOFF * max(abs(value), 1.0))
-        todo = todo[error[todo] > np.maximum(rtol * np.abs(best[todo]), ATOL)]
-        if theta * 0.6 < THETA_FLOOR:
+            n, eps = _at_energy(cg, float(e[i]), mass, l)
+            value, change = extrapolate(eps)
+            turns[i], best[i] = n, value
+            error[i] = max(abs(change), ROUNDOFF * max(abs(value + n * math.pi), 1e-300))
+        todo = todo[error[todo] > np.maximum(rtol * np.abs(best[todo] + turns[todo] * np.pi), ATOL)]
+        if not todo.size:
             break
-        theta *= 0.6
     k = np.sqrt(2.0 * mass * e)
     weight = 4.0 * math.pi * (2 * l + 1) / (k * k)
     sigma = weight * np.sin(best) ** 2
     sigma_error = weight * np.abs(np.sin(2.0 * best)) * error
-    failed = ~(error <= np.maximum(rtol * np.abs(best), ATOL))
+    delta = turns * np.pi + best
+    failed = ~(error <= np.maximum(rtol * np.abs(delta), ATOL))
     reason = [f"error estimate {err:.2e} rad exceeds rtol {rtol:g}·|δ|" if bad else "" for err, bad in zip(error, failed)]
     if num_bound is None:
         num_bound = count_bound(pot, l)
-    return PhaseShifts(l, e, k, best, error, sigma, sigma_error, int(num_bound),
+    return PhaseShifts(l, e, k, delta, error, sigma, sigma_error, int(num_bound),
                        np.where(failed, NOT_CONVERGED, OK).astype(np.int8), reason)

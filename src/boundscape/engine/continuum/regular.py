@@ -32,17 +32,19 @@ from numba import njit
 
 from .. import jitcache
 from ..bound.design import SAMPLES, GridArrays, arrays_for, design, samples
-from ..bound.mapping import H_MAX, REFINE, THETA, MappedGrid, origin_radius
+from ..bound.mapping import H_MAX, REFINE, MappedGrid, origin_radius
 from ..bound.numerov import A1, f8, i8
-from ..bound.zero_energy import zero_energy_problem
+from ..bound.zero_energy import THETA_CRITICAL, zero_energy_problem
 
 _saved_cache_dir = jitcache.enter()  # this module's kernel is cached by jitcache's rule
 
 __all__ = ["regular_solution", "ContinuumGrid", "RegularSolution", "zero_energy_grid", "continuum_grid",
-           "MAX_STEPS", "STRIDES"]
+           "MAX_STEPS", "STRIDES", "REFINEMENTS"]
 
 # Grids h, h/2, h/4 are every 4th, 2nd and every node of the finest arrays (FACTORS 1, 2, 4).
 STRIDES = (REFINE, REFINE // 2, REFINE // 4)
+# Where an error estimate misses its tolerance the designed grid's step is divided by these in turn.
+REFINEMENTS = (1, 2, 4, 8)
 # A coarse grid of more steps than this is refused: 4× that many nodes in five rows (~16 MB).
 MAX_STEPS = 50_000
 
@@ -137,14 +139,17 @@ def _with_potential(pot, l, grid):
     return ContinuumGrid(pot, l, grid, arrays, np.asarray(pot(arrays.r[: n_fine + 1]), dtype=float))
 
 
-def zero_energy_grid(pot, l: int, theta: float = THETA) -> ContinuumGrid:
-    """The engine's zero-energy grid (:func:`..bound.zero_energy.zero_energy_problem`) at ``theta``."""
-    return _with_potential(pot, l, zero_energy_problem(pot, l, theta=theta).grid)
+def zero_energy_grid(pot, l: int, theta: float = THETA_CRITICAL, refine: int = 1) -> ContinuumGrid:
+    """The engine's zero-energy grid (:func:`..bound.zero_energy.zero_energy_problem`) designed at
+    ``theta``, its step divided by ``refine`` (the design's step is capped at H_MAX, so only
+    this refines a grid where nothing oscillates, e.g. a weak potential)."""
+    return _with_potential(pot, l, zero_energy_problem(pot, l, theta=theta).grid.refined(refine))
 
 
-def continuum_grid(pot, l: int, energy: float, theta: float = THETA) -> ContinuumGrid:
+def continuum_grid(pot, l: int, energy: float, theta: float = THETA_CRITICAL, refine: int = 1) -> ContinuumGrid:
     """A grid out to the potential's range that resolves the regular solution at energies up to
-    ``energy`` (hartree, ≥ 0) at ``theta`` radians of local phase per coarse step.
+    ``energy`` (hartree, ≥ 0) at ``theta`` radians of local phase per coarse step, its step
+    divided by ``refine``.
 
     Raises ``ValueError`` if that takes more than :data:`MAX_STEPS` coarse steps."""
     R = float(pot.support)
@@ -153,8 +158,8 @@ def continuum_grid(pot, l: int, energy: float, theta: float = THETA) -> Continuu
     # an upper bound on the steps first (the linear stretch alone needs k·R/θ), so that an
     # absurd energy is refused before anything of that size is built
     k = math.sqrt(2.0 * pot.mass * max(energy, 0.0))
-    if k * R / theta > MAX_STEPS:
-        raise ValueError(f"the grid would need more than {k * R / theta:.3g} steps (limit {MAX_STEPS})")
+    if k * R * refine / theta > MAX_STEPS:
+        raise ValueError(f"the grid would need more than {k * R * refine / theta:.3g} steps (limit {MAX_STEPS})")
     beta, c, tc, t0, t1, n = design(rs, veff, float(pot.mass), int(l), float(energy), r_min, R,
                                     0.1 * pot.length_scale, float(theta), H_MAX)
-    return _with_potential(pot, l, MappedGrid(r_min, R, beta, c, tc, t0, t1, int(n)))
+    return _with_potential(pot, l, MappedGrid(r_min, R, beta, c, tc, t0, t1, int(n) * refine))

@@ -30,8 +30,8 @@ f = 2μVu and v − u = ∫_r^R (r − r′) f(r′) dr′ (l = 0), ∫(v² − 
 − ∫ (v − u)² dr, which never subtracts u from v where both are large and equal.  What is extrapolated over the grids h, h/2, h/4 is
 the angle θ = arctan(a_l^{2l+1}/L^{2l+1}) (L the potential's length scale), smooth through
 both a threshold (a = ±∞) and a = 0, and r_e; the error estimate is the change against the
-two-grid extrapolation, as for levels.  The grid is refined (θ-step × 0.6) while an estimate
-misses the tolerance.
+two-grid extrapolation, as for levels.  The grid's step is halved (up to three times) while
+an estimate misses the tolerance.
 """
 
 from __future__ import annotations
@@ -43,10 +43,10 @@ import numpy as np
 
 from ...checks import quantum_number
 from ...errors import InputError
-from ..bound.zero_energy import THETA_CRITICAL, count_bound
+from ..bound.zero_energy import count_bound
 from ..richardson import extrapolate
 from ..status import NOT_CONVERGED, OK
-from .regular import STRIDES, zero_energy_grid
+from .regular import REFINEMENTS, STRIDES, zero_energy_grid
 
 __all__ = ["Scattering", "scattering", "double_factorials", "reference_length", "check_scattering_input", "MAX_L",
            "RTOL"]
@@ -54,7 +54,6 @@ __all__ = ["Scattering", "scattering", "double_factorials", "reference_length", 
 MAX_L = 50  # past this the centrifugal barrier leaves nothing to compute: δ_l ~ (kR)^{2l+1}
 RTOL = 1e-9  # on the angle θ (rad) and on r_e relative to max(|r_e|, L)
 ROUNDOFF = 1e-14  # floor of an error estimate, relative
-THETA_FLOOR = 0.03  # the finest grid design tried (rad of local phase per coarse step)
 
 
 @dataclass
@@ -136,8 +135,8 @@ def _angles(parts, l, L):
     return thetas
 
 
-def _solve(pot, l, L, theta):
-    parts = _grid_parts(zero_energy_grid(pot, l, theta), l, float(pot.mass))
+def _solve(pot, l, L, refine):
+    parts = _grid_parts(zero_energy_grid(pot, l, refine=refine), l, float(pot.mass))
     angle, angle_error = extrapolate(_angles(parts, l, L))
     r_e = r_e_error = math.nan
     if l == 0:
@@ -156,8 +155,8 @@ def scattering(pot, l: int = 0, *, rtol: float = RTOL, num_bound: int | None = N
         Angular momentum, 0 ≤ l ≤ :data:`MAX_L`.
     rtol : float
         Tolerance on the angle arctan(a_l^{2l+1}/L^{2l+1}) (rad; L the screening length or
-        radius) and on r_e relative to max(|r_e|, L); the grid is refined while an estimate
-        misses it, and the status is ``not_converged`` if it still does.
+        radius) and on r_e relative to max(|r_e|, L); the grid's step is halved while an
+        estimate misses it (up to 3 times), and the status is ``not_converged`` if it still does.
     num_bound : int, optional
         The exact count of bound states of this l if known (``bound_levels(...).num_bound``);
         default :func:`boundscape.count_bound`.
@@ -184,15 +183,15 @@ def scattering(pot, l: int = 0, *, rtol: float = RTOL, num_bound: int | None = N
     if not (isinstance(rtol, (int, float)) and rtol > 0):
         raise InputError(f"rtol must be a positive number, got {rtol!r}")
     L = reference_length(pot)
-    theta = THETA_CRITICAL
-    while True:
-        angle, angle_error, r_e, r_e_error = _solve(pot, l, L, theta)
+    for refine in REFINEMENTS:
+        try:
+            angle, angle_error, r_e, r_e_error = _solve(pot, l, L, refine)
+        except ValueError:  # finer than MAX_STEPS: keep what the last grid gave
+            break
         angle_error = max(angle_error, ROUNDOFF * max(abs(angle), 1.0))
         r_e_error = max(r_e_error, ROUNDOFF * abs(r_e))
-        ok = angle_error <= rtol and (l > 0 or r_e_error <= rtol * max(abs(r_e), L))
-        if ok or theta * 0.6 < THETA_FLOOR:
+        if angle_error <= rtol and (l > 0 or r_e_error <= rtol * max(abs(r_e), L)):
             break
-        theta *= 0.6
     # a_l^{2l+1} = L^{2l+1} tan θ; a_l its real root, and the errors carried through
     p = 2 * l + 1
     t = math.tan(angle)
