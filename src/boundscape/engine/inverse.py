@@ -253,10 +253,6 @@ def _fit_length(prob, n_r, target, rtol):
     p = 2 * l + 1
     k = n_r + 1 if n_r is not None else (0 if target < 0 else 1)
     theta_t = math.atan(math.copysign(abs(target / L) ** p, target))
-    if k == 0 and target >= 0:
-        raise OutOfReach("scattering_length", target, (-math.inf, 0.0), f"with no bound state of l = {l}",
-                         "name a state to fit on the branch where it is the shallowest bound one")
-
     def g(s):
         return _angle(scattering(prob.pot(s), l, rtol=rtol), L) - theta_t
 
