@@ -53,11 +53,20 @@ from ..status import NOT_CONVERGED, OK
 from .regular import REFINEMENTS, STRIDES, continuum_grid
 from .scattering import RTOL, check_scattering_input
 
-__all__ = ["PhaseShifts", "phase_shifts", "riccati_bessel", "riccati_phase", "MAX_ENERGIES"]
+__all__ = ["PhaseShifts", "phase_shifts", "EnergyTooHigh", "riccati_bessel", "riccati_phase", "MAX_ENERGIES"]
 
 MAX_ENERGIES = 10_000  # energies per call
 ATOL = 1e-13  # rad: the floor under rtol·|δ| where δ passes through zero
 ROUNDOFF = 1e-14
+
+
+class EnergyTooHigh(InputError):
+    """An energy above what a grid of :data:`.regular.MAX_STEPS` steps resolves for this
+    potential; ``energy`` is it, in hartree (a caller may say it in its own unit)."""
+
+    def __init__(self, energy: float, why: str):
+        self.energy, self.why = energy, why
+        super().__init__(f"energy {energy:g} hartree is too high for this potential: {why}")
 
 
 @dataclass
@@ -192,8 +201,7 @@ def phase_shifts(pot, l: int, energies, *, rtol: float = RTOL, num_bound: int | 
             cg = continuum_grid(pot, l, float(e[todo].max()), refine=refine)
         except ValueError as exc:
             if refine == 1:
-                raise InputError(f"energy {e.max():g} hartree is too high for this potential: {exc}; the phase shift "
-                                 "there is its Born value, below this grid's reach") from None
+                raise EnergyTooHigh(float(e.max()), f"{exc}; the phase shift there is close to its Born value") from None
             break  # a finer grid is too large: keep what the coarser one gave
         for i in todo:
             n, eps = _at_energy(cg, float(e[i]), mass, l)
