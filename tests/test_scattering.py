@@ -111,8 +111,9 @@ def test_square_well_phase_shifts_match_bessel(l, V0, R):
     assert np.all(np.abs(mod_pi(ps.phase_shift - exact)) <= 10 * ps.phase_shift_error + 1e-13)
     k = np.sqrt(2 * energies)
     assert np.allclose(ps.momentum, k, rtol=1e-15)
-    # σ_l = 4π(2l+1) sin²δ/k² (a definition: checked, not re-derived)
-    assert np.allclose(ps.cross_section, 4 * np.pi * (2 * l + 1) * np.sin(exact) ** 2 / k**2, rtol=1e-9, atol=0)
+    # σ_l = 4π(2l+1) sin²δ/k² (a definition: checked, not re-derived); rtol 1e-9 on δ mod π
+    # leaves at most 2e-9 on σ
+    assert np.allclose(ps.cross_section, 4 * np.pi * (2 * l + 1) * np.sin(exact) ** 2 / k**2, rtol=3e-9, atol=0)
 
 
 # ---------------------------------------------------------------------------------------------

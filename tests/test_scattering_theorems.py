@@ -95,3 +95,23 @@ def test_wigner_threshold_law(family, strength, lam, l):
     assert deviation[1] < deviation[0] / 50 and deviation[2] < deviation[1] / 50  # O(k²)
     slopes = np.diff(np.log(np.abs(rest))) / np.diff(np.log(ks))
     assert slopes == pytest.approx([2 * l + 1] * 2, abs=1e-3)
+
+
+@pytest.mark.parametrize("family, strength, lam, l, slope_tol, cross_tol", [
+    ("square_well", 10.0, 1.0, 2, 1e-3, 0.02),  # Γ/E_r ≈ 0.01
+    ("yukawa", 1.0, 4.535, 1, 1e-2, 0.1),  # Γ/E_r ≈ 0.11, just past λ_c(2p) = 4.54098
+])
+def test_breit_wigner_at_a_resonance_of_resonances(family, strength, lam, l, slope_tol, cross_tol):
+    # near a narrow resonance δ_l ≈ δ_bg + arctan[(Γ/2)/(E_r − E)] (Breit & Wigner, Phys. Rev. 49,
+    # 519 (1936)): δ rises through π/2 (mod π) within O(Γ) of E_r, with dδ/dE = 2/Γ there — E_r and
+    # Γ from bs.resonances (the S-matrix pole, a separate calculation on complex paths)
+    pot = bs.potential(family, strength, lam)
+    n_b = bs.count_bound(pot, l)
+    res = bs.resonances(pot, l, n_r_max=n_b + 1)
+    e_r, width = res.energy[-1], res.width[-1]
+    assert res.kind == "resonance" and res.status[-1] == 0 and width < 0.2 * e_r
+    e = e_r + width * np.array([-1e-3, 0.0, 1e-3])
+    delta = bs.phase_shifts(pot, l, e).phase_shift
+    slope = (delta[2] - delta[0]) / (e[2] - e[0])
+    assert slope * width / 2 == pytest.approx(1.0, abs=slope_tol)
+    assert abs(delta[1] - n_b * np.pi - np.pi / 2) < cross_tol * np.pi

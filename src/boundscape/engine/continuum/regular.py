@@ -3,12 +3,13 @@ scattering lengths (:mod:`.scattering`) and phase shifts (:mod:`.phase_shifts`) 
 
 Grid.  The map, Liouville form and Numerov arrays of :mod:`..bound` (:func:`..bound.design.design`,
 :func:`..bound.design.arrays_for`), from r_min (:func:`..bound.mapping.origin_radius`: the
-Dirichlet end there moves nothing by more than 1e-14) to the end R of the potential's range
-(``pot.support``: V is zero beyond it, or below e⁻⁵⁰ of its scale), where the exterior solution
-is known in closed form.  At E = 0 it is the grid of the engine's own zero-energy problem
-(:func:`..bound.zero_energy.zero_energy_problem`), so that a scattering length passes through
-infinity where the engine's counts change; above threshold the grid is designed to resolve
-the largest momentum asked for.  Where V jumps at R (the square well) R is a node, and the
+Dirichlet end there moves nothing by more than 1e-14) to a radius R beyond which the potential
+may be left out and the exterior solution is known in closed form.  At E = 0 it is the grid of
+the engine's own zero-energy problem (:func:`..bound.zero_energy.zero_energy_problem`, out to
+``pot.support``, where V is zero or below e⁻⁵⁰ of its scale), so that a scattering length
+passes through infinity where the engine's counts change.  Above threshold the grid resolves
+the largest momentum asked for and ends where the tail left out moves the phase by less than
+1e-13 rad (:func:`cut_radius`): at high momentum far inside the support.  Where V jumps at R (the square well) R is a node, and the
 ghost node past it carries V's interior formula, as the bound-state solver's does.
 
 Solution.  Numerov's recurrence from w_0 = 0 outwards, in the summed (difference) form of
@@ -32,21 +33,26 @@ from numba import njit
 
 from .. import jitcache
 from ..bound.design import SAMPLES, GridArrays, arrays_for, design, samples
-from ..bound.mapping import H_MAX, REFINE, MappedGrid, origin_radius
+from ..bound.mapping import H_MAX, REFINE, THETA, MappedGrid, origin_radius
 from ..bound.numerov import A1, f8, i8
 from ..bound.zero_energy import THETA_CRITICAL, zero_energy_problem
+from .outgoing import exterior_cut, is_compact
 
 _saved_cache_dir = jitcache.enter()  # this module's kernel is cached by jitcache's rule
 
-__all__ = ["regular_solution", "ContinuumGrid", "RegularSolution", "zero_energy_grid", "continuum_grid",
-           "MAX_STEPS", "STRIDES", "REFINEMENTS"]
+__all__ = ["regular_solution", "ContinuumGrid", "RegularSolution", "zero_energy_grid", "continuum_grid", "cut_radius",
+           "MAX_STEPS", "STRIDES", "REFINEMENTS", "TAIL_TOLERANCE"]
 
 # Grids h, h/2, h/4 are every 4th, 2nd and every node of the finest arrays (FACTORS 1, 2, 4).
 STRIDES = (REFINE, REFINE // 2, REFINE // 4)
 # Where an error estimate misses its tolerance the designed grid's step is divided by these in turn.
 REFINEMENTS = (1, 2, 4, 8)
-# A coarse grid of more steps than this is refused: 4× that many nodes in five rows (~16 MB).
-MAX_STEPS = 50_000
+# A coarse grid of more steps than this is refused: 4× that many nodes in five rows (~32 MB).
+MAX_STEPS = 100_000
+# Above threshold the grid ends where the tail left out moves δ by less than this (rad, first
+# order), checked on this many log-spaced samples of V.
+TAIL_TOLERANCE = 1e-13
+SAMPLES_TAIL = 400
 
 
 @njit([(A1, A1, i8, i8, f8, f8,)], cache=True)
@@ -146,20 +152,36 @@ def zero_energy_grid(pot, l: int, theta: float = THETA_CRITICAL, refine: int = 1
     return _with_potential(pot, l, zero_energy_problem(pot, l, theta=theta).grid.refined(refine))
 
 
-def continuum_grid(pot, l: int, energy: float, theta: float = THETA_CRITICAL, refine: int = 1) -> ContinuumGrid:
-    """A grid out to the potential's range that resolves the regular solution at energies up to
-    ``energy`` (hartree, ≥ 0) at ``theta`` radians of local phase per coarse step, its step
-    divided by ``refine``.
+def cut_radius(pot, k: float, tolerance: float = TAIL_TOLERANCE) -> float:
+    """Where the potential may be left out at momentum k: the end of a compact support, else the
+    first radius past which the tail changes the phase by less than ``tolerance`` (rad) in first
+    order, (2μ/k)∫_R^∞|V| dr (or 2μ∫_R^∞|V| r dr where kr < 1: :func:`.outgoing.exterior_cut`);
+    never beyond ``pot.support``."""
+    R = float(pot.support)
+    if is_compact(pot) or k <= 0.0:
+        return R
+    t = np.geomspace(origin_radius(pot, 0), R, SAMPLES_TAIL)
+    j = exterior_cut(np.abs(pot(t)), t, t, float(pot.mass), complex(k), 0.0, tolerance=tolerance)[0]
+    return R if j is None else float(t[j])
+
+
+def continuum_grid(pot, l: int, energy: float, lowest: float | None = None, theta: float = THETA,
+                   refine: int = 1) -> ContinuumGrid:
+    """A grid that resolves the regular solution at energies up to ``energy`` (hartree, > 0) at
+    ``theta`` radians of local phase per coarse step (the bound-state solver's design; it
+    meets 1e-10 on the square well's exact δ_l up to E = 100 V0), its step divided by ``refine``, out to
+    where the potential may be left out at the ``lowest`` energy of its batch (default
+    ``energy``; :func:`cut_radius`).
 
     Raises ``ValueError`` if that takes more than :data:`MAX_STEPS` coarse steps."""
-    R = float(pot.support)
-    r_min = origin_radius(pot, l)
-    rs, veff, _, _ = samples(pot.info.kernel, *pot.kernel_inputs, float(pot.mass), int(l), r_min, R, SAMPLES)
+    k = math.sqrt(2.0 * pot.mass * max(energy, 0.0))
+    R = cut_radius(pot, math.sqrt(2.0 * pot.mass * max(energy if lowest is None else lowest, 0.0)))
     # an upper bound on the steps first (the linear stretch alone needs k·R/θ), so that an
     # absurd energy is refused before anything of that size is built
-    k = math.sqrt(2.0 * pot.mass * max(energy, 0.0))
     if k * R * refine / theta > MAX_STEPS:
         raise ValueError(f"the grid would need more than {k * R * refine / theta:.3g} steps (limit {MAX_STEPS})")
+    r_min = origin_radius(pot, l)
+    rs, veff, _, _ = samples(pot.info.kernel, *pot.kernel_inputs, float(pot.mass), int(l), r_min, R, SAMPLES)
     beta, c, tc, t0, t1, n = design(rs, veff, float(pot.mass), int(l), float(energy), r_min, R,
                                     0.1 * pot.length_scale, float(theta), H_MAX)
     return _with_potential(pot, l, MappedGrid(r_min, R, beta, c, tc, t0, t1, int(n) * refine))
