@@ -133,6 +133,7 @@ def run(args) -> int:
     except OutOfReach as exc:
         unit, scale = (e_unit, ef) if exc.observable == "energy" else (r_unit, rf)
         where = None if exc.parameter_value is None else f"{key} = {exc.parameter_value * factor:.6g}"
+        exc.where = exc.where.replace(f"varying {name}", f"varying {args.vary}")  # as the command line names it
         raise InputError(exc.describe(unit, scale, where)) from None
 
     def number(x, f, digits=13):
