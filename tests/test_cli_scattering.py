@@ -144,7 +144,7 @@ def test_fit_a_screening_length_and_a_scattering_length(capsys):
      "--energies must be numbers"),
     (["scattering", "--family", "yukawa", "--strength", "1", "--screening-length", "2", "--energies", "-1"],
      "--energies must be positive"),
-    (["scattering", *NUCLEAR, "--coupling", "70", "--energies", "1e12"], "1e+12 MeV is too high"),
+    (["scattering", *NUCLEAR, "--coupling", "70", "--energies", "1e12"], "1e+12 MeV needs too fine a grid"),
     (["fit", "--family", "yukawa", "--screening-length", "2", "--vary", "coupling", "--state", "1s", "--energy",
       "-0.1"], "--vary coupling does not apply without a preset"),
     (["fit", *NUCLEAR, "--coupling", "70", "--vary", "coupling", "--state", "1s", "--energy", "-2"],

@@ -289,8 +289,17 @@ def test_bad_input_is_one_line():
                        (lambda: bs.scattering(pot, -1), "l must be"),
                        (lambda: bs.phase_shifts(pot, 0, [0.1, -2.0]), "-2"),
                        (lambda: bs.phase_shifts(pot, 0, []), "non-empty"),
-                       (lambda: bs.phase_shifts(pot, 0, [1e9]), "too high"),
+                       (lambda: bs.phase_shifts(pot, 0, [1e9]), "too fine a grid"),
                        (lambda: bs.phase_shifts(bs.potential("harmonic", 1.0), 0, [1.0]), "confining tail")]:
         with pytest.raises(bs.InputError) as err:
             call()
         assert word in str(err.value) and "\n" not in str(err.value)
+
+
+def test_a_problem_too_large_is_refused_quickly():
+    # a Yukawa that binds ~10⁴ s states: its zero-energy solution oscillates too often for the
+    # grid's size limit; refused in one line, before anything of that size is built
+    with pytest.raises(bs.InputError, match="too large a problem"):
+        bs.scattering(bs.potential("yukawa", 1e4, 1e3), 0)
+    with pytest.raises(bs.InputError, match="too fine a grid"):
+        bs.phase_shifts(bs.potential("yukawa", 1e4, 1e3), 0, [1.0])

@@ -98,7 +98,7 @@ def run(args) -> int:
             try:
                 ps = phase_shifts(pot, l, energies, num_bound=sc.num_bound)
             except EnergyTooHigh as exc:
-                raise InputError(f"--energies: {exc.energy * ef:g} {e_unit} is too high for this potential: "
+                raise InputError(f"--energies: {exc.energy * ef:g} {e_unit} needs too fine a grid for this potential: "
                                  f"{exc.why}") from None
             for i, (text, _) in enumerate(given):
                 row["phase_shifts"].append({

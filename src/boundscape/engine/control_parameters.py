@@ -125,16 +125,16 @@ class Axis:
         return self.param.make(self.value(s))
 
     def threshold(self, n_r: int) -> float:
-        if self.param.threshold is not None:
-            t = float(self.param.threshold(self.l, n_r))
-        else:
-            t = self.value(self._counted_threshold(n_r))
-        if not self.inc:
-            t = math.inf if t == 0.0 else (0.0 if math.isinf(t) else 1.0 / t)
-        return t
+        """s at which state (n_r, l) is bound at E = 0 (``math.inf`` if never)."""
+        if self.param.threshold is None:
+            return self._counted_threshold(n_r)
+        t = float(self.param.threshold(self.l, n_r))
+        if self.inc:
+            return t
+        return math.inf if t == 0.0 else (0.0 if math.isinf(t) else 1.0 / t)
 
     def _counted_threshold(self, n_r: int) -> float:
-        # generic: bracket on the exact count, then the zero of 1/a between (s as value here)
+        # generic, in s: bracket on the exact count, then the zero of 1/a between
         start = self.param.start if self.inc else 1.0 / self.param.start
 
         def bound(s):
@@ -144,6 +144,8 @@ class Axis:
         for _ in range(SEARCH_DOUBLINGS):
             if bound(hi):
                 break
+            if wkb_states(self.pot(2.0 * hi), self.l) > MAX_WKB_STATES:
+                return math.inf  # not bound before the potential binds thousands of other states
             lo, hi = hi, 2.0 * hi
         else:
             return math.inf

@@ -253,6 +253,7 @@ def _fit_length(prob, n_r, target, rtol):
     p = 2 * l + 1
     k = n_r + 1 if n_r is not None else (0 if target < 0 else 1)
     theta_t = math.atan(math.copysign(abs(target / L) ** p, target))
+
     def g(s):
         return _angle(scattering(prob.pot(s), l, rtol=rtol), L) - theta_t
 

@@ -64,12 +64,12 @@ ROUNDOFF = 1e-14  # floor of an error estimate, relative to δ mod π
 
 
 class EnergyTooHigh(InputError):
-    """An energy above what a grid of :data:`.regular.MAX_STEPS` steps resolves for this
-    potential; ``energy`` is it, in hartree (a caller may say it in its own unit)."""
+    """An energy whose solution a grid of :data:`.regular.MAX_STEPS` steps does not resolve for
+    this potential; ``energy`` is it, in hartree (a caller may say it in its own unit)."""
 
     def __init__(self, energy: float, why: str):
         self.energy, self.why = energy, why
-        super().__init__(f"energy {energy:g} hartree is too high for this potential: {why}")
+        super().__init__(f"energy {energy:g} hartree needs too fine a grid for this potential: {why}")
 
 
 @dataclass
@@ -208,7 +208,8 @@ def phase_shifts(pot, l: int, energies, *, rtol: float = RTOL, num_bound: int | 
     ------
     InputError
         For a Coulomb or confining tail, l out of range, energies that are not positive, too
-        many, or so high that the grid would exceed its size limit (the message says which).
+        many, or so high (or a potential so deep) that the grid would exceed its size limit (the
+        message says which).
     """
     l = check_scattering_input(pot, l, "a phase shift")
     e = _energies(energies)
@@ -225,8 +226,7 @@ def phase_shifts(pot, l: int, energies, *, rtol: float = RTOL, num_bound: int | 
                 cg = continuum_grid(pot, l, float(e[batch].max()), float(e[batch].min()), refine=refine)
             except ValueError as exc:
                 if refine == 1:
-                    raise EnergyTooHigh(float(e[batch].max()), f"{exc}; the phase shift there is close to its Born "
-                                        "value") from None
+                    raise EnergyTooHigh(float(e[batch].max()), str(exc)) from None
                 continue  # a finer grid is too large: keep what the coarser one gave
             for i in batch:
                 n, eps = _at_energy(cg, float(e[i]), mass, l)

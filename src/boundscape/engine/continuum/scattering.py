@@ -186,7 +186,10 @@ def scattering(pot, l: int = 0, *, rtol: float = RTOL, num_bound: int | None = N
     for refine in REFINEMENTS:
         try:
             angle, angle_error, r_e, r_e_error = _solve(pot, l, L, refine)
-        except ValueError:  # finer than MAX_STEPS: keep what the last grid gave
+        except ValueError as exc:  # finer than MAX_STEPS: keep what the last grid gave
+            if refine == REFINEMENTS[0]:
+                raise InputError(f"{pot} is too large a problem for l = {l}: {exc} (its zero-energy solution has "
+                                 "that many oscillations)") from None
             break
         angle_error = max(angle_error, ROUNDOFF * max(abs(angle), 1.0))
         r_e_error = max(r_e_error, ROUNDOFF * abs(r_e))
