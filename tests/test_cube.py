@@ -73,7 +73,9 @@ def test_round_trip_keeps_values_dims_and_dtypes(small_cube):
         assert ds.critical_screening_length.dims == ("strength", "l", "n_r")
         assert ds.num_bound.dims == ("strength", "screening_length", "l")
         assert ds.energy.dtype == np.float64 and ds.l.dtype == np.int32 and ds.n_r.dtype == np.int32
-        assert ds.num_bound.dtype == np.int32 and ds.status.dtype == np.int8
+        # num_bound is int32 on disk; its _FillValue (unknown counts) makes xarray decode it to float64.
+        assert ds.num_bound.encoding["dtype"] == np.int32 and ds.status.dtype == np.int8
+        np.testing.assert_array_equal(ds.num_bound.values, built.num_bound.values)
         np.testing.assert_array_equal(ds.energy.values, built.energy.values)
         np.testing.assert_array_equal(ds.n.values, ds.l.values[:, None] + ds.n_r.values[None, :] + 1)
         assert np.isinf(ds.critical_screening_length.values[0, 0, 0])
@@ -184,3 +186,19 @@ def test_open_missing_cube_is_one_line(tmp_path):
 
     with pytest.raises(InputError, match="does not exist"):
         cube.open_cube(tmp_path / "none.nc")
+
+
+def test_one_listing_and_one_flag_attrs_serve_every_flag_variable():
+    # CF-1.10 section 3.5: flag_values and flag_meanings, one meaning per value, in order.
+    assert model.listing([]) == "none"
+    assert model.listing(["a", "b"]) == "a\nb"
+    long = model.listing([f"cell {i}" for i in range(model.MAX_LISTED + 5)]).splitlines()
+    assert len(long) == model.MAX_LISTED + 1 and long[-1].startswith("... and 5 more")
+    attrs = model.flag_attrs(("ok", "bad", "worse"))
+    assert attrs["flag_meanings"] == "ok bad worse"
+    assert attrs["flag_values"].dtype == np.int8 and list(attrs["flag_values"]) == [0, 1, 2]
+    # No module of the cube writes flag attributes or listings by hand any more.
+    for path in Path(model.__file__).parent.glob("*.py"):
+        text = path.read_text()
+        if path.name != "model.py":
+            assert '"flag_values":' not in text and "MAX_LISTED" not in text, path.name

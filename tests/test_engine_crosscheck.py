@@ -125,3 +125,48 @@ def test_shooter_reproduces_hydrogen_in_the_yukawa_limit():
     reference, nodes = Shooter("yukawa", 1.0, lam, 1.0, 0).level(-0.5 + 1.0 / lam, window=1e-5)
     assert nodes == 0
     assert abs(reference - (-0.5 + 1.0 / lam - 0.75 / lam**2)) <= 1e-11
+
+
+# ---------------------------------------------------------------------------------------------
+# A table whose V'' jumps at its last point: the ion-sphere profile of a nucleus of charge Z in a
+# uniform neutralising cloud of radius R, V = −Z/r + Z(3 − r²/R²)/(2R) for r < R and 0 beyond
+# (V and V' vanish at R, V'' does not).  The reference matches a DOP853 integration of the
+# interior, started from the origin's series u = r^{l+1}(1 − Z r/(l+1) + …), to the exterior
+# √r K_{l+½}(κr) (scipy.special.kve; A&S 10.2) at R, root-found with brentq.
+
+ION_Z, ION_R = 2.0, 6.0
+
+
+def ion_sphere(r):
+    return np.where(r < ION_R, -ION_Z / r + ION_Z * (3.0 - r * r / ION_R**2) / (2.0 * ION_R), 0.0)
+
+
+def ion_sphere_mismatch(E, l):
+    from scipy.special import kve
+
+    r0 = 1e-7
+    u0 = r0 ** (l + 1) * (1.0 - ION_Z * r0 / (l + 1))
+    du0 = (l + 1) * r0**l * (1.0 - (l + 2) * ION_Z * r0 / (l + 1) ** 2)
+    sol = solve_ivp(lambda r, y: [y[1], (l * (l + 1) / r**2 + 2.0 * (float(ion_sphere(r)) - E)) * y[0]],
+                    (r0, ION_R), [u0, du0], method="DOP853", rtol=RTOL, atol=1e-300)
+    kappa, nu = math.sqrt(-2.0 * E), l + 0.5
+    z = kappa * ION_R
+    outside = 0.5 / ION_R - kappa * (kve(nu - 1.0, z) / kve(nu, z) + nu / z)
+    return sol.y[1, -1] - outside * sol.y[0, -1]
+
+
+def test_a_table_whose_second_derivative_jumps_at_its_end():
+    r = np.geomspace(1e-6, ION_R, 2000)
+    pot = bs.potential("tabulated", 1.0, table=(r, ion_sphere(r)))
+    checked = 0
+    for l in (0, 1):
+        res = bs.bound_levels(pot, l)
+        for e, err in zip(res.energy, res.energy_error):
+            exact = brentq(ion_sphere_mismatch, e * (1 + 1e-6), e * (1 - 1e-6), args=(l,), xtol=1e-300, rtol=1e-15)
+            # within the promised 1e-9, and inside the engine's own error estimate (before the
+            # solver continued the table's last cubic past its end, the shallow levels were
+            # 2e-9 and 6e-9 off with estimates 8x too small)
+            assert abs(e / exact - 1) <= 1e-9, (l, e, exact)
+            assert abs(e - exact) <= err, (l, e, exact, err)
+            checked += 1
+    assert checked == 3  # 1s, 2s, 2p are bound

@@ -9,8 +9,24 @@ from snakemake.exceptions import WorkflowError
 from snakemake.utils import validate
 
 from boundscape.physics import presets as _presets
+from boundscape.cube.netcdf import unwritable
 from boundscape.errors import InputError
 from boundscape.sweep import SCHEMA_PATH, plan, schema_error
+from boundscape.sweep.config import read_config_files
+from boundscape.sweep.limits import check_limits
+from boundscape.sweep.plan import CRITICAL_FILE, TILE_FILE
+
+# Snakemake read the config files with its own YAML loader, which keeps the last of a key given
+# twice and reads 1e308 as a string: read them again as boundscape does. Then a sweep over a
+# limit (cells, levels per l, l) stops here, before anything is built.
+try:
+    _config = read_config_files(workflow.configfiles, workflow.overwrite_configfiles,
+                                workflow.config_settings.config)
+    check_limits(_config)
+except InputError as exc:
+    sys.exit(f"boundscape: {exc}")
+config.clear()
+config.update(_config)
 
 # Before any job: unknown keys, wrong types and impossible values, each naming the key and
 # the value. The package's check runs first: Snakemake's own quotes the whole schema, and on
@@ -34,6 +50,8 @@ RESULTS = f"results/{PLAN.sweep}"
 FIGURES = f"{RESULTS}/figures"
 TILES = {tile.name: tile for tile in PLAN.tiles}
 CRITICAL_BLOCKS = {block.name: block for block in PLAN.critical_blocks}
+TILE_PATHS = PLAN.tile_paths(RESULTS)  # as the rules' {TILE_FILE} names them; faster than expand()
+CRITICAL_PATHS = PLAN.critical_paths(RESULTS)
 HAS_CONDITION_MAP = PRESET.has_condition_map
 # (stem, caption, report category, subcategory) of each figure: a PNG in the report, a PDF beside it.
 FIGURE_LIST = [(f"threshold_map_l{l}", "threshold_map.rst", "Threshold maps", f"l = {l}") for l in PLAN.l]
@@ -68,14 +86,16 @@ RESONANCES = bool(PLAN.engine.get("resonances"))
 TRAJECTORIES = f"{RESULTS}/resonance_trajectories.json"
 
 
-def engine_inputs(wildcards):
-    """A tabulated potential's table is an input, so editing the table reruns the tiles; with
-    resonances on, the poles' trajectories (computed once, rules/resonances.smk) are one too."""
-    return ([PLAN.engine["table"]] if "table" in PLAN.engine else []) + ([TRAJECTORIES] if RESONANCES else [])
+# A tabulated potential's table is an input, so editing the table reruns the tiles; with
+# resonances on, the poles' trajectories (computed once, rules/resonances.smk) are one too.
+ENGINE_INPUTS = ([PLAN.engine["table"]] if "table" in PLAN.engine else []) + ([TRAJECTORIES] if RESONANCES else [])
+TRAJECTORY_OPTION = f"--trajectories {TRAJECTORIES}" if RESONANCES else ""
 
 
-def trajectory_option(wildcards):
-    return f"--trajectories {TRAJECTORIES}" if RESONANCES else ""
+def check_writable():
+    """Before the first job (onstart): a results folder that cannot be written is one line."""
+    if (problem := unwritable(RESULTS)) is not None:
+        sys.exit(f"boundscape: {problem}")
 
 
 def print_summary():

@@ -17,21 +17,24 @@ rule engine_kernels:
         "python -m boundscape.engine.warmup > {output:q} 2> {log:q}"
 
 
+# Tiles and critical blocks are named by index, four digits or more (boundscape.sweep.plan).
+# Inputs that are the same for every job are constants, not functions: Snakemake calls and
+# inspects a function once per job, which a 20,000-tile sweep pays for in planning time.
 rule solve_tile:
     input:
-        engine_inputs,
+        ENGINE_INPUTS,
         kernels=f"{RESULTS}/engine_kernels.txt",
     output:
-        f"{RESULTS}/tiles/tile_{{tile}}.nc",
+        f"{RESULTS}/{TILE_FILE}",
     params:
         spec=tile_spec,
-        trajectories=trajectory_option,
+        trajectories=TRAJECTORY_OPTION,
     log:
         f"{RESULTS}/logs/solve_tile_{{tile}}.log",
     benchmark:
         f"{RESULTS}/benchmarks/solve_tile_{{tile}}.tsv"
     wildcard_constraints:
-        tile=r"\d{4}",
+        tile=r"\d\d\d\d+",
     threads: 1
     resources:
         mem_mb=1000,
@@ -44,19 +47,19 @@ rule solve_tile:
 
 rule criticals:
     input:
-        engine_inputs,
+        ENGINE_INPUTS,
         kernels=f"{RESULTS}/engine_kernels.txt",
     output:
-        f"{RESULTS}/criticals/criticals_{{block}}.nc",
+        f"{RESULTS}/{CRITICAL_FILE}",
     params:
         spec=critical_spec,
-        trajectories=trajectory_option,
+        trajectories=TRAJECTORY_OPTION,
     log:
         f"{RESULTS}/logs/criticals_{{block}}.log",
     benchmark:
         f"{RESULTS}/benchmarks/criticals_{{block}}.tsv"
     wildcard_constraints:
-        block=r"\d{4}",
+        block=r"\d\d\d\d+",
     threads: 1
     resources:
         mem_mb=1000,

@@ -18,10 +18,10 @@ from ..errors import InputError
 from ..physics.presets import from_config
 from ..sweep.config import config_text
 from ..sweep.plan import plan as make_plan
-from ..sweep.tiles import CRITICAL_FLAGS
+from ..sweep.tiles import CRITICAL_FLAGS, UNKNOWN_COUNT
 from ..version import VERSION
 from .lines import add_lines, fill_lines
-from .model import LEVEL_VARS, build_cube
+from .model import LEVEL_VARS, NUM_BOUND_UNKNOWN, build_cube
 from .netcdf import open_for_filling, read_part, read_part_variables, write_cube
 from .physical import add_physical_coordinates
 from .resonances import RESONANCE_VARS, add_resonances
@@ -50,7 +50,8 @@ def _read_checked(path, expected_spec, names=None):
             attrs = {name: nc.getncattr(name) for name in nc.ncattrs()}
         arrays = read_part_variables(path, names)
     if json.loads(attrs["spec_json"]) != expected_spec:
-        raise InputError(f"{path} was computed for other cells or settings than the plan's; rerun the workflow")
+        raise InputError(f"{path} was computed for other cells or settings than the plan's (a copy of another "
+                         "part?); delete it and rerun the workflow, which solves it again")
     return arrays, attrs
 
 
@@ -100,7 +101,7 @@ def collect(config: dict, tile_paths, critical_paths, output, summary=None) -> s
     shape = (plan.strength.size, plan.screening_length.size, plan.l.size)
     placeholder = np.broadcast_to(np.float64(np.nan), shape + (plan.n_r_max,))
     levels = {name: placeholder for name in LEVEL_VARS}
-    levels["num_bound"] = np.zeros(shape, np.int32)
+    levels["num_bound"] = np.full(shape, UNKNOWN_COUNT, np.int32)
     levels["status"] = np.zeros(shape, np.int8)
     levels["reasons"] = []
     past = bool(plan.engine.get("resonances"))  # the states past threshold (cube/resonances.py)
@@ -123,6 +124,10 @@ def collect(config: dict, tile_paths, critical_paths, output, summary=None) -> s
             past_levels["reasons"] += [
                 f"strength={tile.strength[i]!r} screening_length={tile.screening_length[j]!r} l={int(plan.l[k])} "
                 f"n_r={n_r}: {text}" for i, j, k, n_r, text in json.loads(attrs["resonance_reasons_json"])]
+
+    # A flagged cell keeps its count when the count was found (some level short of tolerance);
+    # where the solve failed or the input was rejected the tile says the count is unknown.
+    levels["num_bound"][levels["num_bound"] == UNKNOWN_COUNT] = NUM_BOUND_UNKNOWN
 
     crit_shape = (plan.strength.size, plan.l.size, plan.n_r_max)
     criticals = {"critical_screening_length": np.full(crit_shape, np.nan),

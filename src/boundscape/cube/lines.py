@@ -14,7 +14,7 @@ import numpy as np
 
 from ..physics.units import HARTREE_EV, HARTREE_J, HARTREE_UDUNITS
 from ..sweep.line_tiles import LINE_FLAGS, LINE_VARS
-from .model import MAX_LISTED
+from .model import flag_attrs, listing
 from .netcdf import read_part_variables
 
 __all__ = ["LINE_DIMS", "add_lines", "fill_lines"]
@@ -64,16 +64,13 @@ def add_lines(ds, plan, tile_paths):
             listed = json.loads(nc.getncattr("line_reasons_json"))
         reasons += [f"strength={tile.strength[i]!r} screening_length={tile.screening_length[j]!r} "
                     f"line={labels[m]}: {text}" for i, j, m, text in listed]
-    if len(reasons) > MAX_LISTED:
-        reasons = reasons[:MAX_LISTED] + [f"... and {len(reasons) - MAX_LISTED} more (see the tile logs)"]
     placeholder = np.broadcast_to(np.float64(np.nan), shape)
     attrs = _attributes()
     data = {name: (LINE_DIMS, placeholder, attrs[name]) for name in LINE_VARS}
     data["line_status"] = (LINE_DIMS, status, {
-        "long_name": "status of the line in the cell", "flag_values": np.arange(len(LINE_FLAGS), dtype=np.int8),
-        "flag_meanings": " ".join(LINE_FLAGS),
+        "long_name": "status of the line in the cell", **flag_attrs(LINE_FLAGS),
         "comment": "absent: a level of the line is not bound in this cell",
-        "flagged_lines": "\n".join(reasons) or "none"})
+        "flagged_lines": listing(reasons)})
     coords = {
         "line": ("line", np.arange(len(labels), dtype=np.int32),
                  {"long_name": "index of the E1 line", "units": "1"}),

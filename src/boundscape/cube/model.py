@@ -18,7 +18,8 @@ from ..labels import FAMILY_NAMES
 from ..physics.units import BOHR_M, BOHR_UDUNITS, HARTREE_EV, HARTREE_J, HARTREE_UDUNITS, udunits_scaled
 from ..sweep.tiles import CRITICAL_FLAGS
 
-__all__ = ["build_cube", "chunk_shape", "CELL_DIMS", "LEVEL_DIMS", "CRITICAL_DIMS", "LEVEL_VARS"]
+__all__ = ["build_cube", "chunk_shape", "listing", "flag_attrs", "CELL_DIMS", "LEVEL_DIMS", "CRITICAL_DIMS",
+           "LEVEL_VARS", "MAX_LISTED", "NUM_BOUND_UNKNOWN", "FILL_VALUES"]
 
 CELL_DIMS = ("strength", "screening_length", "l")
 LEVEL_DIMS = CELL_DIMS + ("n_r",)
@@ -27,7 +28,12 @@ LEVEL_VARS = ("energy", "energy_error", "mean_radius")  # per level, along LEVEL
 # Chunks of about 1 MiB: small enough to read one slice lazily, big enough for zlib to pay
 # (common practice, no source).
 CHUNK_BYTES = 1 << 20
-MAX_LISTED = 2000  # flagged cells listed in an attribute; the tile logs hold the rest
+MAX_LISTED = 2000  # flagged cells or states listed in an attribute; the job logs hold the rest
+# num_bound where the count is unknown (the cell's input rejected, or its solve failed): NetCDF's
+# default int fill value, so that -1 keeps the engine's meaning "infinitely many". Readers that
+# apply CF masking (xarray.open_dataset) see NaN there.
+NUM_BOUND_UNKNOWN = np.int32(-2147483647)
+FILL_VALUES = {"num_bound": NUM_BOUND_UNKNOWN}  # _FillValue of the integer variables that have one
 
 
 def _strength_units(family: str) -> tuple[str, str]:
@@ -48,10 +54,19 @@ def chunk_shape(shape, itemsize, target=CHUNK_BYTES):
     return tuple(max(1, c) for c in chunks)
 
 
-def _listing(lines):
+def listing(lines) -> str:
+    """One attribute's text listing flagged cells or states, one per line: at most
+    :data:`MAX_LISTED` of them (the job logs hold the rest), ``"none"`` if there are none."""
+    lines = list(lines)
     if len(lines) > MAX_LISTED:
         lines = lines[:MAX_LISTED] + [f"... and {len(lines) - MAX_LISTED} more (see the tile logs)"]
-    return "\n".join(lines)
+    return "\n".join(lines) or "none"
+
+
+def flag_attrs(flags) -> dict:
+    """CF ``flag_values`` and ``flag_meanings`` of a flag variable whose codes are the positions
+    in ``flags`` (a tuple of names), stored as int8."""
+    return {"flag_values": np.arange(len(flags), dtype=np.int8), "flag_meanings": " ".join(flags)}
 
 
 def build_cube(axes, levels, criticals, *, provenance):
@@ -63,8 +78,9 @@ def build_cube(axes, levels, criticals, *, provenance):
         ``strength``, ``screening_length`` (bohr), ``l`` and ``n_r_max``.
     levels : dict
         ``energy``, ``energy_error``, ``mean_radius`` (strength, screening_length, l, n_r);
-        ``num_bound``, ``status`` (strength, screening_length, l); ``reasons``, a list of one-line
-        texts naming each flagged cell.
+        ``num_bound`` (:data:`NUM_BOUND_UNKNOWN` where the count is unknown), ``status``
+        (strength, screening_length, l); ``reasons``, a list of one-line texts naming each
+        flagged cell.
     criticals : dict
         ``critical_screening_length`` and ``critical_flag`` (strength, l, n_r), ``reasons``.
     provenance : dict
@@ -110,16 +126,17 @@ def build_cube(axes, levels, criticals, *, provenance):
         "mean_radius": (LEVEL_DIMS, levels["mean_radius"], {
             "long_name": "mean radius <r>", **length_attrs, "bohr_in_m": BOHR_M}),
         "num_bound": (CELL_DIMS, levels["num_bound"].astype(np.int32), {
-            "long_name": "number of bound states of this l", "units": "1",
-            "comment": "exact count from the nodes of the zero-energy solution; levels with "
-                       f"n_r >= {axes['n_r_max']} are counted but not stored; -1 means infinitely "
-                       "many (a Coulomb tail or a confining potential)"}),
+            "long_name": "number of bound states of this l", "units": "1", "ancillary_variables": "status",
+            "comment": "exact count from the nodes of the zero-energy solution, also where some level of the "
+                       f"cell did not converge; levels with n_r >= {axes['n_r_max']} are counted but not "
+                       "stored; -1 means infinitely many (a Coulomb tail or a confining potential); "
+                       f"_FillValue ({int(NUM_BOUND_UNKNOWN)}) where the count is unknown: the cell's input "
+                       "was rejected or its solve failed (see status)"}),
         "status": (CELL_DIMS, status, {
             "long_name": "solver status of the cell",
-            "flag_values": np.arange(len(LEVEL_STATUS), dtype=np.int8),
-            "flag_meanings": " ".join(LEVEL_STATUS),
+            **flag_attrs(LEVEL_STATUS),
             "flagged_cell_count": np.int32(flagged),
-            "flagged_cells": _listing(levels["reasons"]) or "none"}),
+            "flagged_cells": listing(levels["reasons"])}),
         "critical_screening_length": (CRITICAL_DIMS, criticals["critical_screening_length"], {
             "long_name": "critical screening length",
             **length_attrs, "ancillary_variables": "critical_screening_length_flag",
@@ -128,10 +145,9 @@ def build_cube(axes, levels, criticals, *, provenance):
                        "the grid's screening_length range"}),
         "critical_screening_length_flag": (CRITICAL_DIMS, criticals["critical_flag"].astype(np.int8), {
             "long_name": "position of the critical screening length against the grid",
-            "flag_values": np.arange(len(CRITICAL_FLAGS), dtype=np.int8),
-            "flag_meanings": " ".join(CRITICAL_FLAGS),
+            **flag_attrs(CRITICAL_FLAGS),
             "comment": "below_grid: bound over the whole grid; above_grid: not bound anywhere on it",
-            "flagged_states": _listing(criticals["reasons"]) or "none"}),
+            "flagged_states": listing(criticals["reasons"])}),
     }
     now = datetime.now(timezone.utc).replace(microsecond=0).isoformat()
     config = yaml.safe_load(provenance.get("config_yaml") or "") or {}

@@ -1,21 +1,24 @@
 """NetCDF files of a sweep: the cube and the parts (tiles, critical blocks) it is merged from.
 
 Every file is written to a temporary name in the same directory and renamed into place, so a
-killed job never leaves a partial file under a final name.
+killed job never leaves a partial file under a final name. A part that is damaged later (a file
+truncated, or copied over another) is found by :func:`part_problem`, and a results folder that
+cannot be written by :func:`unwritable`.
 """
 
 from __future__ import annotations
 
+import json
 import os
 from pathlib import Path
 
 import numpy as np
 
 from ..errors import InputError
-from .model import chunk_shape
+from .model import FILL_VALUES, chunk_shape
 
 __all__ = ["write_cube", "open_cube", "atomic_path", "replace_atomically", "write_part", "read_part",
-           "read_part_variables", "open_for_filling"]
+           "read_part_variables", "open_for_filling", "part_problem", "unwritable"]
 
 
 def atomic_path(path) -> Path:
@@ -34,6 +37,8 @@ def replace_atomically(write, path):
     try:
         write(temp)
         os.replace(temp, path)
+    except PermissionError as exc:  # name the file the user knows, not the temporary one
+        raise PermissionError(exc.errno, exc.strerror, str(path)) from None
     finally:
         temp.unlink(missing_ok=True)
 
@@ -51,6 +56,8 @@ def write_cube(ds, path, fill=None):
                        chunksizes=chunk_shape(var.shape, var.dtype.itemsize))
             if var.dtype.kind == "f":
                 enc["_FillValue"] = np.nan
+            elif name in FILL_VALUES:
+                enc["_FillValue"] = FILL_VALUES[name]
         encoding[name] = enc
     def write(temp):
         ds.to_netcdf(temp, engine="netcdf4", format="NETCDF4", encoding=encoding)
@@ -95,7 +102,8 @@ def write_part(path, arrays: dict, dims: dict, attrs: dict):
                 for dim, size in zip(dims[name], array.shape):
                     if dim not in nc.dimensions:
                         nc.createDimension(dim, size)
-                var = nc.createVariable(name, array.dtype, dims[name], zlib=True, complevel=1)
+                # Fletcher-32 checksums: a damaged chunk fails to read instead of reading wrong numbers.
+                var = nc.createVariable(name, array.dtype, dims[name], zlib=True, complevel=1, fletcher32=True)
                 var[...] = array
             nc.setncatts(attrs)
 
@@ -129,3 +137,44 @@ def open_for_filling(path):
     nc = netCDF4.Dataset(path, "a")
     nc.set_auto_mask(False)
     return nc
+
+
+def part_problem(path, expected_spec: dict) -> str | None:
+    """Why the part at ``path`` cannot be merged as the plan's part ``expected_spec``, or None.
+
+    Every variable is read in full (its checksums verified), and the spec the part was
+    computed for must be the plan's: a truncated or damaged file, and a part copied over
+    another, are each named here rather than failing later in collect.
+    """
+    import netCDF4
+
+    path = Path(path)
+    if not path.is_file():
+        return "missing"
+    try:
+        with netCDF4.Dataset(path) as nc:
+            nc.set_auto_mask(False)
+            stored = json.loads(nc.getncattr("spec_json"))
+            for var in nc.variables.values():
+                var[...]
+    except (OSError, RuntimeError, KeyError, AttributeError, ValueError, IndexError) as exc:
+        return f"does not read back ({type(exc).__name__}: {str(exc).splitlines()[0] if str(exc) else 'damaged'})"
+    if stored != expected_spec:
+        return "was computed for other cells or settings than the plan's (a copy of another part?)"
+    return None
+
+
+def unwritable(directory) -> str | None:
+    """One line naming the first folder of ``directory`` (itself, its nearest existing parent,
+    or a folder directly inside it) that this process cannot write, or None."""
+    path = Path(directory)
+    existing = path
+    while not existing.exists() and existing != existing.parent:
+        existing = existing.parent
+    folders = [existing]
+    if path.is_dir():
+        folders += sorted(p for p in path.iterdir() if p.is_dir())
+    for folder in folders:
+        if not os.access(folder, os.W_OK | os.X_OK):
+            return f"results folder {str(folder)!r} is not writable; make it writable (or run in another directory)"
+    return None

@@ -12,7 +12,7 @@ import numpy as np
 
 from ..physics.units import BOHR_M, BOHR_UDUNITS, HARTREE_EV, HARTREE_J, HARTREE_UDUNITS, udunits_scaled
 from ..sweep.resonance_tiles import DISSOLUTION_FLAGS, NOT_SOLVED, RESONANCE_FLAGS, RESONANCE_VARS
-from .model import CRITICAL_DIMS, LEVEL_DIMS
+from .model import CRITICAL_DIMS, LEVEL_DIMS, flag_attrs, listing
 
 __all__ = ["RESONANCE_VARS", "ENERGY_VARS", "LENGTH_VARS", "INVERSE_LENGTH_VARS", "placeholders",
            "add_resonances", "inverse_length_attrs"]
@@ -20,7 +20,6 @@ __all__ = ["RESONANCE_VARS", "ENERGY_VARS", "LENGTH_VARS", "INVERSE_LENGTH_VARS"
 ENERGY_VARS = ("resonance_energy", "resonance_width")
 LENGTH_VARS = ("dissolution_screening_length",)
 INVERSE_LENGTH_VARS = ("virtual_state_kappa",)
-MAX_LISTED = 2000  # states listed in an attribute; the tile logs hold the rest
 
 
 def inverse_length_attrs(length_m: float) -> dict:
@@ -33,12 +32,6 @@ def placeholders(shape) -> dict:
     out = {name: np.broadcast_to(np.float64(np.nan), shape) for name in RESONANCE_VARS[:-1]}
     out["resonance_status"] = np.broadcast_to(np.int8(NOT_SOLVED), shape)
     return out
-
-
-def _listing(lines):
-    if len(lines) > MAX_LISTED:
-        lines = lines[:MAX_LISTED] + [f"... and {len(lines) - MAX_LISTED} more (see the tile logs)"]
-    return "\n".join(lines) or "none"
 
 
 def add_resonances(ds, levels: dict, dissolution: dict):
@@ -77,12 +70,11 @@ def add_resonances(ds, levels: dict, dissolution: dict):
                        "NaN for l >= 1, where the state is bound, and where it is not found"}),
         "resonance_status": (LEVEL_DIMS, status, {
             "long_name": "status of the state past its threshold",
-            "flag_values": np.arange(len(RESONANCE_FLAGS), dtype=np.int8),
-            "flag_meanings": " ".join(RESONANCE_FLAGS),
+            **flag_attrs(RESONANCE_FLAGS),
             "comment": "ok: found, Gamma <= E_r; dissolved: Gamma > E_r (values given) or the pole out of reach "
                        "(NaN); not_converged: error estimate above tolerance (NaN); bound: a bound state (see "
                        "energy); not_solved: the cell's bound states were not solved (see status)",
-            "flagged_states": _listing(levels["reasons"])}),
+            "flagged_states": listing(levels["reasons"])}),
         "dissolution_screening_length": (CRITICAL_DIMS, dissolution["dissolution_screening_length"], {
             "long_name": "dissolution screening length", **length,
             "ancillary_variables": "dissolution_screening_length_flag",
@@ -91,12 +83,11 @@ def add_resonances(ds, levels: dict, dissolution: dict):
                        "resonance narrower than its energy; NaN where there is none (see the flag)"}),
         "dissolution_screening_length_flag": (CRITICAL_DIMS, dissolution["dissolution_flag"].astype(np.int8), {
             "long_name": "why a dissolution screening length is or is not given",
-            "flag_values": np.arange(len(DISSOLUTION_FLAGS), dtype=np.int8),
-            "flag_meanings": " ".join(DISSOLUTION_FLAGS),
+            **flag_attrs(DISSOLUTION_FLAGS),
             "comment": "out_of_reach: the pole leaves the solver's reach (or the state is never bound) before "
                        "Gamma reaches E_r; virtual_state: l = 0; not_applicable: computed for one-scale families "
                        "only",
-            "flagged_states": _listing(dissolution["reasons"])}),
+            "flagged_states": listing(dissolution["reasons"])}),
     }
     out = ds.assign(variables)
     out.attrs["source"] = out.attrs.get("source", "").rstrip(")") + ", resonances, dissolution_screening_length)"

@@ -9,7 +9,7 @@ __all__ = ["LEVEL_STATUS", "OK", "NOT_CONVERGED", "INPUT_REJECTED", "RESONANCE_S
 LEVEL_STATUS = ("ok", "not_converged", "input_rejected")
 OK, NOT_CONVERGED, INPUT_REJECTED = range(len(LEVEL_STATUS))
 
-# A state past its threshold (:mod:`.resonances`): ok and not_converged keep their codes;
+# A state past its threshold (:mod:`.continuum.lost_states`): ok and not_converged keep their codes;
 # dissolved means Γ > E_r or the pole is out of reach (the reason says which).
 RESONANCE_STATUS = ("ok", "not_converged", "dissolved")
 DISSOLVED = RESONANCE_STATUS.index("dissolved")

@@ -9,6 +9,8 @@ from __future__ import annotations
 import hashlib
 import json
 import math
+import re
+from collections.abc import Mapping
 from importlib import resources
 from pathlib import Path
 
@@ -18,10 +20,11 @@ import yaml
 from ..engine import FAMILIES, ParameterError, potential
 from ..errors import InputError
 from ..physics.presets import PRESETS, from_config
+from .limits import check_limits
 from .lines import check_lines
 
-__all__ = ["SCHEMA_PATH", "load_config", "schema_error", "validate_config", "config_text", "axis_values",
-           "DEFAULT_CELLS_PER_TILE"]
+__all__ = ["SCHEMA_PATH", "load_config", "load_yaml", "read_config_files", "config_file_error", "schema_error", "validate_config",
+           "config_text", "axis_values", "DEFAULT_CELLS_PER_TILE"]
 
 SCHEMA_PATH = Path(str(resources.files(__package__).joinpath("schema.yaml")))
 
@@ -146,17 +149,126 @@ def _sweep_mass(mass, section: dict, preset) -> float:
     return preset.sweep_mass(mass, section)
 
 
-def load_config(path) -> dict:
-    """Read and validate a YAML configuration file."""
+class _DuplicateKey(yaml.YAMLError):
+    def __init__(self, key, first, line):
+        super().__init__(f"line {line}: key {key!r} given twice (first on line {first}); keep one")
+
+
+class _SweepLoader(yaml.SafeLoader):
+    """YAML as a sweep is read: a key given twice in one mapping is an error (PyYAML keeps the
+    last silently), and ``1e308`` is a number (YAML 1.1 wants a dot and a signed exponent,
+    ``1.0e+308``, and reads the rest as strings; YAML 1.2 reads both as numbers)."""
+
+    def construct_mapping(self, node, deep=False):
+        if isinstance(node, yaml.MappingNode):
+            seen = {}
+            for key_node, _ in node.value:
+                if key_node.tag == "tag:yaml.org,2002:merge":  # "<<: *base": overriding merged keys is the point
+                    continue
+                key = self.construct_object(key_node, deep=True)
+                try:
+                    first = seen.setdefault(key, key_node.start_mark.line)
+                except TypeError:  # an unhashable key: the base class reports it
+                    continue
+                if first != key_node.start_mark.line:
+                    raise _DuplicateKey(key, first + 1, key_node.start_mark.line + 1)
+        return super().construct_mapping(node, deep=deep)
+
+
+# The YAML 1.2 core schema's floats (https://yaml.org/spec/1.2.2/#1022-tag-resolution), which
+# include 1e308 and 1E-5 that YAML 1.1's pattern misses; added after the 1.1 resolvers, so it
+# only decides what they leave a string.
+_SweepLoader.add_implicit_resolver(
+    "tag:yaml.org,2002:float",
+    re.compile(r"^[-+]?(?:\.[0-9]+|[0-9]+(?:\.[0-9]*)?)(?:[eE][-+]?[0-9]+)?$"),
+    list("-+0123456789."))
+
+
+def _text_of(path: Path, what: str) -> str:
+    """The file's text, which must be UTF-8 (as Snakemake reads configs): else one line saying so."""
+    data = path.read_bytes()
+    if data.startswith((b"\xff\xfe", b"\xfe\xff")) or b"\x00" in data:
+        raise InputError(f"{what} {path}: UTF-16 or UTF-32 text; save it as UTF-8")
+    try:
+        return data.decode("utf-8-sig")
+    except UnicodeDecodeError as exc:
+        line = data[:exc.start].count(b"\n") + 1
+        raise InputError(f"{what} {path}, line {line}: not UTF-8 text (byte 0x{data[exc.start]:02x}, perhaps "
+                         "Latin-1); save it as UTF-8") from None
+
+
+def load_yaml(path, what: str = "configuration file"):
+    """Read a YAML (or JSON) file as a sweep's configuration is read.
+
+    Duplicate keys are refused, numbers such as ``1e308`` are numbers, and a file that is not
+    UTF-8 (Latin-1, UTF-16) is one line naming it; every error is an :class:`InputError` that
+    names ``what`` and the file.
+    """
     path = Path(path)
     if not path.is_file():
-        raise InputError(f"configuration file {str(path)!r} does not exist")
+        raise InputError(f"{what} {str(path)!r} does not exist")
+    text = _text_of(path, what)
     try:
-        config = yaml.safe_load(path.read_text())
+        return yaml.load(text, Loader=_SweepLoader)  # noqa: S506 (a SafeLoader subclass)
+    except _DuplicateKey as exc:
+        raise InputError(f"{what} {path}, {exc}") from None
     except yaml.YAMLError as exc:
-        raise InputError(f"configuration file {path}: not valid YAML ({str(exc).splitlines()[0]})") from None
+        raise InputError(f"{what} {path}: not valid YAML ({str(exc).splitlines()[0]})") from None
+
+
+def config_file_error(path) -> str | None:
+    """Why the configuration file ``path`` cannot be read (:func:`load_yaml`), or None."""
+    try:
+        load_yaml(path)
+    except InputError as exc:
+        return str(exc)
+    return None
+
+
+def read_config_files(workflow_files, command_line_files=(), overrides=None) -> dict:
+    """The configuration Snakemake assembles, read again through :func:`load_yaml`.
+
+    Snakemake loads the config itself, keeping the last of a duplicated key and reading
+    ``1e308`` as a string; the workflow reads the same files again with this. The order is
+    Snakemake's: the Snakefile's ``configfile:`` files, then each ``--configfile`` (each
+    updating the former recursively), then the ``--config`` key=value ``overrides``.
+    """
+    command_line = [Path(f).resolve() for f in command_line_files]
+    files = [f for f in workflow_files if Path(f).resolve() not in command_line] + list(command_line_files)
+    config: dict = {}
+    for path in files:
+        loaded = load_yaml(path)
+        if not isinstance(loaded, dict):
+            raise InputError(f"configuration file {path}: expected a mapping of keys")
+        _update(config, loaded)
+    _update(config, dict(overrides or {}))
+    return config
+
+
+def _update(config: dict, other) -> None:
+    # Snakemake's update_config: mappings merge key by key, anything else replaces.
+    for key, value in other.items():
+        if isinstance(value, Mapping) and isinstance(config.get(key), dict):
+            _update(config[key], value)
+        else:
+            config[key] = _plain(value)
+
+
+def _plain(value):
+    if isinstance(value, Mapping):
+        return {key: _plain(item) for key, item in value.items()}
+    if isinstance(value, (list, tuple)):
+        return [_plain(item) for item in value]
+    return value
+
+
+def load_config(path) -> dict:
+    """Read and validate a YAML configuration file (see :func:`load_yaml`); a sweep over a
+    limit (:mod:`.limits`) is refused before any axis is built."""
+    config = load_yaml(path)
     if not isinstance(config, dict):
         raise InputError(f"configuration file {path}: expected a mapping of keys")
+    check_limits(config)
     return validate_config(config)
 
 

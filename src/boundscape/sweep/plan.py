@@ -5,6 +5,10 @@ No physics here: this module only cuts the grid strength × screening_length × 
 critical lengths. A tile is described by the values it covers (not by indices), so a tile's
 description changes exactly when the cells it computes change; the workflow passes it as the
 job's params.
+
+Tiles are named by their index, zero-padded to four digits (``0042``; ``12345`` past 9999), and
+their files by :data:`TILE_FILE` and :data:`CRITICAL_FILE` under the sweep's results folder:
+one home for the names the workflow's rules and the collect step both use.
 """
 
 from __future__ import annotations
@@ -14,12 +18,18 @@ from dataclasses import dataclass
 import numpy as np
 
 from ..engine import FAMILIES
+from ..errors import InputError
 from ..physics.presets import from_config
 from ..version import VERSION
 from .config import axis_values, validate_config
+from .limits import check_limits, max_tiles
 from .lines import label_of, line_pairs
 
-__all__ = ["Plan", "Tile", "plan"]
+__all__ = ["Plan", "Tile", "plan", "tile_layout", "TILE_FILE", "CRITICAL_FILE"]
+
+# The parts' files under results/<sweep>/ ({tile}, {block}: a tile's or block's name).
+TILE_FILE = "tiles/tile_{tile}.nc"
+CRITICAL_FILE = "criticals/criticals_{block}.nc"
 
 # A critical length costs a root search over zero-energy solutions, taken here as about one
 # cell's levels (a planning weight for non-one-scale families, not a measured figure).
@@ -38,6 +48,7 @@ class Tile:
 
     @property
     def name(self) -> str:
+        """The index, at least four digits: ``0042``, ``12345``."""
         return f"{self.index:04d}"
 
 
@@ -69,6 +80,14 @@ class Plan:
             spec["lines"] = list(self.lines)
         return spec
 
+    def tile_paths(self, results) -> list[str]:
+        """The tiles' files under the results folder ``results``, in the plan's order."""
+        return [f"{results}/{TILE_FILE.format(tile=tile.name)}" for tile in self.tiles]
+
+    def critical_paths(self, results) -> list[str]:
+        """The critical blocks' files under ``results``, in the plan's order."""
+        return [f"{results}/{CRITICAL_FILE.format(block=block.name)}" for block in self.critical_blocks]
+
     def critical_spec(self, block: Tile) -> dict:
         spec = self.tile_spec(block)
         # Critical lengths do not depend on the λ grid; only its ends decide the flags in collect.
@@ -81,6 +100,25 @@ def _blocks(size: int, block: int) -> list[tuple[int, int]]:
     return [(start, min(start + block, size)) for start in range(0, size, block)]
 
 
+def tile_layout(num_strength: int, num_length: int, num_l: int, cells: int) -> tuple[int, int]:
+    """``(strength_block, deal)``: consecutive strengths per tile, and how many tiles a λ row is
+    dealt out over when it does not fit in one."""
+    per_strength = num_length * num_l
+    strength_block = max(1, cells // per_strength)
+    deal = -(-num_length // max(1, cells // num_l)) if cells < per_strength else 1
+    return strength_block, deal
+
+
+def _cells_for(max_tiles: int, *sizes) -> int:
+    """A tile size whose plan has at most ``max_tiles`` tiles (for the advice in an error)."""
+    cells = -(-sizes[0] * sizes[1] * sizes[2] // max_tiles)
+    while True:
+        strength_block, deal = tile_layout(*sizes, cells)
+        if -(-sizes[0] // strength_block) * deal <= max_tiles:
+            return cells
+        cells += -(-cells // 8)
+
+
 def plan(config: dict) -> Plan:
     """Cut a validated configuration into tiles of about ``tiles.cells`` cells.
 
@@ -88,7 +126,11 @@ def plan(config: dict) -> Plan:
     when they fit, so that adding strengths adds tiles without touching the existing ones.
     A row too long for one tile is dealt out: tile r of R takes λ indices r, r+R, r+2R, ...,
     because the cost of a cell grows with λ (more levels) and tiles should cost alike.
+
+    A sweep over a limit (:mod:`.limits`: cells, tiles, levels per l, l) is refused before any
+    axis or tile is built.
     """
+    check_limits(config)
     config = validate_config(config)
     grid = config["grid"]
     if "strength" in grid:
@@ -101,9 +143,13 @@ def plan(config: dict) -> Plan:
     n_r_max = int(grid["n_r_max"])
     cells = int(config["tiles"]["cells"])
 
-    per_strength = screening_length.size * l_values.size
-    strength_block = max(1, cells // per_strength)
-    deal = -(-screening_length.size // max(1, cells // l_values.size)) if cells < per_strength else 1
+    strength_block, deal = tile_layout(strength.size, screening_length.size, l_values.size, cells)
+    num_tiles = -(-strength.size // strength_block) * deal
+    if num_tiles > max_tiles(config):
+        raise InputError(f"config key tiles.cells: {cells:,} cell{'s' * (cells != 1)} per tile make {num_tiles:,} "
+                         f"tiles (jobs), over the limit of {max_tiles(config):,} (limits.max_tiles); give tiles.cells "
+                         "at least "
+                         f"{_cells_for(max_tiles(config), strength.size, screening_length.size, l_values.size):,}")
     tiles = []
     for s0, s1 in _blocks(strength.size, strength_block):
         for r in range(deal):

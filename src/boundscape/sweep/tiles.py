@@ -17,7 +17,11 @@ from ..engine import INPUT_REJECTED, NOT_CONVERGED
 from ..errors import ConvergenceError, InputError
 from . import resonance_tiles
 
-__all__ = ["CRITICAL_FLAGS", "solve_tile", "solve_criticals"]
+__all__ = ["CRITICAL_FLAGS", "UNKNOWN_COUNT", "solve_tile", "solve_criticals"]
+
+# num_bound of a cell whose count is unknown (its input rejected, or its solve failed); the
+# engine's −1 means infinitely many (a Coulomb tail, a confining potential)
+UNKNOWN_COUNT = -2
 
 # CF flag_values are the positions in this tuple; flag_meanings are the names.  (The cells'
 # status codes are the engine's: boundscape.engine.LEVEL_STATUS.)
@@ -50,7 +54,7 @@ def solve_tile(spec: dict) -> dict:
     cell_shape = (len(strengths), len(lams), len(ls))
     out = {name: np.full(cell_shape + (n_r_max,), np.nan)
            for name in ("energy", "energy_error", "mean_radius")}
-    out["num_bound"] = np.zeros(cell_shape, np.int32)
+    out["num_bound"] = np.full(cell_shape, UNKNOWN_COUNT, np.int32)
     out["status"] = np.zeros(cell_shape, np.int8)
     reasons = []
     engine_seconds = 0.0

@@ -3,8 +3,8 @@ exterior, the Siegert condition, poles followed from their thresholds, and what 
 becomes (a shape resonance or a virtual state); and scattering below and above threshold
 (scattering lengths, effective ranges, phase shifts)."""
 
+from .lost_states import Resonances, resonances
 from .phase_shifts import PhaseShifts, phase_shifts
-from .resonances import Resonances, resonances
 from .scattering import Scattering, scattering
 from .universal import dissolution_screening_length, load_trajectory_records, shares_trajectories, trajectory_records
 

@@ -37,7 +37,8 @@ from scipy.optimize import brentq
 from ...errors import ConvergenceError
 from ..bound.mapping import origin_radius
 from ..richardson import extrapolate
-from .outgoing import CUT_TOLERANCE, analytic_potential, exterior_cut, is_compact, outgoing_log_derivative
+from .outgoing import (CUT_TOLERANCE, TailCorrection, analytic_potential, exterior_cut, is_compact,
+                       outgoing_log_derivative)
 from .propagation import RadialMap, Segment, chain, chain_inward, running, step_matrices
 
 __all__ = ["Channel", "Contour", "FACTORS", "RAY_ANGLE", "NARROW_GROWTH", "MAX_CUT_ERROR"]
@@ -71,6 +72,7 @@ class Contour:
     r_end: complex
     growth: float  # round-off amplification of the outgoing solution along the outer segment
     cut_error: float = 0.0  # relative error the exterior cut leaves in W (tail left out, round-off)
+    tail: TailCorrection | None = None  # l = 0: the tail beyond the cut, to first order
     _points: dict = field(default_factory=dict, repr=False)
 
     @property
@@ -116,7 +118,9 @@ class Contour:
     def _wronskian(self, k, energy, inner, outer):
         y_reg = chain(self._steps(inner, energy)) @ self.regular_start()
         l = self.channel.l
-        if outer is None:
+        if outer is None and self.tail is not None:
+            y_out = self.tail.outgoing(k, self.g)
+        elif outer is None:
             y_out = np.array([1.0, outgoing_log_derivative(l, k, self.r_match)])
         else:
             scale = cmath.exp(1j * k * (self.r_end - self.r_match))
@@ -146,6 +150,18 @@ class Contour:
         A = (y[-1, 1] + l * u[-1] / R) / ((2 * l + 1) * R**l)
         nodes = int(np.count_nonzero(np.signbit(u[1:]) != np.signbit(u[:-1])))
         return A, nodes + int(A * u[-1] < 0)
+
+
+def _tail_span(t, v, j, kappa) -> float:
+    """How far past the cut t[j] the tail's integrals must reach: until |V|·e^{2κs} has fallen
+    by e^{−60} from its largest value beyond the cut (the samples reach 4× past the potential's
+    range), and no further than where e^{κs} nears overflow."""
+    s = t[j:] - t[j]
+    with np.errstate(divide="ignore"):
+        log_f = np.log(np.abs(v[j:]) + 1e-300) + 2.0 * kappa * s
+    keep = np.nonzero(log_f >= np.max(log_f) - 60.0)[0]
+    span = float(s[keep[-1]]) if keep.size else float(s[-1])
+    return max(min(span, 300.0 / max(kappa, 1e-300)), 1e-12 * t[j])
 
 
 class Channel:
@@ -248,8 +264,10 @@ class Channel:
             kappa = abs(k)
             free = np.nonzero(2 * mass * g * np.abs(v) > kappa * kappa)[0]
             t_ref = float(t[free[-1]]) if free.size else float(t[0])
+            # the tail beyond the cut enters to second order (TailCorrection): the cut moves in to
+            # where the third order is negligible, and the growth it costs in round-off with it
             j, growth, cut_error = exterior_cut(np.abs(g * v), t, t, mass, k, 0.0, t_ref=t_ref,
-                                                tolerance=self.tail_tolerance)
+                                                tolerance=self.tail_tolerance, corrected=True)
             if j is None:
                 raise ValueError("the potential's tail decays no faster than the outgoing wave grows "
                                  "(past the branch point of an exponential tail, κ = half its decay rate)")
@@ -258,7 +276,8 @@ class Channel:
                                  f"relative error {cut_error:.1e} (the wave grows by {growth:.1e} across it)")
             R = float(t[j])
             rmap = self._map(g, k, [(t[: j + 1], v[: j + 1])])
-            return Contour(self, g, rmap, [self._segment(rmap, r0, R)], None, R, R, growth, cut_error)
+            tail = TailCorrection(self.pot, mass, R, _tail_span(t, v, j, kappa))
+            return Contour(self, g, rmap, [self._segment(rmap, r0, R)], None, R, R, growth, cut_error, tail)
         r_m = self.matching_radius if self.matching_radius is not None else self.well_bottom(g)
         if r_m is None:
             raise ValueError("the effective potential has no well left to hold the state")

@@ -23,7 +23,7 @@ from .tracking import Trajectory, refine, trace
 __all__ = ["family_key", "dimensionless", "universal_potential", "universal_trajectory", "shares_trajectories",
            "trajectory_records", "load_trajectory_records", "dissolution_screening_length", "RTOL"]
 
-RTOL = 1e-9  # relative tolerance on each pole (here and in :mod:`.resonances`)
+RTOL = 1e-9  # relative tolerance on each pole (here and in :mod:`.lost_states`)
 
 
 def family_key(pot: Potential):
