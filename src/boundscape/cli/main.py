@@ -17,7 +17,7 @@ import math
 import os
 import sys
 
-from . import convert, lines, resonances
+from . import convert, fit, lines, resonances, scattering
 from .options import describe, make_potential, parse_l_values, potential_args, title
 from .readings import engine_strength, reading_of, significant
 from ..engine import bound_levels, critical_screening_length, family_info
@@ -58,6 +58,8 @@ def build_parser() -> argparse.ArgumentParser:
     convert.register(sub)
     resonances.register(sub)
     lines.register(sub)
+    scattering.register(sub)
+    fit.register(sub)
     return parser
 
 

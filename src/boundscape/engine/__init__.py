@@ -7,6 +7,8 @@
 * :mod:`.continuum` — propagation along complex paths, the outgoing-wave exterior, the Siegert
   condition, poles followed from their thresholds: resonances and virtual states;
 * :mod:`.transitions` — the E1 lines between bound levels;
+* :mod:`.inverse` — the parameter at which an observable takes a target (:mod:`.control_parameters`:
+  what may be varied);
 * :mod:`.richardson` (extrapolation), :mod:`.status` (status codes), :mod:`.jitcache` and
   :mod:`.warmup` (where the compiled kernels live).
 
@@ -26,6 +28,9 @@ __getattr__, __dir__ = lazy_exports(__name__, {
     "Resonances": ".continuum", "resonances": ".continuum", "dissolution_screening_length": ".continuum",
     "shares_trajectories": ".continuum", "trajectory_records": ".continuum", "load_trajectory_records": ".continuum",
     "Lines": ".transitions", "lines": ".transitions",
+    "Scattering": ".continuum", "scattering": ".continuum", "PhaseShifts": ".continuum", "phase_shifts": ".continuum",
+    "Fit": ".inverse", "solve_for": ".inverse", "ControlParameter": ".control_parameters",
+    "OutOfReach": ".control_parameters",
 })
 
 __all__ = [
@@ -34,5 +39,6 @@ __all__ = [
     "zero_energy_solution", "critical_screening_length", "critical_strength", "Resonances", "resonances",
     "dissolution_screening_length", "Lines", "lines", "shares_trajectories", "trajectory_records",
     "load_trajectory_records", "LEVEL_STATUS", "OK", "NOT_CONVERGED", "INPUT_REJECTED", "RESONANCE_STATUS",
-    "DISSOLVED",
+    "DISSOLVED", "Scattering", "scattering", "PhaseShifts", "phase_shifts", "Fit", "solve_for", "ControlParameter",
+    "OutOfReach",
 ]
