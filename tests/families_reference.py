@@ -165,3 +165,13 @@ def ion_sphere_zero_energy_slope(Z, R, l, mass=1.0, r0=1e-7):
     u, du = sol.y[:, -1]
     nodes = int(np.count_nonzero(np.diff(np.signbit(sol.y[0]))))
     return (R * du + l * u) / math.hypot(R * du, u), nodes
+
+
+def ion_sphere_count(Z, R, l, mass=1.0):
+    """Bound states of l: nodes of the E = 0 solution (Sturm oscillation, Courant & Hilbert vol. 1
+    ch. VI), those inside R plus one beyond it where A and u(R) differ in sign."""
+    sol = solve_ivp(lambda r, y: (y[1], (l * (l + 1) / r**2 + 2.0 * mass * float(ion_sphere(r, Z, R))) * y[0]),
+                    (1e-7, R), series_start(l, mass, Z, 1e-7), method="DOP853", rtol=RTOL, atol=1e-300)
+    u, du = sol.y[:, -1]
+    nodes = int(np.count_nonzero(np.diff(np.signbit(sol.y[0]))))
+    return nodes + int(np.signbit(R * du + l * u) != np.signbit(u))
