@@ -94,7 +94,7 @@ class IonSphere(ScreenedCoulomb):
 
     (the second term is the potential inside a uniformly charged sphere, from Gauss's law:
     common practice).  strength = Z, screening_length = R.  One-scale, V = Z·f(r/R)/r.  V and V′
-    vanish at R and V″ = 3Z/R³ jumps there; the factored form keeps V's digits near R.
+    vanish at R and V″ jumps there, from −3Z/R³ to 0; the factored form keeps V's digits near R.
 
     Past R, ``continued`` (the solver's ghost nodes beyond a box that ends at R) gives the
     interior polynomial: V is then smooth across the box's end, as the Richardson error series

@@ -71,7 +71,7 @@ class WoodsSaxon(Family):
                             _positive),)
     strength_meaning, length_meaning = "depth V0 (hartree)", "radius R (bohr), where V = -V0/2"
     strength_long_name, strength_dimension = "well depth V0", "energy"
-    length_long_name = "radius R of the Woods-Saxon well (half depth)"
+    length_long_name = "radius of the Woods-Saxon well"  # where V = -V0/2; figures add the symbol R
 
     @staticmethod
     def formula(r, p, x, c, continued):
@@ -124,7 +124,7 @@ class TwoYukawa(Family):
     strength_meaning = "g, the attraction's strength (hartree bohr)"
     length_meaning = "range λ of the attraction (bohr)"
     strength_long_name = "strength g of the attractive Yukawa"
-    length_long_name = "range of the attractive Yukawa"
+    # length_long_name stays "screening length": λ screens the attraction (and, times ρ, the core)
 
     @staticmethod
     def formula(r, p, x, c, continued):
