@@ -23,6 +23,7 @@ from ..version import VERSION
 from .lines import add_lines, fill_lines
 from .model import LEVEL_VARS, NUM_BOUND_UNKNOWN, build_cube
 from .netcdf import open_for_filling, read_part, read_part_variables, write_cube
+from .parameters import add_family_parameters
 from .physical import add_physical_coordinates
 from .resonances import RESONANCE_VARS, add_resonances
 from .resonances import placeholders as resonance_placeholders
@@ -165,6 +166,7 @@ def collect(config: dict, tile_paths, critical_paths, output, summary=None) -> s
         ds = add_lines(ds, plan, tile_paths)
     # The physical reading of the axes travels with the cube as extra coordinates.
     ds = add_physical_coordinates(ds, from_config(config.get("preset")))
+    ds = add_family_parameters(ds, plan.engine)  # potential: diffuseness, core_strength, ... as scalar coordinates
     write_cube(ds, output, fill=_fill_levels(plan, tile_paths, LEVEL_VARS + (RESONANCE_VARS if past else ())))
     flagged = int(np.count_nonzero(levels["status"]))
     lines = [f"sweep {plan.sweep}: {plan.num_cells} cells ({' x '.join(map(str, shape))}), "
