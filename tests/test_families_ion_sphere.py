@@ -93,10 +93,9 @@ def test_critical_radii_against_the_zero_energy_solution(Z):
             assert bs.count_bound(bs.potential("ion_sphere", Z, exact * 0.999999), l) == n_r
 
 
-@pytest.mark.xfail(strict=True, reason="engine: cell.zero_energy_count solves only the μ_k within MARGIN = 1e-5 "
-                                       "of the energy scale on the coarse grid, whose error is 1.2e-5 of Z²μ here "
-                                       "(1e-7 for Yukawa): the 2p just above its threshold is counted unbound")
 def test_the_2p_count_just_above_its_threshold():
+    # the coarse zero-energy grid's μ is 1.2e-5 of Z²μ off here (1e-7 for Yukawa): the count
+    # also compares the grid h/2, which settles the sign (before: counted unbound)
     radius = bs.critical_screening_length("ion_sphere", 1.0, 1, 0)
     assert ion_sphere_count(1.0, radius * 1.00001, 1) == 1  # DOP853, Sturm
     assert bs.count_bound(bs.potential("ion_sphere", 1.0, radius * 1.00001), 1) == 1

@@ -51,12 +51,14 @@ _WIDTH = len(ROW)
 def zero_energy_count(vfun, fp, tx, tcoef, mass, l, rs, veff, r_min, support, r_core, scale, theta, h_max, margin,
                       max_nodes):
     """The exact count and its status (1: the marginal μ_k did not converge): Sturm counts on the
-    E = 0 grid at 0 and ±margin·scale; only a μ_k within that margin of zero can be misjudged by
-    the coarse count (two states within discretisation error of threshold at once do not occur),
-    and it is settled on the grid h/2 if its sign is clearly beyond its error there, else
-    extrapolated from h, h/2, h/4 (as the critical lengths are, so that a cell just on either
-    side of a threshold is counted consistently with its critical length).  Status 2: the grid
-    would exceed ``max_nodes`` (the count is then not known)."""
+    E = 0 grids h and h/2 at 0, and on h at ±margin·scale.  A μ_k whose sign the two grids
+    disagree on, or that lies within the margin of zero, is the one the coarse count may misjudge
+    (two states within discretisation error of threshold at once do not occur); it is settled on
+    the grid h/2 if its sign is clearly beyond its error there, else extrapolated from h, h/2, h/4
+    (as the critical lengths are, so that a cell just on either side of a threshold is counted
+    consistently with its critical length).  The h/2 count catches a coarse grid whose error
+    exceeds the margin (the ion sphere's 2p just above threshold: μ off by 1.2e-5 of Z²μ on h, by
+    7e-7 on h/2).  Status 2: the grid would exceed ``max_nodes`` (the count is then not known)."""
     beta, c, tc, t0, t1, n = design(rs, veff, mass, l, 0.0, r_min, support, r_core, theta, h_max)
     if 4 * n > max_nodes:
         return -1, 2
@@ -65,9 +67,14 @@ def zero_energy_count(vfun, fp, tx, tcoef, mass, l, rs, veff, r_min, support, r_
     prm = grid_parameters(mass, l, TAIL_FIXED, fixed, support, g_end, gp_end, scale, False)
     h = (t1 - t0) / n
     count = sturm(a, prm, 1, n, h, 0.0)
+    half, g_half, gp_half = build(vfun, fp, tx, tcoef, mass, l, beta, c, tc, t0, t1, n, support, 2)
+    prm_half = grid_parameters(mass, l, TAIL_FIXED, fixed, support, g_half, gp_half, scale, False)
+    count_half = sturm(half, prm_half, 1, 2 * n, h / 2.0, 0.0)
     delta = margin * scale
     k = -1
-    if count > 0 and sturm(a, prm, 1, n, h, -delta) < count:
+    if count_half != count:
+        k = min(count, count_half)
+    elif count > 0 and sturm(a, prm, 1, n, h, -delta) < count:
         k = count - 1
     elif sturm(a, prm, 1, n, h, delta) > count:
         k = count
@@ -81,8 +88,10 @@ def zero_energy_count(vfun, fp, tx, tcoef, mass, l, rs, veff, r_min, support, r_
     for i in range(3):
         if i == 0:
             fine, ge, gpe = a, g_end, gp_end
+        elif i == 1:
+            fine, ge, gpe = half, g_half, gp_half
         else:
-            fine, ge, gpe = build(vfun, fp, tx, tcoef, mass, l, beta, c, tc, t0, t1, n, support, 2 * i)
+            fine, ge, gpe = build(vfun, fp, tx, tcoef, mass, l, beta, c, tc, t0, t1, n, support, 4)
         prm = grid_parameters(mass, l, TAIL_FIXED, fixed, support, ge, gpe, scale, False)
         nn = n * (1 if i == 0 else 2 * i)
         out = solve_grid(fine, prm, 1, nn, (t1 - t0) / nn, k, start, start, np.empty(nn + 2), False)
