@@ -151,7 +151,7 @@ def solve_balance(total: float, kT: float, log_bound_density, *, points_per_deca
                        math.nan, -1, "beyond_engine_limits" if note else "no_solution",
                        note or "no self-consistent solution was bracketed", math.nan, evaluations)
     chosen = point(roots[-1] if branch == "ionized" else roots[0])
-    n = math.exp(chosen.y)
+    n = total if chosen.y == y_top else min(math.exp(chosen.y), total)
     bound = math.exp(chosen.log_bound) if chosen.log_bound > -math.inf else 0.0
     status, reasons = "ok", []
     if len(roots) > 1:
@@ -166,7 +166,7 @@ def solve_balance(total: float, kT: float, log_bound_density, *, points_per_deca
         reasons.append(note)
     return Balance(
         total=total, kT=kT, free_density=n, ionized_fraction=n / total, bound_density=bound,
-        solutions=tuple(math.exp(y) for y in roots), jumps=tuple(jumps),
+        solutions=tuple(total if y == y_top else min(math.exp(y), total) for y in roots), jumps=tuple(jumps),
         screening_length=chosen.info["screening_length"], ionization_energy=chosen.info["ionization_energy"],
         log_partition_function=chosen.info["log_partition_function"],
         omitted_partition_fraction=chosen.info["omitted_fraction"], level_set_status=chosen.info["level_set_status"],
