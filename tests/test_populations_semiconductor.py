@@ -146,3 +146,16 @@ def test_bad_input_is_one_line():
         donor_freeze_out(1e15, 4.0, screening_length_m=3.0, **GAAS)
     with pytest.raises(InputError, match="mass_ratio"):
         exciton_balance(1e-3, 0.1, mass_ratio=0.0)
+
+
+def test_a_scan_that_cannot_reach_the_dilute_side_says_so():
+    # kT = 0.025: at N_D = 0.01 the bound root lies at λ ≈ 156 a*, the ionized one at n = N_D
+    capped = LevelSets(max_screening_length=100.0)
+    b = donor_balance(0.01, 0.025, level_sets=capped)
+    assert b.status == "incomplete_scan" and "beyond" in b.reason
+    assert b.solutions == (0.01,) and b.ionized_fraction == 1.0
+    full = donor_balance(0.01, 0.025, level_sets=LevelSets(), branch="bound")
+    assert full.status == "several_solutions" and full.ionized_fraction < 1e-4 and len(full.solutions) == 2
+    # a dilute sample whose only root lies beyond the cap has no solution to give
+    none = donor_balance(1e-4, 0.025, level_sets=capped)
+    assert none.status == "beyond_engine_limits" and math.isnan(none.free_density)

@@ -32,7 +32,8 @@ from scipy.optimize import brentq
 __all__ = ["Balance", "solve_balance", "BALANCE_STATUS", "BRANCHES"]
 
 BRANCHES = ("ionized", "bound")
-BALANCE_STATUS = ("ok", "several_solutions", "truncated_level_set", "beyond_engine_limits", "no_solution")
+BALANCE_STATUS = ("ok", "several_solutions", "truncated_level_set", "incomplete_scan", "beyond_engine_limits",
+                  "no_solution")
 # A sign change refined to 1e-6 in ln n whose |r| stays above COARSE_JUMP, or refined to 1e-13
 # whose |r| stays above JUMP, is a jump (a level lost), not a root.
 COARSE_JUMP = 1e-3
@@ -114,8 +115,8 @@ def solve_balance(total: float, kT: float, log_bound_density, *, points_per_deca
     for k in range(1, MAX_DECADES * points_per_decade + 1):
         p = point(y_top - k * step)
         if math.isnan(p.r):
-            note = (f"the scan stopped at n = {math.exp(p.y):.3g}, where the levels are beyond the engine "
-                    f"({p.info.get('level_set_reason', '')})")
+            note = (f"the scan stopped at n = {math.exp(p.y):.3g}, where the levels are beyond reach "
+                    f"({p.info.get('level_set_reason', '')}): solutions at lower n may be missing")
             break
         scan.append(p)
         if p.r < 0 and scan[-2].r < 0 and p.info["lowering"] < 0.1 * kT:
@@ -163,6 +164,7 @@ def solve_balance(total: float, kT: float, log_bound_density, *, points_per_deca
         status = "truncated_level_set" if status == "ok" else status
         reasons.append(f"the level set is truncated: U may be up to {chosen.info['omitted_fraction']:.2g} larger")
     if note:
+        status = "incomplete_scan"
         reasons.append(note)
     return Balance(
         total=total, kT=kT, free_density=n, ionized_fraction=n / total, bound_density=bound,

@@ -19,11 +19,6 @@ from .saha import ionized_fraction
 
 __all__ = ["PlasmaPopulations", "plasma_populations", "plasma_cell"]
 
-# Set statuses whose partition function is a finite sum of known levels (complete, or truncated
-# with a bound on the rest): LEVEL_SET_STATUS "complete", "level_not_converged", "truncated".
-_SUMMABLE = (0, 1, 2)
-
-
 @dataclass
 class PlasmaPopulations:
     """One level set's populations at the given densities and temperatures (broadcast arrays;
@@ -83,7 +78,7 @@ def plasma_populations(levels, *, nuclear_charge, electron_density, kT, mass=1.0
     n_e, kT = np.broadcast_arrays(positive("electron_density", electron_density), positive("kT", kT))
     n_e, kT = np.array(n_e, dtype=float), np.array(kT, dtype=float)
     flat = kT.ravel()
-    summable = levels.set_status in _SUMMABLE
+    summable = levels.counts_known  # complete, or truncated with a bound on the rest
     log_u = log_partition_function(levels, flat).reshape(kT.shape)
     omitted = omitted_partition_bound(levels, flat).reshape(kT.shape)
     if not summable:

@@ -26,7 +26,7 @@ from ...checks import positive
 from ...errors import InputError
 from ..units import effective_atomic_units
 from .balance import Balance, solve_balance
-from .level_sets import LevelSets
+from .level_sets import SEARCH_REACH, LevelSets
 from .lowering import ionization_energy
 from .partition import log_partition_function, omitted_partition_bound
 from .saha import effective_density_of_states, reduced_chemical_potential
@@ -46,9 +46,17 @@ def pair_debye_length(density, kT):
     return 1.0 / math.sqrt(8.0 * math.pi * density / kT)
 
 
+def _searching(level_sets):
+    """The caller's level sets, or Yukawa Z = 1, μ = 1 ones that stop at :data:`SEARCH_REACH`."""
+    return level_sets if level_sets is not None else LevelSets(max_screening_length=SEARCH_REACH)
+
+
 def _levels_info(sets, lam, kT, spin_weight):
     levels = sets(lam)
-    summable = levels.set_status in (0, 1, 2)
+    if levels is None:
+        return math.nan, {"level_set_reason": f"screening length {lam:.3g} beyond the search's reach "
+                                              f"{sets.max_screening_length:.3g}"}
+    summable = levels.counts_known  # complete, or truncated with a bound on the rest
     log_u = log_partition_function(levels, kT, spin_weight=spin_weight) if summable else math.nan
     omitted = omitted_partition_bound(levels, kT, spin_weight=spin_weight)
     if omitted == 0:
@@ -84,7 +92,8 @@ def donor_balance(donor_concentration, kT, *, screening_length=None, level_sets:
     screening_length : callable, optional
         λ(n, kT) in a* for a free-electron density n; default :func:`free_carrier_debye_length`.
     level_sets : LevelSets, optional
-        The screened donor's level sets by λ (default Yukawa, Z = 1, μ = 1), shared between calls.
+        The screened donor's level sets by λ, shared between calls (default Yukawa, Z = 1, μ = 1,
+        up to λ = :data:`.level_sets.SEARCH_REACH` a*: the search stops there, flagged).
     electron_mass : float
         The free electrons' mass in units of the bound one's (1 for a donor).
     statistics : {"fermi_dirac", "boltzmann"}
@@ -95,7 +104,7 @@ def donor_balance(donor_concentration, kT, *, screening_length=None, level_sets:
     N_D = float(positive("donor_concentration", donor_concentration))
     kT = float(positive("kT", kT))
     screening = screening_length or free_carrier_debye_length
-    sets = level_sets or LevelSets()
+    sets = _searching(level_sets)
 
     def log_bound(n):
         log_u, info = _levels_info(sets, screening(n, kT), kT, 2)
@@ -126,7 +135,7 @@ def exciton_balance(pair_density, kT, *, mass_ratio, screening_length=None, leve
     ratio = float(positive("mass_ratio", mass_ratio))
     m_e, m_h = 1.0 + ratio, 1.0 + 1.0 / ratio  # in units of μ: 1/m_e + 1/m_h = 1
     screening = screening_length or pair_debye_length
-    sets = level_sets or LevelSets()
+    sets = _searching(level_sets)
     log_states = math.log(4.0) + 1.5 * math.log((m_e + m_h) * kT / (2.0 * math.pi))
 
     def log_bound(n):
