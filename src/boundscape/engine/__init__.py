@@ -3,7 +3,7 @@
 * :mod:`.potentials` — the families (each one class), tables, the :class:`Potential` of a cell,
   the closed-form exterior solutions;
 * :mod:`.bound` — the mapped grid, compiled Numerov kernels, whole cells, levels, zero-energy
-  counts and critical parameters;
+  counts, complete level sets (every bound (n_r, l)) and critical parameters;
 * :mod:`.continuum` — propagation along complex paths, the outgoing-wave exterior, the Siegert
   condition, poles followed from their thresholds: resonances and virtual states;
 * :mod:`.transitions` — the E1 lines between bound levels;
@@ -25,6 +25,7 @@ from .status import DISSOLVED, INPUT_REJECTED, LEVEL_STATUS, NOT_CONVERGED, OK, 
 __getattr__, __dir__ = lazy_exports(__name__, {
     "BoundLevels": ".bound", "Resolution": ".bound", "bound_levels": ".bound", "count_bound": ".bound",
     "zero_energy_solution": ".bound", "critical_screening_length": ".bound", "critical_strength": ".bound",
+    "LevelSet": ".bound", "level_set": ".bound", "LEVEL_SET_STATUS": ".bound",
     "Resonances": ".continuum", "resonances": ".continuum", "dissolution_screening_length": ".continuum",
     "shares_trajectories": ".continuum", "trajectory_records": ".continuum", "load_trajectory_records": ".continuum",
     "Lines": ".transitions", "lines": ".transitions",
@@ -36,6 +37,7 @@ __getattr__, __dir__ = lazy_exports(__name__, {
 __all__ = [
     "FAMILIES", "Family", "Parameter", "ParameterError", "family_info", "family_parameters", "Potential", "potential",
     "potential_from_spec", "Table", "load_table", "BoundLevels", "Resolution", "bound_levels", "count_bound",
+    "LevelSet", "level_set", "LEVEL_SET_STATUS",
     "zero_energy_solution", "critical_screening_length", "critical_strength", "Resonances", "resonances",
     "dissolution_screening_length", "Lines", "lines", "shares_trajectories", "trajectory_records",
     "load_trajectory_records", "LEVEL_STATUS", "OK", "NOT_CONVERGED", "INPUT_REJECTED", "RESONANCE_STATUS",
