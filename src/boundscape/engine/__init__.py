@@ -20,12 +20,12 @@ no workflow, no plotting, no output files.  The solvers are imported on first us
 from ..lazy import lazy_exports
 from .potentials import (FAMILIES, Family, Parameter, ParameterError, Potential, Table, family_info, family_parameters,
                          load_table, potential, potential_from_spec)
-from .status import DISSOLVED, INPUT_REJECTED, LEVEL_STATUS, NOT_CONVERGED, OK, RESONANCE_STATUS
+from .status import DISSOLVED, INPUT_REJECTED, LEVEL_SET_STATUS, LEVEL_STATUS, NOT_CONVERGED, OK, RESONANCE_STATUS
 
 __getattr__, __dir__ = lazy_exports(__name__, {
     "BoundLevels": ".bound", "Resolution": ".bound", "bound_levels": ".bound", "count_bound": ".bound",
     "zero_energy_solution": ".bound", "critical_screening_length": ".bound", "critical_strength": ".bound",
-    "LevelSet": ".bound", "level_set": ".bound", "LEVEL_SET_STATUS": ".bound",
+    "LevelSet": ".bound", "level_set": ".bound",
     "Resonances": ".continuum", "resonances": ".continuum", "dissolution_screening_length": ".continuum",
     "shares_trajectories": ".continuum", "trajectory_records": ".continuum", "load_trajectory_records": ".continuum",
     "Lines": ".transitions", "lines": ".transitions",

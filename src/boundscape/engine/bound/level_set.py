@@ -33,6 +33,7 @@ from ...checks import quantum_number
 from ...errors import InputError
 from ...labels import state_label
 from ..limits import MAX_L, MAX_LEVELS, LimitError
+from ..status import LEVEL_SET_STATUS
 from .levels import RTOL, bound_levels
 from .zero_energy import count_bound
 
@@ -42,7 +43,6 @@ __all__ = ["LevelSet", "level_set", "LEVEL_SET_STATUS", "COMPLETE", "LEVEL_NOT_C
 
 # Completeness of a set (CF flag_values are the positions, flag_meanings the names), from the
 # best to the worst; a set carries the worst that applies.
-LEVEL_SET_STATUS = ("complete", "level_not_converged", "truncated", "infinitely_many", "beyond_engine_limits")
 COMPLETE, LEVEL_NOT_CONVERGED, TRUNCATED, INFINITELY_MANY, BEYOND_ENGINE_LIMITS = range(len(LEVEL_SET_STATUS))
 
 # Levels solved per set by default: a Yukawa Z = 1 at λ = 10^3 bohr binds 630 (n_r, l) levels,

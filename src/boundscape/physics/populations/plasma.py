@@ -28,7 +28,7 @@ class PlasmaPopulations:
     most ``partition_function_omitted_bound``); NaN, with ``ionized_fraction``, where the set's
     status leaves U unknown (a Coulomb tail: U diverges; beyond the engine's limits).
     ``ionization_energy`` and ``continuum_lowering`` are the set's (one number each);
-    ``level_set_status``/``level_set_reason`` its :data:`boundscape.engine.bound.level_set.LEVEL_SET_STATUS`
+    ``level_set_status``/``level_set_reason`` its :data:`boundscape.engine.status.LEVEL_SET_STATUS`
     code and why.
     """
 
