@@ -3,14 +3,15 @@
 The plain approach is what a physicist writes first: a uniform grid of N = 2000 points on
 (0, 100 bohr], three-point differences, scipy.linalg.eigh_tridiagonal for every eigenvalue
 below zero.  Both solve the same distinct random cells (no cell repeats, so nothing is served
-from a cache): families yukawa, ecsc, hulthen, square_well and a tabulated potential, l 0-4,
-every bound level, half of the cells within 1 % of a threshold (λ = λ_c(1 ± ε), ε log-uniform
-in 1e-5 .. 1e-2).  Timed in alternating rounds in one process; printed: cost per cell of each,
+from a cache): families yukawa, ecsc, hulthen, square_well, a tabulated potential, woods_saxon
+(a = 0.3 bohr), ion_sphere and two_yukawa (Malfliet–Tjon III's c and ρ), l 0-4, every bound
+level, half of the cells within 1 % of a threshold (λ = λ_c(1 ± ε), ε log-uniform in
+1e-5 .. 1e-2).  Timed in alternating rounds in one process; printed: cost per cell of each,
 their ratio (median over rounds), the first call's cost (numba's cache loaded or, with --cold,
 every kernel compiled), each one's largest relative error and number of wrong counts.
 
 Reference values: exact where known (Hulthén l = 0; the square well's matching condition,
-roots by brentq); elsewhere the engine itself with a 2.5× finer design grid (θ = 0.1) and a 30
+roots by brentq; Woods–Saxon l = 0 in hypergeometric functions, mpmath); elsewhere the engine itself with a 2.5× finer design grid (θ = 0.1) and a 30
 decay-length box, whose own agreement with the exact levels is printed too.  Counts of the
 cells near a threshold are known exactly: n_r below and n_r + 1 above λ_c(n_r).
 
@@ -38,7 +39,11 @@ from scipy.special import kve, spherical_jn  # noqa: E402
 import boundscape as bs  # noqa: E402
 from boundscape.engine.potentials import validate_table  # noqa: E402
 
-FAMILIES = ("yukawa", "ecsc", "hulthen", "square_well", "tabulated")
+FAMILIES = ("yukawa", "ecsc", "hulthen", "square_well", "tabulated", "woods_saxon", "ion_sphere", "two_yukawa")
+# the families' own parameters in every cell: a Woods–Saxon surface thinner than the deep wells'
+# decay lengths (κa ≤ 3; thicker ones are the known gap of tests/test_families_woods_saxon.py)
+PARAMETERS = {"woods_saxon": {"diffuseness": 0.3}}
+WELLS = ("square_well", "woods_saxon")  # strength a depth in hartree, length a radius
 
 
 def plain_levels(pot, l, n=2000, r_max=100.0):
@@ -65,13 +70,13 @@ def core_table():
 def make(family, Z, lam, table):
     if family == "tabulated":
         return bs.potential("tabulated", Z, lam, table=table, screened=True, coulomb_tail=1.0)
-    return bs.potential(family, Z, lam)
+    return bs.potential(family, Z, lam, **PARAMETERS.get(family, {}))
 
 
 def critical(family, Z, l, n_r, table):
     if family == "tabulated":
         return bs.critical_screening_length("tabulated", Z, l, n_r, table=table, coulomb_tail=1.0)
-    return bs.critical_screening_length(family, Z, l, n_r)
+    return bs.critical_screening_length(family, Z, l, n_r, **PARAMETERS.get(family, {}))
 
 
 def draw_cells(per_family, seed, table):
@@ -81,12 +86,12 @@ def draw_cells(per_family, seed, table):
     for family in FAMILIES:
         for i in range(per_family):
             l = int(rng.integers(0, 5))
-            if family == "square_well":
+            if family in WELLS:
                 Z = float(np.exp(rng.uniform(0.0, math.log(50.0))))
             else:
                 Z = float(rng.uniform(1.0, 8.0))
             if i % 2 == 0:
-                if family == "square_well":
+                if family in WELLS:
                     lam = float(np.exp(rng.uniform(math.log(0.5), math.log(5.0))))
                 else:
                     lam = float(1.0 / (Z * np.exp(rng.uniform(math.log(0.004), math.log(1.1)))))
@@ -120,6 +125,26 @@ def square_well_levels(depth, radius, l, mass=1.0):
     return np.array(sorted(roots))
 
 
+def woods_saxon_s_levels(depth, radius, a, mass=1.0, scan=800):
+    """The l = 0 Woods–Saxon levels exactly: zeros at r = 0 of
+    u = y^ν (1 − y)^{ika} ₂F₁(ν + ika, ν + ika + 1; 2ν + 1; y), y = 1/(1 + e^{(r−R)/a}), ν = κa
+    (the s-wave problem in hypergeometric functions, e.g. Flügge, Practical Quantum Mechanics;
+    derived again in tests/families_reference.py), mpmath.hyp2f1, scanned in E, then brentq."""
+    import mpmath
+
+    def u0(E):
+        with mpmath.workdps(40):
+            nu = mpmath.sqrt(-2 * mass * mpmath.mpf(E)) * a
+            ika = 1j * mpmath.sqrt(2 * mass * (depth + mpmath.mpf(E))) * a
+            q = mpmath.exp(-mpmath.mpf(radius) / a)
+            return float(((q / (1 + q)) ** ika * mpmath.hyp2f1(nu + ika, nu + ika + 1, 2 * nu + 1, 1 / (1 + q))).real)
+
+    es = -depth * (1.0 - np.linspace(0.0, 1.0, scan + 1)[1:-1]) ** 2
+    w = [u0(e) for e in es]
+    return np.array([brentq(u0, es[i], es[i + 1], xtol=1e-15 * depth, rtol=1e-15)
+                     for i in range(len(es) - 1) if np.signbit(w[i]) != np.signbit(w[i + 1])])
+
+
 def finer(pot, l):
     """The engine on a 2.5× finer design grid and a 30 decay-length box."""
     return bs.bound_levels(pot, l, resolution=bs.Resolution(theta=0.1, decay_lengths=30.0)).energy
@@ -128,6 +153,8 @@ def finer(pot, l):
 def exact(pot, l):
     if pot.family == "square_well":
         return square_well_levels(pot.strength, pot.screening_length, l, pot.mass)
+    if pot.family == "woods_saxon" and l == 0:
+        return woods_saxon_s_levels(pot.strength, pot.screening_length, pot.params["diffuseness"], pot.mass)
     if pot.family == "hulthen" and l == 0 and pot.mass == 1.0:
         Z, lam = pot.strength, pot.screening_length
         n = np.arange(1, int(math.ceil(math.sqrt(2 * Z * lam))) + 1)
@@ -137,7 +164,7 @@ def exact(pot, l):
 
 
 def scale_of(pot):
-    return pot.strength if pot.family == "square_well" else pot.strength**2 * pot.mass
+    return pot.strength if pot.family in WELLS else pot.strength**2 * pot.mass
 
 
 def max_rel(values, ref, scale):
@@ -186,6 +213,7 @@ def main():
 
     err_ours = err_plain = ref_check = 0.0
     miss_ours = miss_plain = flagged = 0
+    by_family = {f: [0.0, 0, 0, 0] for f in FAMILIES}  # max error, wrong counts, flagged cells, levels
     for (p, l), cell, a, b in zip(pots, cells, ours, plain):
         ref = exact(p, l)
         if ref is None:
@@ -198,6 +226,11 @@ def main():
         err_ours = max(err_ours, max_rel(a.energy, ref, scale_of(p)))
         err_plain = max(err_plain, max_rel(b, ref, scale_of(p)))
         flagged += int(np.any(a.status != 0))
+        row = by_family[p.family]
+        row[0] = max(row[0], max_rel(a.energy, ref, scale_of(p)))
+        row[1] += int(a.num_bound != expected or len(a.energy) != expected)
+        row[2] += int(np.any(a.status != 0))
+        row[3] += len(a.energy)
 
     levels_total = sum(len(a.energy) for a in ours)
     print(f"{levels_total} levels in all")
@@ -212,6 +245,9 @@ def main():
           f"ratio {amortised / statistics.median(t_plain):.2f}")
     print(f"cells with a level flagged not converged: {flagged}")
     print(f"reference check: the finer engine against the exact levels: max relative error {ref_check:.2e}")
+    print(f"{'family':14}{'levels':>8}{'max rel. error':>16}{'wrong counts':>14}{'flagged cells':>15}")
+    for family, (err, miss, flag, count) in by_family.items():
+        print(f"{family:14}{count:>8d}{err:>16.2e}{miss:>14d}{flag:>15d}")
     print(f"(load average during the run: {os.getloadavg()[0]:.2f})")
 
 

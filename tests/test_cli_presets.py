@@ -114,8 +114,8 @@ def test_critical_coupling_at_a_range(capsys):
     # 2μg²λ/ħ² = 2/1.19061 for the Yukawa ground state (Rogers, Graboske & Harwood 1970; value from memory)
     assert 2 * 469.4591 * ground["critical_coupling_MeV_fm"] * 1.4 / HBAR_C ** 2 == pytest.approx(2 / 1.19061,
                                                                                                 rel=5e-6)
-    assert "--coupling does not apply with --range" in fails(capsys, "critical", *DEUTERON, "--range", "1.4",
-                                                             "--coupling", "50")
+    assert out["states"][0]["critical_strength"] == ground["critical_coupling_MeV_fm"]  # the same, two keys
+    assert "--coupling does not apply" in fails(capsys, "critical", *DEUTERON, "--range", "1.4", "--coupling", "50")
 
 
 def test_nuclear_resonances_in_MeV_and_fm(capsys):

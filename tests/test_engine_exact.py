@@ -196,7 +196,8 @@ def test_yukawa_ground_state_energy_at_lambda_10():
 # analysis, common practice, no source).  Both sides come from the engine computed directly.
 
 @pytest.mark.parametrize("family, reduced_lengths", [("coulomb", [1.0]), ("yukawa", [3.0, 10.0, 40.0]),
-                                                     ("ecsc", [5.0, 20.0]), ("hulthen", [4.0, 25.0])])
+                                                     ("ecsc", [5.0, 20.0]), ("hulthen", [4.0, 25.0]),
+                                                     ("ion_sphere", [6.0, 30.0]), ("two_yukawa", [10.0, 40.0])])
 def test_one_scale_law_for_energies(family, reduced_lengths):
     assert bs.FAMILIES[family].one_scale
     checked = 0
@@ -216,7 +217,7 @@ def test_one_scale_law_for_energies(family, reduced_lengths):
     assert checked > 0
 
 
-@pytest.mark.parametrize("family", ["yukawa", "ecsc", "hulthen"])
+@pytest.mark.parametrize("family", ["yukawa", "ecsc", "hulthen", "two_yukawa"])
 def test_one_scale_law_for_critical_lengths(family):
     # λ_c(Z, μ) = λ_c(1, 1)/(Zμ).  The engine may use this law itself, so the check is made on
     # cells computed directly at (Z, μ): the count steps by one across λ_c(1, 1)/(Zμ).
@@ -230,9 +231,10 @@ def test_one_scale_law_for_critical_lengths(family):
 
 
 def test_one_scale_law_not_claimed_where_it_fails():
-    # The square well and the oscillator are not of the form Z f(r/λ)/r.
+    # The square well, the oscillator and the Woods–Saxon well are not of the form Z f(r/λ)/r.
     assert not bs.FAMILIES["square_well"].one_scale
     assert not bs.FAMILIES["harmonic"].one_scale
+    assert not bs.FAMILIES["woods_saxon"].one_scale
     Z, lam, mu = 10.0, 1.0, 1.0
     # Square well: the law would give E(10, 1, 1) = 100·E(1, 10, 1); it is far off ...
     left = bs.bound_levels(bs.potential("square_well", Z, lam, mass=mu), 0).energy[0]

@@ -65,6 +65,30 @@ def test_compiled_formulas_equal_the_stated_formulas(family, Z, lam):
         assert np.allclose(pot.complex_values(z), STATED[family](z, Z, lam, 1.7), rtol=1e-12, atol=0.0)
 
 
+# the families with their own parameters, as their docstrings state them (atomic units)
+STATED_WITH_PARAMETERS = {
+    "woods_saxon": (lambda r, Z, lam, mu, a: -Z / (1.0 + np.exp((r - lam) / a)), {"a": 0.45}, {"diffuseness": 0.45}),
+    "two_yukawa": (lambda r, Z, lam, mu, c, rho: (-Z * np.exp(-r / lam) + c * Z * np.exp(-r / (rho * lam))) / r,
+                   {"c": 2.3, "rho": 0.5}, {"core_strength": 2.3, "core_range": 0.5}),
+    # the factored form (R − r)²(r + 2R)/(2rR³) of Z/r − Z(3 − r²/R²)/(2R): the sum as stated loses
+    # its digits to cancellation near R
+    "ion_sphere": (lambda r, Z, lam, mu: np.where(r < lam, -Z * (lam - r) ** 2 * (r + 2 * lam) / (2 * r * lam**3), 0.0),
+                   {}, {}),
+}
+
+
+@pytest.mark.parametrize("family", sorted(STATED_WITH_PARAMETERS))
+def test_compiled_formulas_of_the_families_with_parameters(family):
+    stated, args, params = STATED_WITH_PARAMETERS[family]
+    Z, lam = 1.9, 3.0
+    pot = bs.potential(family, Z, lam, mass=1.7, **params)
+    r = np.geomspace(1e-6, 60.0, 500)
+    assert np.allclose(pot(r), stated(r, Z, lam, 1.7, **args), rtol=1e-12, atol=0.0)
+    if pot.info.analytic:
+        z = r * np.exp(0.3j)
+        assert np.allclose(pot.complex_values(z), stated(z, Z, lam, 1.7, **args), rtol=1e-12, atol=0.0)
+
+
 def test_compiled_table_equals_scipys_spline():
     pot = table_potential()
     table = pot.params["table"]

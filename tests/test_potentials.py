@@ -10,7 +10,8 @@ import pytest
 import boundscape as bs
 from boundscape import InputError
 
-KNOWN = ["coulomb", "yukawa", "ecsc", "hulthen", "square_well", "harmonic", "tabulated"]
+KNOWN = ["coulomb", "yukawa", "ecsc", "hulthen", "square_well", "harmonic", "tabulated", "woods_saxon", "ion_sphere",
+         "two_yukawa"]
 
 
 def message_of(call):
@@ -68,6 +69,51 @@ def test_family_parameters_are_declared_by_the_family():
     assert bs.family_parameters("yukawa") == ()
     message = message_of(lambda: bs.potential("yukawa", 1.0, 2.0, diffuseness=0.5))
     assert "'diffuseness'" in message and "yukawa" in message and "\n" not in message
+
+
+def test_the_new_families_declare_their_parameters():
+    # names, units, long names and defaults as README's family table gives them
+    (a,) = bs.family_parameters("woods_saxon")
+    assert (a.name, a.unit, a.default) == ("diffuseness", "bohr", None) and "diffuseness" in a.long_name
+    c, rho = bs.family_parameters("two_yukawa")
+    assert (c.name, c.unit, rho.name, rho.unit) == ("core_strength", "1", "core_range", "1")
+    # the defaults are Malfliet–Tjon III's ratios V_R/V_A and μ_A/μ_R (Malfliet & Tjon 1969; value from memory)
+    assert c.default == pytest.approx(1438.720 / 626.885) and rho.default == pytest.approx(1.55 / 3.11)
+    assert bs.family_parameters("ion_sphere") == ()
+    assert bs.potential("two_yukawa", 1.0, 2.0).params == {"core_strength": c.default, "core_range": rho.default}
+    assert bs.potential("two_yukawa", 1.0, 2.0, core_strength=0).params["core_strength"] == 0.0
+
+
+@pytest.mark.parametrize("family, params, name", [
+    ("woods_saxon", {}, "diffuseness"), ("woods_saxon", {"diffuseness": 0.0}, "diffuseness"),
+    ("woods_saxon", {"diffuseness": float("inf")}, "diffuseness"), ("woods_saxon", {"diffuseness": "thin"}, "diffuseness"),
+    ("woods_saxon", {"diffuseness": True}, "diffuseness"), ("two_yukawa", {"core_strength": -0.1}, "core_strength"),
+    ("two_yukawa", {"core_range": 0.0}, "core_range"), ("two_yukawa", {"core_range": float("nan")}, "core_range"),
+    ("ion_sphere", {"diffuseness": 0.5}, "diffuseness"), ("two_yukawa", {"radius": 1.0}, "radius")])
+def test_bad_family_parameters_are_one_line_naming_them(family, params, name):
+    text = message_of(lambda: bs.potential(family, 1.0, 2.0, **params))
+    assert f"{name}" in text and family in text, text
+
+
+def test_the_new_families_follow_their_formulas():
+    r = np.array([0.05, 0.7, 2.9, 3.0, 3.2, 11.0])
+    V0, R, a = 1.7, 3.0, 0.4
+    # Woods & Saxon, Phys. Rev. 95, 577 (1954)
+    np.testing.assert_allclose(bs.potential("woods_saxon", V0, R, diffuseness=a)(r), -V0 / (1 + np.exp((r - R) / a)),
+                               rtol=1e-14)
+    # Malfliet & Tjon, Nucl. Phys. A127, 161 (1969)
+    g, lam, c, rho = 1.3, 2.5, 2.0, 0.4
+    np.testing.assert_allclose(bs.potential("two_yukawa", g, lam, core_strength=c, core_range=rho)(r),
+                               (-g * np.exp(-r / lam) + c * g * np.exp(-r / (rho * lam))) / r, rtol=1e-14)
+    # the ion sphere (Gauss's law for a uniform sphere): compared away from R, where the stated sum
+    # keeps its digits (test_families_ion_sphere checks the rest in 50 digits)
+    Z = 2.0
+    inside = r < 2.9
+    np.testing.assert_allclose(bs.potential("ion_sphere", Z, R)(r)[inside],
+                               (-Z / r + Z * (3 - r * r / R**2) / (2 * R))[inside], rtol=1e-13)
+    assert np.all(bs.potential("ion_sphere", Z, R)(r[r >= R]) == 0.0)
+    # a Woods–Saxon well far beyond its radius does not overflow (e^{(r−R)/a} = e^{2500})
+    assert bs.potential("woods_saxon", V0, R, diffuseness=a)(np.array([1000.0]))[0] == 0.0
 
 
 # ---------------------------------------------------------------------------------------------

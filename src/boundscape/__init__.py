@@ -12,12 +12,16 @@ from .lazy import lazy_exports
 from .version import VERSION as __version__
 
 __getattr__, __dir__ = lazy_exports(__name__, {
-    name: ".engine" for name in ("BoundLevels", "Resolution", "bound_levels", "count_bound", "critical_screening_length",
+    name: ".engine" for name in ("BoundLevels", "Resolution", "bound_levels", "count_bound", "LevelSet", "level_set",
+                                 "critical_screening_length",
                                  "critical_strength", "zero_energy_solution", "Resonances", "resonances",
-                                 "dissolution_screening_length", "Lines", "lines")})
+                                 "dissolution_screening_length", "Lines", "lines", "Scattering", "scattering",
+                                 "PhaseShifts", "phase_shifts", "Fit", "solve_for", "ControlParameter", "OutOfReach")})
 
 __all__ = [
     "FAMILIES", "Potential", "potential", "family_parameters", "BoundLevels", "Resolution", "bound_levels",
+    "LevelSet", "level_set",
     "count_bound", "critical_screening_length", "critical_strength", "zero_energy_solution", "Resonances",
-    "resonances", "dissolution_screening_length", "Lines", "lines", "InputError", "ConvergenceError", "__version__",
+    "resonances", "dissolution_screening_length", "Lines", "lines", "Scattering", "scattering", "PhaseShifts",
+    "phase_shifts", "Fit", "solve_for", "ControlParameter", "OutOfReach", "InputError", "ConvergenceError", "__version__",
 ]

@@ -9,7 +9,8 @@ __all__ = ["LETTERS", "FAMILY_NAMES", "orbital_letter", "state_label", "parse_st
 # How titles and the cube name each engine family (the config keys are identifiers, not names).
 FAMILY_NAMES = {"coulomb": "Coulomb", "yukawa": "Yukawa", "ecsc": "exponential-cosine-screened Coulomb",
                 "hulthen": "Hulthén", "square_well": "square well", "harmonic": "harmonic oscillator",
-                "tabulated": "tabulated"}
+                "tabulated": "tabulated", "woods_saxon": "Woods–Saxon", "ion_sphere": "ion sphere",
+                "two_yukawa": "two-Yukawa (Malfliet–Tjon)"}
 
 # j is skipped by convention (common practice, no source).
 LETTERS = "spdfghiklmnoqrtuvwxyz"

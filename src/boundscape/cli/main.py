@@ -17,11 +17,11 @@ import math
 import os
 import sys
 
-from . import convert, lines, resonances
+from . import convert, fit, lines, resonances, scattering
 from .options import make_potential, parse_l_values, potential_args
 from .readings import describe, engine_length, engine_strength, reading_of, significant, title
-from .trade import critical_strengths, print_table, trade_columns, trade_notes
-from ..engine import bound_levels, critical_screening_length, family_info
+from .trade import print_table, trade_columns, trade_notes
+from ..engine import bound_levels, critical_screening_length, critical_strength, family_info
 from ..errors import ConvergenceError, InputError
 from ..labels import orbital_letter, state_label
 from ..physics.units import HARTREE_EV
@@ -49,16 +49,24 @@ def build_parser() -> argparse.ArgumentParser:
                     help="keep levels n_r < N (default: all; 20 for coulomb and harmonic)")
     lv.set_defaults(func=run_levels, parser=lv)
 
-    cr = sub.add_parser("critical", help="critical screening length of each state",
+    cr = sub.add_parser("critical", help="critical screening length (or strength) of each state",
                         description="The screening length λ_c below which each state (n, l) is not bound "
-                                    "(a table is always screened by exp(-r/λ) here).")
+                                    "(a table is always screened by exp(-r/λ) here); with --vary strength, the "
+                                    "strength below which it is not bound at a fixed --screening-length.")
     potential_args(cr, levels=False)
     cr.add_argument("--n-max", type=int, default=4, help="states with principal quantum number n ≤ N (default 4)")
+    cr.add_argument("--vary", choices=("screening_length", "strength"), default="screening_length",
+                    help="what is varied until each state is lost: the screening length at fixed --strength "
+                         "(default), or the strength at fixed --screening-length")
+    cr.add_argument("--screening-length", type=float, default=None,
+                    help="with --vary strength: the fixed screening length, in --length-unit (bohr by default)")
     cr.set_defaults(func=run_critical, parser=cr)
 
     convert.register(sub)
     resonances.register(sub)
     lines.register(sub)
+    scattering.register(sub)
+    fit.register(sub)
     return parser
 
 
@@ -126,13 +134,18 @@ def run_critical(args) -> int:
     ls = parse_l_values(args.l)
     if args.n_max < 1:
         raise InputError(f"--n-max must be at least 1, got {args.n_max}")
+    if args.vary == "strength":
+        return _critical_strengths(args, ls)
+    if args.screening_length is not None:
+        raise InputError("--screening-length applies to critical only with --vary strength (the screening length "
+                         "is what critical finds otherwise)")
     reading = reading_of(args)
     info = family_info(args.family)
     if not info.uses_screening_length(info.screened_parameters({})):
         raise InputError(f"family {args.family!r} has no screening length, so no state is ever lost; "
                          "critical lengths need a screened family")
-    if engine_length(args, reading)[0] is not None:  # a range (or density) given: the critical strength there
-        return critical_strengths(args, reading, ls)
+    if engine_length(args, reading)[0] is not None:  # a range (or density) fixes the length: vary the strength
+        return _critical_strengths(args, ls)
     strength, strength_text = engine_strength(args, reading)
     pot = make_potential(args, strength, 1.0)  # validates family and parameters
     unit, factor = reading.length_unit, reading.length_factor
@@ -161,6 +174,51 @@ def run_critical(args) -> int:
         print("# no states with n ≤ --n-max for these l")
     for key, text in notes.items():
         print(f"# {key}: {text}")
+    return 0
+
+
+def _critical_strengths(args, ls) -> int:
+    """``critical --vary strength``: the strength below which each state is lost, at a fixed length."""
+    reading = reading_of(args)
+    preset = reading.trade
+    for flag in {"--strength", preset.strength_flag}:
+        if getattr(args, flag.lstrip("-").replace("-", "_")) is not None:
+            raise InputError(f"{flag} does not apply with --vary strength: the strength is what critical finds")
+    lam, conditions = engine_length(args, reading)  # --screening-length, or the preset's --range, --density
+    if lam is None:
+        other = f" or {preset.length_flag[0]}" if preset.length_flag else ""
+        raise InputError(f"--vary strength needs --screening-length{other} (the fixed screening length)")
+    pot = make_potential(args, 1.0, lam)  # validates family and parameters (at strength 1)
+    if not pot.uses_screening_length:
+        raise InputError(f"family {args.family!r} has no screening length, so no state is ever lost; "
+                         "critical strengths need a screened family")
+    # the strength as the trade gives it (a nuclear g² in MeV fm), else the family's own
+    meaning = pot.info.strength_meaning if preset.strength_flag == "--strength" else preset.strength_meaning
+    # and, where the trade's strength has a unit, under a key that carries it (critical_coupling_MeV_fm)
+    name, attrs = preset.critical_strength_variable()
+    unit_key = f"{name}_{attrs['units'].replace(' ', '_')}" if attrs.get("units", "1") != "1" else None
+    rows = []
+    for l in ls:
+        for n in range(l + 1, args.n_max + 1):
+            z = critical_strength(args.family, lam, l, n - l - 1, pot.mass, **dict(pot.own))
+            shown = z if (math.isinf(z) or preset.strength_flag == "--strength") else float(preset.strength_values(z))
+            rows.append({"n": n, "l": l, "state": state_label(n, l), "n_r": n - l - 1,
+                         "critical_strength": shown if reading.preset is None else significant(shown, 13)})
+            if unit_key:
+                rows[-1][unit_key] = rows[-1]["critical_strength"]
+    length = f"{lam * reading.length_factor:.10g} {reading.length_unit}"
+    if args.format == "json":
+        description = describe(pot, reading, f"critical strength: {meaning}", conditions)
+        description.pop("strength")
+        print(json.dumps({"potential": description, "critical_strength_meaning": meaning, "states": rows}, indent=2))
+        return 0
+    print(f"# critical strengths ({meaning}) at λ = {length}, "
+          f"{title(pot, reading, 'strength varied', with_length=False)}")
+    print(f"{'n':>3} {'l':>2} {'state':>6} {'critical strength':>22}")
+    for row in rows:
+        print(f"{row['n']:>3} {row['l']:>2} {row['state']:>6} {row['critical_strength']:>22.13g}")
+    if not rows:
+        print("# no states with n ≤ --n-max for these l")
     return 0
 
 

@@ -6,11 +6,11 @@ from __future__ import annotations
 import argparse
 import math
 
-from ..engine import FAMILIES, potential_from_spec
+from ..engine import FAMILIES, ParameterError, family_info, potential_from_spec
 from ..errors import InputError
 from .readings import add_preset_arguments, engine_strength, reading_of, significant
 
-__all__ = ["parse_l_values", "potential_args", "make_potential", "describe", "title"]
+__all__ = ["parse_l_values", "parse_params", "potential_args", "make_potential", "describe", "title"]
 
 
 def parse_l_values(text: str) -> list[int]:
@@ -51,18 +51,64 @@ def potential_args(p: argparse.ArgumentParser, *, levels: bool, l_values: bool =
         p.add_argument("--screened", action="store_true", help="tabulated family: multiply the table by exp(-r/λ)")
     p.add_argument("--coulomb-tail", type=float, default=None,
                    help="tabulated family: declare a -Z/r tail beyond the table with this Z")
+    p.add_argument("--param", action="append", default=[], metavar="NAME=VALUE",
+                   help="a family's own parameter, repeatable, e.g. --param diffuseness=0.5 (woods_saxon, bohr); "
+                        "--param core_strength=2 --param core_range=0.5 (two_yukawa)")
     p.add_argument("--format", choices=("table", "json"), default="table", help="output format (default table)")
     add_preset_arguments(p)
 
 
+def parse_params(family: str, given: list[str], flagged: dict) -> dict:
+    """``--param NAME=VALUE`` options as {name: number}, checked against ``family``'s own
+    parameters (``flagged``: the parameters other flags set, which --param must not repeat)."""
+    info = family_info(family)
+    out: dict = {}
+    for text in given:
+        name, sep, value = text.partition("=")
+        name = name.strip()
+        if not sep or not name:
+            raise InputError(f"--param must be NAME=VALUE, got {text!r}")
+        if name in out:
+            raise InputError(f"--param {name} given twice; keep one")
+        if name in flagged:
+            raise InputError(f"--param {name}: give it with --{name.replace('_', '-')}, its own flag")
+        if name not in {q.name for q in info.parameters}:
+            raise info.unknown(name, " (--param)")
+        try:
+            out[name] = float(value)
+        except ValueError:
+            raise InputError(f"--param {name}={value}: the value must be a number") from None
+    return out
+
+
 def make_potential(args, strength, screening_length):
-    spec = {"family": args.family, "mass": 1.0 if args.mass is None else args.mass, "table": args.table,
-            "screened": getattr(args, "screened", False), "coulomb_tail": args.coulomb_tail}
-    return potential_from_spec(spec, strength, screening_length)
+    flagged = {"table": args.table, "screened": getattr(args, "screened", False), "coulomb_tail": args.coulomb_tail}
+    own = parse_params(args.family, getattr(args, "param", []), {"family", "mass", *flagged})
+    units = {q.name: q.unit for q in family_info(args.family).parameters}
+    dimensioned = [name for name in own if units[name] != "1"]
+    if dimensioned and reading_of(args).preset is not None:
+        # the engine runs in the preset's units there; the families' parameters are not read in them yet
+        raise InputError(f"--param {dimensioned[0]} is in {units[dimensioned[0]]}, which --preset {args.preset} does "
+                         "not read; leave out --preset (atomic units) for this family")
+    spec = {"family": args.family, "mass": 1.0 if args.mass is None else args.mass, **flagged, **own}
+    try:
+        return potential_from_spec(spec, strength, screening_length)
+    except ParameterError as exc:
+        if exc.parameter in flagged or exc.parameter in own:
+            raise
+        raise InputError(f"{exc}: give --param {exc.parameter}=VALUE") from None
+
+
+def _numbers(pot):
+    """The potential's own numeric parameters by name (what --param sets)."""
+    return {q.name: pot.params[q.name] for q in pot.info.parameters
+            if q.numeric and isinstance(pot.params.get(q.name), float)}
 
 
 def describe(pot, reading, strength_text, with_length=True):
     d = {"family": pot.family, "strength": pot.strength, "mass": pot.mass}
+    if _numbers(pot):
+        d["parameters"] = _numbers(pot)
     if reading.preset is not None or reading.length_unit != "bohr":
         d.update(units=reading.description, input=strength_text)
     if with_length and math.isfinite(pot.screening_length):
@@ -79,7 +125,10 @@ def title(pot, reading, strength_text, with_length=True):
         shown = pot.screening_length * reading.length_factor
         lam = f", λ = {shown:.10g} {reading.length_unit}"
     mass = f", mass {pot.mass:g} m_e" if reading.preset is None else ""
-    return f"{pot.info.display_name}, {strength_text}{lam}{mass} ({reading.description})"
+    units = {q.name: q.unit for q in pot.info.parameters}
+    own = "".join(f", {name} {value:.10g}{'' if units[name] == '1' else ' ' + units[name]}"
+                  for name, value in _numbers(pot).items())
+    return f"{pot.info.display_name}, {strength_text}{lam}{own}{mass} ({reading.description})"
 
 
 def atomic_potential(args, command: str):

@@ -25,7 +25,7 @@ from ..physics.screening import MODELS
 from ..physics.units import ATOMIC, BOHR_M, UnitSystem, convert
 
 __all__ = ["add_preset_arguments", "Reading", "reading_of", "engine_strength", "engine_length", "describe", "title",
-           "flag_value",
+           "flag_value", "own_parameters",
            "significant"]
 
 LENGTH_UNITS = ("bohr", "nm", "fm", "a*")
@@ -177,10 +177,19 @@ def engine_length(args, reading: Reading) -> tuple[float | None, dict]:
     return preset.command_line_length(value, reading.units), preset.command_line_conditions(value)
 
 
+def own_parameters(pot) -> dict:
+    """The potential's own numeric parameters by name (what ``--param`` sets)."""
+    return {q.name: pot.params[q.name] for q in pot.info.parameters
+            if q.numeric and isinstance(pot.params.get(q.name), float)}
+
+
 def describe(pot, reading: Reading, strength_text: str, conditions: dict | None = None, with_length: bool = True):
-    """The potential as the JSON output gives it: the engine's inputs (``strength``, ``mass`` and
-    ``screening_length_bohr``, whatever the units), the trade's reading, and the conditions."""
+    """The potential as the JSON output gives it: the engine's inputs (``strength``, ``mass``, its
+    own ``parameters`` and ``screening_length_bohr``, whatever the units), the trade's reading,
+    and the conditions."""
     d = {"family": pot.family, "strength": pot.strength, "mass": pot.mass}
+    if own_parameters(pot):
+        d["parameters"] = own_parameters(pot)
     if reading.trade.kind is not None or reading.length_unit != "bohr":
         d.update(units=reading.description, input=strength_text)
     if with_length and math.isfinite(pot.screening_length):
@@ -207,7 +216,10 @@ def title(pot, reading: Reading, strength_text: str, conditions: dict | None = N
     if with_length and math.isfinite(pot.screening_length):
         lam = f", λ = {pot.screening_length * reading.length_factor:.10g} {reading.length_unit}"
     mass = f", mass {pot.mass:g} m_e" if reading.trade.kind is None else ""
-    text = f"{pot.info.display_name}, {strength_text}{lam}{mass} ({reading.description})"
+    units = {q.name: q.unit for q in pot.info.parameters}
+    own = "".join(f", {name} {value:.10g}{'' if units[name] == '1' else ' ' + units[name]}"
+                  for name, value in own_parameters(pot).items())
+    text = f"{pot.info.display_name}, {strength_text}{lam}{own}{mass} ({reading.description})"
     if conditions:
         shown = ", ".join(f"{k} = {v:.6g}" if isinstance(v, float) else f"{k} = {v}" for k, v in conditions.items()
                           if k not in ("screening_validity_reason", "screening_species"))

@@ -1,19 +1,15 @@
 """Critical values in a trade's terms on the command line: where a state is lost as a density
 (plasma, at ``--temperature``; semiconductor, at ``--temperature-K``, with n_c^{1/3} a* beside
-Mott's criterion), and the critical coupling at a range (nuclear, ``critical --range``)."""
+Mott's criterion).  (The critical coupling at a range, ``critical --range``, is ``critical --vary
+strength`` in :mod:`.main`.)"""
 
 from __future__ import annotations
 
-import json
 import math
 
-from ..engine import critical_strength
-from ..errors import InputError
-from ..labels import state_label
-from .options import make_potential
-from .readings import flag_value, describe, engine_length, significant, title
+from .readings import flag_value, significant
 
-__all__ = ["trade_columns", "trade_notes", "print_table", "critical_strengths", "MOTT_CRITERION"]
+__all__ = ["trade_columns", "trade_notes", "print_table", "MOTT_CRITERION"]
 
 # Mott's criterion of the metal–insulator transition of a doped crystal, n_c^{1/3} a* ≈ 0.25
 # (Mott, Metal–Insulator Transitions, 1974; Edwards & Sienko, Phys. Rev. B 17, 2575 (1978) fit
@@ -61,30 +57,3 @@ def print_table(rows, first=("n", "l", "state")):
             shown = f"{value:.10g}" if isinstance(value, float) else str(value)
             cells.append(f"{shown:>{width[key]}}")
         print(" ".join(cells))
-
-
-def critical_strengths(args, reading, ls) -> int:
-    """``critical`` given the preset's screening condition (``--range``): each state's critical
-    strength there, in the trade's units (the nuclear g²_c in MeV fm)."""
-    preset = reading.trade
-    lam, conditions = engine_length(args, reading)
-    if flag_value(args, preset.strength_flag) is not None:
-        raise InputError(f"{preset.strength_flag} does not apply with {preset.length_flag[0]}: critical gives the "
-                         f"critical {preset.strength_meaning} at that {preset.length_flag[0].lstrip('-')}")
-    probe = make_potential(args, 1.0, lam)
-    name, attrs = preset.critical_strength_variable()
-    key = f"{name}_{attrs['units'].replace(' ', '_')}" if attrs.get("units", "1") != "1" else name
-    rows = []
-    for l in ls:
-        for n in range(l + 1, args.n_max + 1):
-            value = critical_strength(args.family, lam, l, n - l - 1, probe.mass, **dict(probe.own))
-            shown = float(preset.strength_values(value)) if math.isfinite(value) else math.inf
-            rows.append({"n": n, "l": l, "state": state_label(n, l), "n_r": n - l - 1, key: significant(shown)})
-    what = attrs["long_name"].split(" below")[0]
-    if args.format == "json":
-        print(json.dumps({"potential": describe(probe, reading, f"{what} of each state", conditions), "states": rows},
-                         indent=2))
-        return 0
-    print(f"# {what} of each state, {title(probe, reading, probe.info.display_name, conditions)}")
-    print_table(rows, ("n", "l", "state"))
-    return 0

@@ -25,6 +25,7 @@ from ..sweep.line_tiles import LINE_VARS
 from .conditions import layout_of, write_mapped
 from .model import LEVEL_VARS, NUM_BOUND_UNKNOWN, build_cube, strength_attributes
 from .netcdf import open_for_filling, read_part, read_part_variables, write_cube
+from .parameters import add_family_parameters
 from .physical import add_physical_coordinates, add_trade_variables
 from .resonances import RESONANCE_VARS, add_resonances
 from .resonances import placeholders as resonance_placeholders
@@ -205,6 +206,7 @@ def collect(config: dict, tile_paths, critical_paths, output, summary=None) -> s
     preset = from_config(config.get("preset"), config["grid"])
     ds = add_physical_coordinates(ds, preset)
     ds = add_trade_variables(ds, preset, plan, criticals)
+    ds = add_family_parameters(ds, plan.engine)  # potential: diffuseness, core_strength, ... as scalar coordinates
     write_cube(ds, output, fill=_fill_levels(plan, tile_paths, LEVEL_VARS + (RESONANCE_VARS if past else ()), layout))
     cells = f"{plan.num_cells} cells ({' x '.join(map(str, shape))})"
     if layout.mapped:

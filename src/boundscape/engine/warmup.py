@@ -24,6 +24,7 @@ def warm_up(families=None) -> float:
     from . import richardson  # noqa: F401
     from .bound import bound_levels, cell, critical_screening_length, design, mapping, numerov, search  # noqa: F401
     from .bound import zero_energy_solution
+    from .continuum import regular  # noqa: F401  (the zero-energy and scattering solutions)
     from .potentials import exterior, kernels  # noqa: F401
 
     for name in FAMILIES if families is None else families:

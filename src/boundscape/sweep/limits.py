@@ -11,6 +11,7 @@ from __future__ import annotations
 
 import math
 
+from ..engine.limits import MAX_CRITICAL_STATES, MAX_L
 from ..errors import InputError
 
 __all__ = ["LIMITS", "N_R_MAX_LIMIT", "L_LIMIT", "axis_size", "check_limits", "max_tiles"]
@@ -21,14 +22,11 @@ __all__ = ["LIMITS", "N_R_MAX_LIMIT", "L_LIMIT", "axis_size", "check_limits", "m
 #   max_tiles: Snakemake keeps every job of the plan in memory; 20,000 one-cell tiles took
 #   about 20 s and 0.5 GB to plan (a dry run, measured on the development machine).
 LIMITS = {"max_cells": 10_000_000, "max_tiles": 50_000}
-# Levels kept per l. The critical lengths' root searches cost about n_r_max² per l (yukawa,
-# l = 0 and 5: 0.6 s at 20 levels, 7.7 s at 100, 35 s at 200, measured): a few hundred levels
-# is more than any screened system keeps bound.
-N_R_MAX_LIMIT = 200
-# A level of angular momentum l has n > l; a hydrogen-like one has <r> = (3n² - l(l+1))/(2Z)
-# bohr (any QM textbook), about 10^6/Z bohr at n = l + 1 = 1001: beyond any screened ion,
-# donor or nucleus this models.
-L_LIMIT = 1000
+# Levels kept per l, and the largest l: the engine's own limits (boundscape.engine.limits; the
+# critical lengths' root searches cost about n_r_max² per l: yukawa, l = 0 and 5: 0.6 s at 20
+# levels, 7.7 s at 100, 35 s at 200, measured).
+N_R_MAX_LIMIT = MAX_CRITICAL_STATES
+L_LIMIT = MAX_L
 # The grid's strength axis, and the trades' condition axes that replace screening_length
 # (boundscape.physics.presets: condition_keys); read here from the raw config, before any preset.
 STRENGTH_AXES = ("strength", "coupling_MeV_fm", "coupling")

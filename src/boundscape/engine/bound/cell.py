@@ -42,27 +42,39 @@ ROW = {name: i for i, name in enumerate(
      "uend0", "uend1", "uend2", "beta", "c", "tc", "t0", "t1", "n", "e0", "e1", "e2", "passes", "attempts"))}
 REASONS = ("", "level below the reach of every grid tried", "level not bound on its grid (within discretisation "
            "error of threshold)", "Newton iteration on the coarse grid failed", "Newton iteration on a finer grid "
-           "failed", "error estimate exceeds the tolerance", "no attempt converged")
+           "failed", "error estimate exceeds the tolerance", "no attempt converged",
+           "its grid would exceed the engine's limit on grid nodes (engine.limits.MAX_NODES)")
 _WIDTH = len(ROW)
 
 
-@njit([(FORMULA, A1, A1, A2, f8, i8, A1, A1, f8, f8, f8, f8, f8, f8, f8,)], cache=True)
-def zero_energy_count(vfun, fp, tx, tcoef, mass, l, rs, veff, r_min, support, r_core, scale, theta, h_max, margin):
+@njit([(FORMULA, A1, A1, A2, f8, i8, A1, A1, f8, f8, f8, f8, f8, f8, f8, i8,)], cache=True)
+def zero_energy_count(vfun, fp, tx, tcoef, mass, l, rs, veff, r_min, support, r_core, scale, theta, h_max, margin,
+                      max_nodes):
     """The exact count and its status (1: the marginal μ_k did not converge): Sturm counts on the
-    E = 0 grid at 0 and ±margin·scale; only a μ_k within that margin of zero can be misjudged by
-    the coarse count (two states within discretisation error of threshold at once do not occur),
-    and it is settled on the grid h/2 if its sign is clearly beyond its error there, else
-    extrapolated from h, h/2, h/4 (as the critical lengths are, so that a cell just on either
-    side of a threshold is counted consistently with its critical length)."""
+    E = 0 grids h and h/2 at 0, and on h at ±margin·scale.  A μ_k whose sign the two grids
+    disagree on, or that lies within the margin of zero, is the one the coarse count may misjudge
+    (two states within discretisation error of threshold at once do not occur); it is settled on
+    the grid h/2 if its sign is clearly beyond its error there, else extrapolated from h, h/2, h/4
+    (as the critical lengths are, so that a cell just on either side of a threshold is counted
+    consistently with its critical length).  The h/2 count catches a coarse grid whose error
+    exceeds the margin (the ion sphere's 2p just above threshold: μ off by 1.2e-5 of Z²μ on h, by
+    7e-7 on h/2).  Status 2: the grid would exceed ``max_nodes`` (the count is then not known)."""
     beta, c, tc, t0, t1, n = design(rs, veff, mass, l, 0.0, r_min, support, r_core, theta, h_max)
+    if 4 * n > max_nodes:
+        return -1, 2
     a, g_end, gp_end = build(vfun, fp, tx, tcoef, mass, l, beta, c, tc, t0, t1, n, support, 1)
     fixed = -l / support
     prm = grid_parameters(mass, l, TAIL_FIXED, fixed, support, g_end, gp_end, scale, False)
     h = (t1 - t0) / n
     count = sturm(a, prm, 1, n, h, 0.0)
+    half, g_half, gp_half = build(vfun, fp, tx, tcoef, mass, l, beta, c, tc, t0, t1, n, support, 2)
+    prm_half = grid_parameters(mass, l, TAIL_FIXED, fixed, support, g_half, gp_half, scale, False)
+    count_half = sturm(half, prm_half, 1, 2 * n, h / 2.0, 0.0)
     delta = margin * scale
     k = -1
-    if count > 0 and sturm(a, prm, 1, n, h, -delta) < count:
+    if count_half != count:
+        k = min(count, count_half)
+    elif count > 0 and sturm(a, prm, 1, n, h, -delta) < count:
         k = count - 1
     elif sturm(a, prm, 1, n, h, delta) > count:
         k = count
@@ -76,8 +88,10 @@ def zero_energy_count(vfun, fp, tx, tcoef, mass, l, rs, veff, r_min, support, r_
     for i in range(3):
         if i == 0:
             fine, ge, gpe = a, g_end, gp_end
+        elif i == 1:
+            fine, ge, gpe = half, g_half, gp_half
         else:
-            fine, ge, gpe = build(vfun, fp, tx, tcoef, mass, l, beta, c, tc, t0, t1, n, support, 2 * i)
+            fine, ge, gpe = build(vfun, fp, tx, tcoef, mass, l, beta, c, tc, t0, t1, n, support, 4)
         prm = grid_parameters(mass, l, TAIL_FIXED, fixed, support, ge, gpe, scale, False)
         nn = n * (1 if i == 0 else 2 * i)
         out = solve_grid(fine, prm, 1, nn, (t1 - t0) / nn, k, start, start, np.empty(nn + 2), False)
@@ -123,9 +137,10 @@ def _put(res, i, t):
     res[i, 5] = t[5]
 
 
-@njit([(FORMULA, A1, A1, A2, f8, i8, i8, f8, f8, b1, f8, i8, f8, f8, f8, f8, f8, f8, f8, A1, A1, i8, f8, A1,)], cache=True)
+@njit([(FORMULA, A1, A1, A2, f8, i8, i8, f8, f8, b1, f8, i8, f8, f8, f8, f8, f8, f8, f8, A1, A1, i8, f8, i8, A1,)],
+      cache=True)
 def _level(vfun, fp, tx, tcoef, mass, l, kind, tail_p, support, jumps, scale, k, guess, theta0, h_max, rtol, decay,
-           r_min, r_core, rs, veff, attempts, roundoff, row):
+           r_min, r_core, rs, veff, attempts, roundoff, max_nodes, row):
     """Level k of the cell: fills ``row`` (columns in :data:`ROW`)."""
     bound = kind != TAIL_CONFINING
     energy = guess
@@ -150,6 +165,9 @@ def _level(vfun, fp, tx, tcoef, mass, l, kind, tail_p, support, jumps, scale, k,
             rs, veff, _, _ = samples(vfun, fp, tx, tcoef, mass, l, r_min, R, rs.size)
         closed = math.isfinite(support) and R >= support * (1.0 - 1e-12)
         beta, c, tc, t0, t1, n = design(rs, veff, mass, l, energy, r_min, R, r_core, theta, h_max)
+        if 4 * n > max_nodes:
+            why = 7
+            break
         a, g_end, gp_end = build(vfun, fp, tx, tcoef, mass, l, beta, c, tc, t0, t1, n, R, 4)
         prm = grid_parameters(mass, l, kind, tail_p, R, g_end, gp_end, scale, bound)
         h = (t1 - t0) / n
@@ -240,20 +258,24 @@ def _level(vfun, fp, tx, tcoef, mass, l, kind, tail_p, support, jumps, scale, k,
 
 
 
-@njit([(FORMULA, A1, A1, A2, f8, i8, i8, f8, f8, b1, f8, f8, f8, f8, f8, i8, f8, f8, f8, f8, f8, i8, i8, f8,)], cache=True)
+@njit([(FORMULA, A1, A1, A2, f8, i8, i8, f8, f8, b1, f8, f8, f8, f8, f8, i8, f8, f8, f8, f8, f8, i8, i8, f8, i8,)],
+      cache=True)
 def solve_cell(vfun, fp, tx, tcoef, mass, l, kind, tail_p, support, jumps, r_min, r_core, scale, reach, e_top,
-               keep_max, theta0, h_max, rtol, margin, decay, n_samples, attempts, roundoff):
+               keep_max, theta0, h_max, rtol, margin, decay, n_samples, attempts, roundoff, max_nodes):
     """Count and levels of one cell.  ``kind`` the tail (exterior.TAIL_*), ``tail_p`` its charge or
     ω; the grids start at ``r_min`` with their inner knee near ``r_core``; ``e_top`` the top of
     the window for first guesses; ``keep_max`` the levels wanted (−1: all, short range only).
-    Returns (count, status of the count, rows) with one row per level (columns in ROW)."""
+    Returns (count, status of the count, rows) with one row per level (columns in ROW); no grid
+    holds more than ``max_nodes`` nodes (a count beyond it is status 2, with no rows)."""
     confining = kind == TAIL_CONFINING
     rs, veff, vl, dln = samples(vfun, fp, tx, tcoef, mass, l, r_min, reach, n_samples)
     count = -1
     count_status = 0
     if kind == TAIL_SHORT:
         count, count_status = zero_energy_count(vfun, fp, tx, tcoef, mass, l, rs, veff, r_min, support, r_core,
-                                                 scale, theta0, h_max, margin)
+                                                 scale, theta0, h_max, margin, max_nodes)
+        if count_status != 0:
+            return count, count_status, np.full((0, _WIDTH), np.nan)
         keep = count if keep_max < 0 else min(count, keep_max)
     else:
         keep = keep_max
@@ -267,7 +289,7 @@ def solve_cell(vfun, fp, tx, tcoef, mass, l, kind, tail_p, support, jumps, r_min
             guess = -1e-10 * scale
         row = rows[k]
         _level(vfun, fp, tx, tcoef, mass, l, kind, tail_p, support, jumps, scale, k, guess, theta0, h_max, rtol,
-               decay, r_min, r_core, rs, veff, attempts, roundoff, row)
+               decay, r_min, r_core, rs, veff, attempts, roundoff, max_nodes, row)
     return count, count_status, rows
 
 

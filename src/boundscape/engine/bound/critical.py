@@ -14,10 +14,13 @@ from scipy.optimize import brentq
 
 from ...checks import quantum_number
 from ...errors import InputError
+from ..limits import MAX_CRITICAL_STATES, check_count, check_l
 from ..potentials import family_info, potential
 from .zero_energy import THETA_CRITICAL, zero_energy_problem
 
 __all__ = ["critical_screening_length", "critical_strength"]
+
+_WHY = "a root search per state, costing ~n_r² per l"
 
 
 def _screened(family, strength, lam, mass, own):
@@ -94,8 +97,8 @@ def critical_screening_length(family: str, strength: float, l: int, n_r: int, ma
     For one-scale families λ_c(Z, μ) = λ_c(1, 1)/(Zμ), which is exact for V = Z f(r/λ)/r, so the
     dimensionless root is computed once per (family, parameters, l, n_r) and cached.
     """
-    l = quantum_number(l)
-    n_r = quantum_number(n_r, "n_r")
+    l = check_l(quantum_number(l))
+    n_r = check_count(quantum_number(n_r, "n_r"), "n_r", MAX_CRITICAL_STATES - 1, _WHY)
     info = family_info(family)
     own = _prepared(family, mass, params)
     if not info.uses_screening_length(dict(own)):
@@ -117,8 +120,8 @@ def critical_strength(family: str, screening_length: float, l: int, n_r: int, ma
 
     For one-scale families Z_c = λ_c(1, 1)/(μλ).  Returns ``math.inf`` if never bound.
     """
-    l = quantum_number(l)
-    n_r = quantum_number(n_r, "n_r")
+    l = check_l(quantum_number(l))
+    n_r = check_count(quantum_number(n_r, "n_r"), "n_r", MAX_CRITICAL_STATES - 1, _WHY)
     info = family_info(family)
     own = _prepared(family, mass, params)
     if not info.uses_screening_length(dict(own)):

@@ -26,13 +26,14 @@ from ...errors import ConvergenceError
 from ...labels import state_label
 from ..potentials.exterior import (GAUSS_NODES, GAUSS_WEIGHTS, TAIL_CONFINING, TAIL_PANELS, survey_window, tail_code,
                                    tail_integrals)
+from ..limits import MAX_LEVELS, MAX_NODES, check_count, check_l
 from ..richardson import extrapolate_grids
 from ..status import NOT_CONVERGED, OK
 from .cell import REASONS, solve_cell
 from .design import DECAY_LENGTHS, SAMPLES, arrays_for
 from .mapping import H_MAX, THETA, MappedGrid, origin_radius
 from .search import grid_parameters, solve_grid
-from .zero_energy import MARGIN
+from .zero_energy import MARGIN, too_many_states
 
 __all__ = ["BoundLevels", "bound_levels", "LevelSolution", "solve_level", "level_solutions", "level_on_grid",
            "Resolution", "DEFAULT_LEVELS", "RTOL"]
@@ -124,10 +125,10 @@ def bound_levels(pot, l: int, n_r_max: int | None = None, wavefunctions: bool = 
     -------
     BoundLevels
     """
-    l = quantum_number(l)
+    l = check_l(quantum_number(l))
     keep_max = -1
     if n_r_max is not None:
-        keep_max = quantum_number(n_r_max, "n_r_max")
+        keep_max = check_count(quantum_number(n_r_max, "n_r_max"), "n_r_max", MAX_LEVELS, "levels of one l per call")
     elif pot.tail != "short":
         keep_max = DEFAULT_LEVELS
     count, solved = _cell(pot, l, keep_max, rtol, resolution)
@@ -187,7 +188,9 @@ def _cell(pot, l, keep_max, rtol=RTOL, resolution=Resolution()):
         pot.info.kernel, *pot.kernel_inputs, float(pot.mass), int(l), kind, p, float(pot.support),
         pot.jumps_at_support, r_min, 0.1 * pot.length_scale, float(pot.energy_scale), _reach(pot, l, keep_max),
         _top(pot, l, keep_max), int(keep_max), float(resolution.theta), H_MAX, float(rtol), MARGIN,
-        float(resolution.decay_lengths), SAMPLES, ATTEMPTS, ROUNDOFF)
+        float(resolution.decay_lengths), SAMPLES, ATTEMPTS, ROUNDOFF, MAX_NODES)
+    if count_status == 2:
+        raise too_many_states(pot, l)
     if count_status:
         raise ConvergenceError(f"zero-energy eigenvalue of l={l} for {pot} near threshold did not converge")
     solved = []
@@ -250,8 +253,8 @@ def solve_level(pot, l: int, n_r: int, rtol: float = RTOL, wavefunction: bool = 
     LevelSolution
         The same energy bits as :func:`bound_levels` gives for this level.
     """
-    l = quantum_number(l)
-    n_r = quantum_number(n_r, "n_r")
+    l = check_l(quantum_number(l))
+    n_r = check_count(quantum_number(n_r, "n_r"), "n_r", MAX_LEVELS - 1, "levels of one l per call")
     count, solved = _cell(pot, l, _wanted(pot, n_r + 1), rtol)
     if n_r >= len(solved):
         raise ConvergenceError(f"level n_r={n_r}, l={l} is not bound in {pot} (it binds {count})")
@@ -264,8 +267,8 @@ def solve_level(pot, l: int, n_r: int, rtol: float = RTOL, wavefunction: bool = 
 def level_solutions(pot, l: int, keep: int, rtol: float = RTOL) -> list:
     """The lowest ``keep`` levels of ``l`` that are bound (fewer if fewer are), each a
     :class:`LevelSolution` with its grids, as :func:`bound_levels` solves them."""
-    l = quantum_number(l)
-    keep = quantum_number(keep, "keep")
+    l = check_l(quantum_number(l))
+    keep = check_count(quantum_number(keep, "keep"), "keep", MAX_LEVELS, "levels of one l per call")
     if keep == 0:
         return []
     return _cell(pot, l, _wanted(pot, keep), rtol)[1][:keep]
@@ -298,6 +301,7 @@ def level_on_grid(pot, l: int, n_r: int, grid: MappedGrid, energy: float):
         ∫ f u_a u_b dr over the box with an error series in h⁴, h⁶.
     """
     l, n_r = quantum_number(l), quantum_number(n_r, "n_r")
+    check_count(grid.n, "the grid's nodes", MAX_NODES, "the arrays of one grid, ~160 MB")
     arrays = arrays_for(pot, l, grid, refine=1)  # the nodes of ``grid`` only (stride 1)
     e, status, norm, uend2, w = _eigenpair(pot, l, arrays, n_r, energy)
     if status != 0:

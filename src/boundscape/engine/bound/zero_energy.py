@@ -16,12 +16,14 @@ over the coarse grid; the count itself, with its marginal μ_k settled, is the c
 
 from __future__ import annotations
 
+import math
 from dataclasses import dataclass, field
 
 import numpy as np
 
 from ...checks import quantum_number
 from ...errors import ConvergenceError, InputError
+from ..limits import MAX_NODES, LimitError, check_l
 from ..potentials.exterior import TAIL_FIXED
 from ..richardson import FACTORS, extrapolate
 from .cell import zero_energy_count
@@ -30,8 +32,8 @@ from .mapping import H_MAX, REFINE, THETA, MappedGrid, origin_radius
 from .numerov import outward_solution
 from .search import grid_parameters, solve_grid, sturm
 
-__all__ = ["ZeroEnergyProblem", "zero_energy_problem", "count_bound", "zero_energy_solution", "MARGIN",
-           "THETA_CRITICAL"]
+__all__ = ["ZeroEnergyProblem", "zero_energy_problem", "count_bound", "zero_energy_solution", "too_many_states",
+           "MARGIN", "THETA_CRITICAL"]
 
 # Coarse-grid μ_k are within ~1e-7 of the scale of their extrapolated values on the test
 # cells; a margin 100× wider decides which need extrapolating.
@@ -117,7 +119,26 @@ def zero_energy_problem(pot, l: int, theta: float = THETA, like: MappedGrid | No
     r_min = origin_radius(pot, l)
     beta, c, tc, t0, t1, n = design(rs, veff, float(pot.mass), int(l), 0.0, r_min, R, 0.1 * pot.length_scale,
                                     float(theta), H_MAX)
+    if REFINE * n > MAX_NODES:
+        raise LimitError(f"l={l}: the zero-energy problem of {pot.family} at strength {pot.strength:g}, screening "
+                         f"length {pot.screening_length:g} needs {REFINE * n:.2g} grid nodes, beyond the engine's limit "
+                         f"of {MAX_NODES:.0e} (~160 MB): it binds too many states to count")
     return ZeroEnergyProblem(pot, l, MappedGrid(r_min, R, beta, c, tc, t0, t1, int(n)))
+
+
+def too_many_states(pot, l) -> LimitError:
+    """The error for a potential whose bound states of ``l`` are too many to count on a grid within
+    :data:`..limits.MAX_NODES`, with their number by Langer's WKB rule,
+    N ≈ (1/π)∫√(2μ max(0, −V_L)) dr + ½ (an estimate, not a count)."""
+    r, _, v_langer, dln = samples(pot.info.kernel, *pot.kernel_inputs, float(pot.mass), int(l), origin_radius(pot, l),
+                                  float(pot.support), SAMPLES)
+    phase = float(np.sum(np.sqrt(2.0 * pot.mass * np.maximum(-v_langer, 0.0)) * r) * dln)
+    wkb = phase / math.pi + 0.5
+    return LimitError(f"l={l}: counting the bound states of {pot.family} at strength {pot.strength:g}, screening length "
+                      f"{pot.screening_length:g} bohr needs a grid beyond the engine's limit of {MAX_NODES:.0e} nodes "
+                      f"(~160 MB): it binds about {wkb:.2g} of them (WKB estimate). A screening length this far beyond "
+                      "the levels' size leaves the lowest levels at their unscreened values to ~Z/λ; use the unscreened "
+                      "family, or a shorter screening length")
 
 
 def count_bound(pot, l: int) -> int:
@@ -125,14 +146,16 @@ def count_bound(pot, l: int) -> int:
 
     Returns -1 for potentials that bind infinitely many (Coulomb tail, confining).
     """
-    l = quantum_number(l)
+    l = check_l(quantum_number(l))
     if pot.tail != "short":
         return -1
     R = float(pot.support)
     rs, veff, _, _ = _samples(pot, l, R)
     count, status = zero_energy_count(pot.info.kernel, *pot.kernel_inputs, float(pot.mass), l, rs, veff,
                                       origin_radius(pot, l), R, 0.1 * pot.length_scale, float(pot.energy_scale),
-                                      THETA, H_MAX, MARGIN)
+                                      THETA, H_MAX, MARGIN, MAX_NODES)
+    if status == 2:
+        raise too_many_states(pot, l)
     if status:
         raise ConvergenceError(f"zero-energy eigenvalue of l={l} for {pot} near threshold did not converge")
     return int(count)

@@ -58,6 +58,7 @@ from ...checks import quantum_number
 from ...errors import ConvergenceError, InputError
 from ...labels import state_label
 from ..bound.zero_energy import count_bound
+from ..limits import MAX_LOST, check_count, check_l
 from ..potentials import Potential
 from ..status import DISSOLVED, NOT_CONVERGED, OK
 from .outgoing import CUT_TOLERANCE
@@ -149,7 +150,7 @@ def resonances(pot: Potential, l: int, n_r_max: int | None = None, *, num_bound:
     InputError
         For a Coulomb or confining tail (no state is ever lost), or bad arguments.
     """
-    l = quantum_number(l)
+    l = check_l(quantum_number(l))
     if pot.tail != "short":
         raise InputError(f"family {pot.family!r} has a {pot.tail} tail: every state stays bound, so no state turns "
                          "into a resonance or virtual state; resonances need a short-range potential")
@@ -166,6 +167,8 @@ def resonances(pot: Potential, l: int, n_r_max: int | None = None, *, num_bound:
         num_bound = count_bound(pot, l)
     num_bound = quantum_number(num_bound, "num_bound")
     stop = num_bound + DEFAULT_LOST if n_r_max is None else n_r_max
+    check_count(stop - num_bound, "states past the bound ones", MAX_LOST, "each followed from its threshold, "
+                "~0.2-0.5 s; far above threshold they have long dissolved")
     scaled = dimensionless(pot) if matching_radius is None else None
     rows = []
     for n_r in range(num_bound, max(stop, num_bound)):

@@ -37,15 +37,15 @@ import numpy as np
 
 
 __all__ = ["riccati_hankel_log_derivative", "outgoing_log_derivative", "analytic_potential", "is_compact",
-           "exterior_cut", "CUT_TOLERANCE", "ROUNDOFF", "EXTENDED_ROUNDOFF"]
+           "exterior_cut", "TailCorrection", "CUT_TOLERANCE", "ROUNDOFF", "BORN_LIMIT"]
 
 # The tail left out beyond the cut changes the exterior log-derivative by at most this, relative
 # (a first-order, Born, estimate of the neglected part; common practice, no source).
 CUT_TOLERANCE = 1e-15
 ROUNDOFF = 1e-16  # relative round-off of one carried solution (double precision)
-# ... in extended precision (numpy's long double: 64-bit mantissa on x86-64, quad on aarch64;
-# where it is no longer than a double, extended precision gains nothing and costs little)
-EXTENDED_ROUNDOFF = max(float(np.finfo(np.longdouble).eps), 1e-19)
+# A tail taken to second order (TailCorrection) may be at most this large, relative: its third
+# order, the part left out, is then below its cube.
+BORN_LIMIT = 1e-4
 
 
 def riccati_hankel_log_derivative(l: int, z):
@@ -104,7 +104,7 @@ def is_compact(pot) -> bool:
 
 
 def exterior_cut(v_abs, t, r_abs, mass: float, k: complex, angle: float, t_ref: float | None = None,
-                 tolerance: float = CUT_TOLERANCE, roundoff: float = ROUNDOFF):
+                 tolerance: float = CUT_TOLERANCE, corrected: bool = False):
     """Where along a path the potential may be left out, and what that costs.
 
     ``v_abs`` is |gV| sampled at path parameters ``t`` (ascending, from the matching point) with
@@ -116,10 +116,11 @@ def exterior_cut(v_abs, t, r_abs, mass: float, k: complex, angle: float, t_ref: 
 
     Where the outgoing wave grows along the path (σ < 0: a virtual state, or a resonance on the
     real axis) W is its small recessive partner's coefficient, so both that error and round-off
-    ε (``roundoff``: that of double or of extended precision) are amplified, relative to W, by
-    G(t) = e^{−σ(t − t_ref)} (t_ref, default the first sample: where the potential stops holding
-    the solution).  The cut is the first sample with δ ≤ ``tolerance`` if G is 1 there, else
-    the one that minimises (max(δ, tolerance) + ε)·G.
+    ε are amplified, relative to W, by G(t) = e^{−σ(t − t_ref)} (t_ref, default the first sample:
+    where the potential stops holding the solution).  The cut is the first sample with
+    δ ≤ ``tolerance`` if G is 1 there, else the one that minimises (max(δ, tolerance) + ε)·G.
+    With ``corrected`` the tail beyond the cut is taken to second order (:class:`TailCorrection`):
+    what is left out is of order δ³, so δ³ takes δ's place (and δ ≤ BORN_LIMIT).
 
     Returns (index of the cut, or None if the tail is not negligible anywhere on the sample;
     G there; (δ + ε)·G there, an estimate of the relative error the exterior leaves in W)."""
@@ -141,8 +142,74 @@ def exterior_cut(v_abs, t, r_abs, mass: float, k: complex, angle: float, t_ref: 
     delta = tail
     log_growth = np.minimum(max(0.0, -sigma) * np.maximum(t - (t[0] if t_ref is None else t_ref), 0.0), 700.0)
     growth = np.exp(log_growth)
-    cost = (np.maximum(delta, tolerance) + roundoff) * growth
+    left_out = delta**3 if corrected else delta
+    cost = (np.maximum(left_out, tolerance) + ROUNDOFF) * growth
+    if corrected:
+        cost = np.where(delta <= BORN_LIMIT, cost, np.inf)
     j = int(np.argmin(cost[:-1]))
-    if not delta[j] < 1e-3:
+    if not (delta[j] < 1e-3 and math.isfinite(cost[j])):
         return None, math.inf, math.inf
-    return j, float(growth[j]), float((delta[j] + roundoff) * growth[j])
+    return j, float(growth[j]), float((left_out[j] + ROUNDOFF) * growth[j])
+
+
+class TailCorrection:
+    """The outgoing s-wave solution at the cut R with the potential's tail beyond R taken to second
+    order, for l = 0 (the virtual states, whose wave grows across the tail).
+
+    With q = ik and U = 2μgV, u'' = (q² + U)u has the outgoing solution
+    u(r) = e^{qr} + ∫_r^∞ K(r, r′) U(r′) u(r′) dr′, K = sinh(q(r′ − r))/q (variation of parameters;
+    e.g. Newton, *Scattering Theory of Waves and Particles*, 2nd ed., §12.1), and
+    u′(r) = q e^{qr} − ∫_r^∞ cosh(q(r′ − r)) U u dr′.  Iterated twice from u₀ = e^{qr} (the Born
+    series, converging like δ^n with δ the tail's relative size at R): with s = r′ − R and
+    everything scaled by e^{−qR},
+
+        u₁(s) = [e^{−qs} C₁(s) − e^{qs} C₀(s)]/(2q),   C₁ = ∫_s^∞ e^{2qs′}U ds′,  C₀ = ∫_s^∞ U ds′,
+        u(R)  = 1 + u₁(0) + ∫₀^∞ sinh(qs)/q · U u₁ ds,
+        u′(R) = q − ½ ∫₀^∞ (e^{2qs} + 1) U ds − ∫₀^∞ cosh(qs) U u₁ ds.
+
+    The first-order integrals are Simpson sums on a uniform grid in s (error ~h⁴ of a term ≤ δ);
+    the second order, itself of order δ², by trapezoidal cumulative sums.  The integrals converge
+    where Re 2q is below the tail's decay rate (a virtual state short of the branch point); the
+    grid ends where the integrands have fallen by e^{−60}, or where e^{qs} would near overflow."""
+
+    NODES = 4097  # odd, for Simpson's rule
+
+    def __init__(self, pot, mass: float, R: float, span: float):
+        self.s = np.linspace(0.0, span, self.NODES)
+        self.h = self.s[1] - self.s[0]
+        self.u = 2.0 * mass * np.asarray(pot(R + self.s), dtype=float)
+        w = np.full(self.NODES, 2.0)
+        w[1::2] = 4.0
+        w[0] = w[-1] = 1.0
+        self.simpson = w * self.h / 3.0
+
+    def _tail_sum(self, f):
+        # ∫_s^∞ f ds′ at every node, trapezoidal, from the far end
+        inner = 0.5 * self.h * (f[1:] + f[:-1])
+        out = np.zeros_like(f)
+        out[:-1] = np.cumsum(inner[::-1])[::-1]
+        return out
+
+    def outgoing(self, k: complex, g: float) -> np.ndarray:
+        """(u, u′) at R of the outgoing solution for coupling g, scaled by e^{−qR} (q = ik)."""
+        q = 1j * complex(k)
+        s, U = self.s, g * self.u
+        with np.errstate(over="ignore", invalid="ignore"):
+            e_plus, e_minus = np.exp(q * s), np.exp(-q * s)
+            grow = e_plus * e_plus
+            if q != 0:
+                sinhc = (e_plus - e_minus) / (2.0 * q)  # sinh(qs)/q
+                c1, c0 = self._tail_sum(grow * U), self._tail_sum(U.astype(complex))
+                u1 = (e_minus * c1 - e_plus * c0) / (2.0 * q)
+            else:
+                sinhc = s.astype(complex)
+                u1 = self._tail_sum(s * U) - s * self._tail_sum(U)  # the q → 0 limit
+                u1 = u1.astype(complex)
+            first_u = np.sum(self.simpson * sinhc * e_plus * U)
+            first_du = -0.5 * np.sum(self.simpson * (grow + 1.0) * U)
+            second_u = np.sum(self.simpson * sinhc * U * u1)
+            second_du = -np.sum(self.simpson * 0.5 * (e_plus + e_minus) * U * u1)
+        out = np.array([1.0 + first_u + second_u, q + first_du + second_du], dtype=complex)
+        if not np.all(np.isfinite(out)):
+            raise ArithmeticError("the tail beyond the exterior cut could not be summed at this k")
+        return out

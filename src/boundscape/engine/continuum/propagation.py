@@ -99,19 +99,18 @@ class Segment:
 
 def step_matrices(h, dr_dx, q) -> np.ndarray:
     """exp(Ω) of every step (shape (n, 2, 2), complex), from the step h in x (one, or one per
-    step) and dr/dx and Q at the Gauss nodes (shape (n, 2)); in the precision of the inputs
-    (complex, or numpy's extended ``clongdouble`` where the caller needs more digits)."""
+    step) and dr/dx and Q at the Gauss nodes (shape (n, 2))."""
     d1, d2 = dr_dx[:, 0], dr_dx[:, 1]
     a = -(math.sqrt(3.0) / 12.0) * h * h * d1 * d2 * (q[:, 1] - q[:, 0])
     b = 0.5 * h * (d1 + d2)
     c = 0.5 * h * (d1 * q[:, 0] + d2 * q[:, 1])
-    s2 = (a * a + b * c).astype(np.result_type(a, b, c, complex))
+    s2 = (a * a + b * c).astype(complex)
     s = np.sqrt(s2)
     small = np.abs(s) < 1e-3
     # sinh(s)/s by its series where s is small (both are even in s: the root's branch is irrelevant)
     sinhc = np.where(small, 1.0 + s2 / 6.0 * (1.0 + s2 / 20.0), np.sinh(s) / np.where(small, 1.0, s))
     cosh = np.cosh(s)
-    out = np.empty((a.size, 2, 2), dtype=np.result_type(a, b, c, complex))
+    out = np.empty((a.size, 2, 2), dtype=complex)
     out[:, 0, 0] = cosh + sinhc * a
     out[:, 0, 1] = sinhc * b
     out[:, 1, 0] = sinhc * c

@@ -37,7 +37,7 @@ from scipy.optimize import brentq
 from ...errors import ConvergenceError
 from ..bound.mapping import origin_radius
 from ..richardson import extrapolate
-from .outgoing import (CUT_TOLERANCE, EXTENDED_ROUNDOFF, analytic_potential, exterior_cut, is_compact,
+from .outgoing import (CUT_TOLERANCE, TailCorrection, analytic_potential, exterior_cut, is_compact,
                        outgoing_log_derivative)
 from .propagation import RadialMap, Segment, chain, chain_inward, running, step_matrices
 
@@ -55,10 +55,6 @@ THRESHOLD_FACTORS = (2, 4, 8)
 RAY_ANGLE = math.radians(30.0)  # the exterior ray's angle, where the tail has a continuation
 NARROW_GROWTH = 10.0  # below this round-off amplification the real axis serves (narrow poles)
 MAX_CUT_ERROR = 1e-6  # a pole whose exterior cut leaves more relative error in W is out of reach
-# a contour whose cut leaves more than this in double precision is carried in extended precision
-# (the virtual states of exponential tails: the wave grows by e^{2κ_v R} across the tail, and
-# the cut that balances the neglected tail against round-off left 1e-9..1e-7 of κ_v in double)
-EXTEND_ABOVE = 1e-10
 SAMPLES = 400  # of the potential along a path, to place the cut, the well and the map
 
 
@@ -76,7 +72,7 @@ class Contour:
     r_end: complex
     growth: float  # round-off amplification of the outgoing solution along the outer segment
     cut_error: float = 0.0  # relative error the exterior cut leaves in W (tail left out, round-off)
-    extended: bool = False  # the steps are carried in numpy's extended precision (clongdouble)
+    tail: TailCorrection | None = None  # l = 0: the tail beyond the cut, to first order
     _points: dict = field(default_factory=dict, repr=False)
 
     @property
@@ -102,11 +98,7 @@ class Contour:
 
     def _steps(self, part, energy):
         h, d, v, cent = part
-        q = cent + 2.0 * self.channel.mass * (self.g * v - energy)
-        if self.extended:  # the same steps, carried with a longer mantissa
-            return step_matrices(np.asarray(h, dtype=np.longdouble), np.asarray(d, dtype=np.clongdouble),
-                                 np.asarray(q, dtype=np.clongdouble))
-        return step_matrices(h, d, q)
+        return step_matrices(h, d, cent + 2.0 * self.channel.mass * (self.g * v - energy))
 
     def regular_start(self):
         """(u, u') of the regular solution at the first node, to first order in the potential."""
@@ -126,7 +118,9 @@ class Contour:
     def _wronskian(self, k, energy, inner, outer):
         y_reg = chain(self._steps(inner, energy)) @ self.regular_start()
         l = self.channel.l
-        if outer is None:
+        if outer is None and self.tail is not None:
+            y_out = self.tail.outgoing(k, self.g)
+        elif outer is None:
             y_out = np.array([1.0, outgoing_log_derivative(l, k, self.r_match)])
         else:
             scale = cmath.exp(1j * k * (self.r_end - self.r_match))
@@ -156,6 +150,18 @@ class Contour:
         A = (y[-1, 1] + l * u[-1] / R) / ((2 * l + 1) * R**l)
         nodes = int(np.count_nonzero(np.signbit(u[1:]) != np.signbit(u[:-1])))
         return A, nodes + int(A * u[-1] < 0)
+
+
+def _tail_span(t, v, j, kappa) -> float:
+    """How far past the cut t[j] the tail's integrals must reach: until |V|·e^{2κs} has fallen
+    by e^{−60} from its largest value beyond the cut (the samples reach 4× past the potential's
+    range), and no further than where e^{κs} nears overflow."""
+    s = t[j:] - t[j]
+    with np.errstate(divide="ignore"):
+        log_f = np.log(np.abs(v[j:]) + 1e-300) + 2.0 * kappa * s
+    keep = np.nonzero(log_f >= np.max(log_f) - 60.0)[0]
+    span = float(s[keep[-1]]) if keep.size else float(s[-1])
+    return max(min(span, 300.0 / max(kappa, 1e-300)), 1e-12 * t[j])
 
 
 class Channel:
@@ -258,13 +264,10 @@ class Channel:
             kappa = abs(k)
             free = np.nonzero(2 * mass * g * np.abs(v) > kappa * kappa)[0]
             t_ref = float(t[free[-1]]) if free.size else float(t[0])
+            # the tail beyond the cut enters to second order (TailCorrection): the cut moves in to
+            # where the third order is negligible, and the growth it costs in round-off with it
             j, growth, cut_error = exterior_cut(np.abs(g * v), t, t, mass, k, 0.0, t_ref=t_ref,
-                                                tolerance=self.tail_tolerance)
-            extended = j is not None and cut_error > EXTEND_ABOVE
-            if extended:  # a longer mantissa lets the cut move out, where less tail is left out
-                j, growth, cut_error = exterior_cut(np.abs(g * v), t, t, mass, k, 0.0, t_ref=t_ref,
-                                                    tolerance=min(self.tail_tolerance, EXTENDED_ROUNDOFF),
-                                                    roundoff=EXTENDED_ROUNDOFF)
+                                                tolerance=self.tail_tolerance, corrected=True)
             if j is None:
                 raise ValueError("the potential's tail decays no faster than the outgoing wave grows "
                                  "(past the branch point of an exponential tail, κ = half its decay rate)")
@@ -273,7 +276,8 @@ class Channel:
                                  f"relative error {cut_error:.1e} (the wave grows by {growth:.1e} across it)")
             R = float(t[j])
             rmap = self._map(g, k, [(t[: j + 1], v[: j + 1])])
-            return Contour(self, g, rmap, [self._segment(rmap, r0, R)], None, R, R, growth, cut_error, extended)
+            tail = TailCorrection(self.pot, mass, R, _tail_span(t, v, j, kappa))
+            return Contour(self, g, rmap, [self._segment(rmap, r0, R)], None, R, R, growth, cut_error, tail)
         r_m = self.matching_radius if self.matching_radius is not None else self.well_bottom(g)
         if r_m is None:
             raise ValueError("the effective potential has no well left to hold the state")

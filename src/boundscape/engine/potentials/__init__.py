@@ -2,7 +2,7 @@
 cell and its builders.  Imports no compiler: the compiled formulas (:mod:`.kernels`) and the
 exterior kernels (:mod:`.exterior`) load numba when a solver first asks for them."""
 
-from . import builtin, tabulated  # noqa: F401  (registers the families)
+from . import builtin, nuclear_wells, tabulated  # noqa: F401  (registers the families)
 from .family import FAMILIES, Family, Parameter, ParameterError, family_info, register
 from .cell_potential import Potential, potential, potential_from_spec
 from .tables import Table, load_table, validate_table

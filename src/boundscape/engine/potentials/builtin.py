@@ -13,7 +13,7 @@ import numpy as np
 
 from .family import Family, register
 
-__all__ = ["Coulomb", "Yukawa", "ExponentialCosineScreenedCoulomb", "Hulthen", "SquareWell", "Harmonic"]
+__all__ = ["Coulomb", "Yukawa", "ExponentialCosineScreenedCoulomb", "Hulthen", "IonSphere", "SquareWell", "Harmonic"]
 
 
 class ScreenedCoulomb(Family):
@@ -82,6 +82,42 @@ class Hulthen(ScreenedCoulomb):
         t = r / p[1]
         # -expm1(-t) keeps 1 - e^{-t} accurate at small r, where V -> -Z/r.
         return -(p[0] / p[1]) * np.exp(-t) / (-np.expm1(-t))
+
+
+@register
+class IonSphere(ScreenedCoulomb):
+    """A nucleus of charge Z neutralised by a uniform cloud of Z electrons inside the ion-sphere
+    radius R (the ion-sphere model of dense plasmas; Salpeter, Aust. J. Phys. 7, 373 (1954),
+    reference from memory):
+
+        V(r) = −Z/r + Z(3 − r²/R²)/(2R) = −Z (R − r)²(r + 2R)/(2rR³)   for r < R,   0 beyond
+
+    (the second term is the potential inside a uniformly charged sphere, from Gauss's law:
+    common practice).  strength = Z, screening_length = R.  One-scale, V = Z·f(r/R)/r.  V and V′
+    vanish at R and V″ jumps there, from −3Z/R³ to 0; the factored form keeps V's digits near R.
+
+    Past R, ``continued`` (the solver's ghost nodes beyond a box that ends at R) gives the
+    interior polynomial: V is then smooth across the box's end, as the Richardson error series
+    assumes, while the exterior solution closes the box exactly at R.  So no box has to end at R
+    (``jumps_at_support`` stays false: a deep level's box ends well inside).
+    """
+
+    name, formula_text = "ion_sphere", "-Z/r + Z(3 - r²/R²)/(2R) for r<R, 0 outside"
+    display_name = "ion sphere"
+    one_scale = True
+    strength_meaning, length_meaning = "Z (nuclear charge number)", "ion-sphere radius R (bohr)"
+    strength_long_name = "charge number Z of the nucleus in its ion sphere"
+    length_long_name = "ion-sphere radius"
+
+    @staticmethod
+    def formula(r, p, x, c, continued):
+        # p = (Z, R, μ)
+        R = p[1]
+        d = R - r
+        return 0.0 - p[0] * d * d * (r + 2.0 * R) / (2.0 * r * R * R * R) * (continued | (r < R))
+
+    def support(self, pot):
+        return float(pot.screening_length)
 
 
 @register

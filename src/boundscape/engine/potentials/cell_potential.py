@@ -150,7 +150,34 @@ def potential(family: str, strength: float | None = None, screening_length: floa
         lam = positive("screening_length", screening_length, where=where)
     else:
         lam = math.inf
-    return Potential(family, strength, lam, mass, tuple(sorted(own.items())))
+    return _representable(Potential(family, strength, lam, mass, tuple(sorted(own.items()))))
+
+
+# Scales a double can carry through the solver (squares, exponentials of ratios): far beyond any
+# physical problem in any unit system, and far inside what overflows (common practice, no source).
+_SCALE_RANGE = (1e-100, 1e100)
+
+
+def _representable(pot: Potential) -> Potential:
+    """``pot`` if its energy and length scales (and range) are numbers the solver can carry."""
+    from ...errors import InputError
+
+    lo, hi = _SCALE_RANGE
+    try:
+        scales = {"energy scale": pot.energy_scale, "length scale": pot.length_scale}
+        support = pot.support
+    except (OverflowError, ZeroDivisionError):
+        scales, support = {"energy scale": math.inf}, math.inf
+    for name, value in scales.items():
+        if not (lo <= abs(value) <= hi):
+            raise InputError(f"{pot.family} at strength {pot.strength:g}, screening length {pot.screening_length:g}, "
+                             f"mass {pot.mass:g}: its {name} ({value:.3g}) is beyond what double precision carries "
+                             f"through the solver ({lo:g} to {hi:g}); state the problem in units where its numbers "
+                             "are of order one")
+    if pot.tail == "short" and not (math.isfinite(support) and support <= hi):
+        raise InputError(f"{pot.family} at screening length {pot.screening_length:g}: its range ({support:.3g} bohr) is "
+                         "beyond what the solver can grid; use a shorter screening length or the unscreened family")
+    return pot
 
 
 def potential_from_spec(spec: dict, strength: float, screening_length: float | None) -> Potential:

@@ -120,8 +120,8 @@ class Family:
         for q in self.parameters:
             value = params.get(q.name, q.default)
             if value is None and q.default is None and q.numeric:
-                raise ParameterError(q.name, f"family {self.name!r} needs parameter {q.name!r} ({q.long_name}, "
-                                             f"{q.unit}){where}")
+                raise ParameterError(q.name, f"parameter {q.name!r} ({q.long_name}, {q.unit}) is required"
+                                             f"{where or f' for family {self.name!r}'}")
             try:
                 out[q.name] = q.convert(q.name, value) if (q.convert is not None and value is not None) else value
             except InputError as exc:
