@@ -78,6 +78,7 @@ def plasma_cube(tmp_path_factory):
     (changed(PLASMA, preset={"kind": "semiconductor"}), "grid.electron_density", "needs preset kind plasma"),
     (changed(PLASMA, preset={"kind": "plasma", "temperature_eV": 10.0}), "preset.temperature_eV", "remove it"),
     (changed(PLASMA, potential__family="coulomb"), "potential.family", "no screening length"),
+    (changed(PLASMA, potential__family="square_well"), "potential.family", "not a screening length"),
     (changed(PLASMA, grid__strength=None), "grid.strength", "needs it"),
     (changed(PLASMA, preset={"kind": "plasma", "screening": "quantum"}), "preset.screening", "finite_temperature"),
     (changed(NUCLEAR, grid__strength=[1.0]), "grid.strength", "grid.coupling"),

@@ -161,6 +161,11 @@ def _check_conditions(grid, section, preset, family, uses_length):
         raise InputError(f"config key potential.family: family {family} has no screening length, so the conditions "
                          f"({', '.join(preset.condition_keys)}) change nothing; use yukawa, ecsc, hulthen or a "
                          "screened table")
+    length = FAMILIES[family].length_long_name
+    if length != "screening length":  # a well's radius is not what a density and temperature set
+        raise InputError(f"config key potential.family: family {family}'s length is its {length}, not a screening "
+                         f"length, so the conditions ({', '.join(preset.condition_keys)}) cannot set it; sweep "
+                         "grid.screening_length instead")
     strength_axis = preset.condition_strength_key
     for key in ("strength", "coupling_MeV_fm"):
         if key != strength_axis and key in grid:
