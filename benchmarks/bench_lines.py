@@ -1,6 +1,6 @@
 """Line benchmark: boundscape.lines against boundscape.bound_levels, per cell, side by side.
 
-The cells are the demo sweep's (config/config.yaml): Yukawa, Z = 1..6, λ from 0.3 to 300 bohr
+The cells are those of config/sweeps/debye_lengths.yaml (the demo before condition axes): Yukawa, Z = 1..6, λ from 0.3 to 300 bohr
 (48, log-spaced).  A sweep cell here is one (Z, λ): for the levels that is every l of the demo
 (0..3, n_r_max = 8, one bound_levels call each), for the lines the demo's configured lines
 (pairs=…, as the sweep asks) and, beside it, every line with n ≤ 4 (no pairs).
@@ -22,7 +22,7 @@ import yaml
 import boundscape as bs
 from boundscape.labels import parse_state
 
-CONFIG = Path(__file__).resolve().parents[1] / "config" / "config.yaml"
+CONFIG = Path(__file__).resolve().parents[1] / "config" / "sweeps" / "debye_lengths.yaml"
 
 
 def timed(fn, items):

@@ -1,6 +1,6 @@
 """Resonance benchmark: boundscape.resonances against boundscape.bound_levels, per cell, side by side.
 
-The cells are the demo sweep's (config/config.yaml): Yukawa, Z = 1..6, λ from 0.3 to 300 bohr
+The cells are those of config/sweeps/debye_lengths.yaml (the demo before condition axes): Yukawa, Z = 1..6, λ from 0.3 to 300 bohr
 (48, log-spaced), l = 0..3, n_r_max = 8, i.e. every state n_r < 8 that a cell does not bind.
 Printed, from one run on one machine:
 
@@ -32,7 +32,7 @@ import yaml
 import boundscape as bs
 from boundscape.engine import DISSOLVED, NOT_CONVERGED, OK
 
-CONFIG = Path(__file__).resolve().parents[1] / "config" / "config.yaml"
+CONFIG = Path(__file__).resolve().parents[1] / "config" / "sweeps" / "debye_lengths.yaml"
 
 
 def demo_cells(quick=False):

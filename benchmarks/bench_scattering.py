@@ -1,7 +1,7 @@
 """Scattering benchmark: boundscape.scattering and phase_shifts against boundscape.bound_levels,
 per cell, side by side in one run.
 
-The cells are the demo sweep's (config/config.yaml): Yukawa, Z = 1..6, λ from 0.3 to 300 bohr
+The cells are those of config/sweeps/debye_lengths.yaml (the demo before condition axes): Yukawa, Z = 1..6, λ from 0.3 to 300 bohr
 (48, log-spaced), l = 0..3.  Printed, from one run on one machine:
 
 * bound_levels per cell (every level with n_r < n_r_max, as a sweep solves a cell);
@@ -29,7 +29,7 @@ import yaml
 
 import boundscape as bs
 
-CONFIG = Path(__file__).resolve().parents[1] / "config" / "config.yaml"
+CONFIG = Path(__file__).resolve().parents[1] / "config" / "sweeps" / "debye_lengths.yaml"
 
 
 def demo_cells(quick=False):
