@@ -76,6 +76,7 @@ class Plan:
     conditions: ConditionGrid | None = None
     length_index: np.ndarray | None = None
     critical_strengths: bool = False  # also the critical strength at each screening length (block 0)
+    scattering: dict | None = None  # {"energies": [...]} (the cube's energy unit; [] for true), or None: off
 
     @property
     def num_cells(self) -> int:
@@ -111,6 +112,8 @@ class Plan:
                 "screening_length_index": list(tile.screening_length_index)}
         if self.lines:
             spec["lines"] = list(self.lines)
+        if self.scattering is not None:
+            spec["scattering"] = self.scattering
         return spec
 
     def tile_paths(self, results) -> list[str]:
@@ -126,6 +129,7 @@ class Plan:
         # Critical lengths do not depend on the λ grid; only its ends decide the flags in collect.
         spec.pop("screening_length"), spec.pop("screening_length_index")
         spec.pop("lines", None)
+        spec.pop("scattering", None)
         if self.critical_strengths and block.index == 0:  # the critical strength at every length, once
             spec["critical_strength_at"] = self.screening_length.tolist()
         return spec
@@ -222,7 +226,17 @@ def plan(config: dict) -> Plan:
     return Plan(config["sweep"], engine, strength, screening_length, l_values, n_r_max,
                 tuple(tiles), critical_blocks, tuple(label_of(p) for p in line_pairs(config.get("lines"))),
                 conditions, length_index,
-                preset.critical_strengths_wanted and bool(np.isfinite(screening_length).all()))
+                preset.critical_strengths_wanted and bool(np.isfinite(screening_length).all()),
+                _scattering(config.get("scattering", False)))
+
+
+def _scattering(section):
+    """What a tile spec carries of ``scattering``: None (off), or the energies (the cube's energy
+    unit, ascending; empty for ``true``)."""
+    if section is False:
+        return None
+    energies = [] if section is True else axis_values(section["energies"], "scattering.energies").tolist()
+    return {"energies": energies}
 
 
 # Screening lengths closer than this (relative) are one engine cell: on log grids λ ∝ √(T/n)
