@@ -116,8 +116,8 @@ def add_scattering(ds, plan, tile_paths, layout):
         mass = float(plan.engine["mass"])
         coords[ENERGY_DIM] = (ENERGY_DIM, e, {
             "long_name": "collision energy E in the centre-of-mass frame", **energy,
-            "comment": "E = (hbar k)^2/(2 mu) above threshold, in the cube's energy unit (the configured "
-                       "scattering.energies)"})
+            "comment": "E = (hbar k)^2/(2 mu) above threshold: the configured scattering.energies, given in the "
+                       "preset's energy unit (hartree without a preset), stored in the cube's energy unit"})
         coords["scattering_momentum"] = (ENERGY_DIM, np.sqrt(2.0 * mass * e), {
             "long_name": "relative momentum k of the collision energy", **wavenumber,
             "comment": "k = sqrt(2 mu E)/hbar"})

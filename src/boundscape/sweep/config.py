@@ -20,8 +20,9 @@ import yaml
 from ..engine import FAMILIES, ParameterError, potential
 from ..errors import InputError
 from ..physics.presets import PRESETS, from_config, is_condition_sweep
-from .limits import axis_size, check_limits
+from .limits import check_limits
 from .lines import check_lines
+from .scattering_config import check_scattering
 
 __all__ = ["SCHEMA_PATH", "load_config", "load_yaml", "read_config_files", "config_file_error", "schema_error", "validate_config",
            "config_text", "axis_values", "DEFAULT_CELLS_PER_TILE", "GRID_AXES"]
@@ -104,7 +105,7 @@ def validate_config(config: dict) -> dict:
     if config["resonances"]:
         _check_resonances(family, own)
     if config.get("scattering", False) is not False:
-        _check_scattering(config["scattering"], family, own, grid)
+        check_scattering(config["scattering"], family, own, int(axis_values(grid["l"], "l").max()))
     pot["mass"] = _sweep_mass(pot.get("mass"), config.get("preset") or {}, preset)
     axes = [name for name in GRID_AXES if name in grid]
     for name in axes:
@@ -142,39 +143,6 @@ def _check_resonances(family, own):
     if probe.tail != "short":
         raise InputError(f"config key resonances: family {family} has a {probe.tail} tail, so every state stays "
                          "bound and none turns into a resonance; set resonances: false")
-
-
-# Energies a sweep's phase shifts may ask for: each cell solves and stores every one (five
-# values each), as it stores at most 200 levels per l (common practice, no source).
-MAX_SCATTERING_ENERGIES = 200
-
-
-def _check_scattering(section, family, own, grid):
-    """``scattering: true`` or ``{energies: [...]}``: a short-range family, l within what the
-    engine's scattering computes, and at most :data:`MAX_SCATTERING_ENERGIES` distinct finite
-    energies (the schema has checked they are positive numbers)."""
-    from ..engine.continuum.scattering import MAX_L  # the solver's own limit (loads it: only when asked)
-
-    probe = potential(family, 1.0, 1.0, **own)
-    if probe.tail != "short":
-        raise InputError(f"config key scattering: family {family} has a {probe.tail} tail; scattering lengths and "
-                         "phase shifts need a short-range potential (a Coulomb tail needs Coulomb functions); "
-                         "remove the key")
-    top = int(axis_values(grid["l"], "l").max())
-    if top > MAX_L:
-        raise InputError(f"config key scattering: grid.l reaches {top}, above {MAX_L}, the largest l scattering "
-                         "computes (δ_l falls like (kR)^(2l+1)); lower grid.l or remove the key")
-    if section is True:
-        return
-    size = axis_size(section["energies"], "energies")  # before building: num may be huge
-    if size > MAX_SCATTERING_ENERGIES:
-        raise InputError(f"config key scattering.energies: {size:,} energies, over the limit of "
-                         f"{MAX_SCATTERING_ENERGIES} (every cell solves and stores each); split them over sweeps")
-    energies = axis_values(section["energies"], "scattering.energies")
-    if not np.all(np.isfinite(energies)):
-        raise InputError("config key scattering.energies: values must be finite")
-    if np.unique(energies).size != energies.size:
-        raise InputError("config key scattering.energies: repeated values")
 
 
 def _check_conditions(grid, section, preset, family, uses_length):

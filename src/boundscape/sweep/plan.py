@@ -26,6 +26,7 @@ from ..version import VERSION
 from .config import axis_values, validate_config
 from .limits import check_limits, max_tiles
 from .lines import label_of, line_pairs
+from .scattering_tiles import scattering_spec
 
 __all__ = ["Plan", "Tile", "plan", "tile_layout", "distinct_lengths", "TILE_FILE", "CRITICAL_FILE", "SAME_LENGTH"]
 
@@ -76,7 +77,7 @@ class Plan:
     conditions: ConditionGrid | None = None
     length_index: np.ndarray | None = None
     critical_strengths: bool = False  # also the critical strength at each screening length (block 0)
-    scattering: dict | None = None  # {"energies": [...]} (the cube's energy unit; [] for true), or None: off
+    scattering: dict | None = None  # {"energies": [...]} (engine units; [] for true), or None: off
 
     @property
     def num_cells(self) -> int:
@@ -227,16 +228,7 @@ def plan(config: dict) -> Plan:
                 tuple(tiles), critical_blocks, tuple(label_of(p) for p in line_pairs(config.get("lines"))),
                 conditions, length_index,
                 preset.critical_strengths_wanted and bool(np.isfinite(screening_length).all()),
-                _scattering(config.get("scattering", False)))
-
-
-def _scattering(section):
-    """What a tile spec carries of ``scattering``: None (off), or the energies (the cube's energy
-    unit, ascending; empty for ``true``)."""
-    if section is False:
-        return None
-    energies = [] if section is True else axis_values(section["energies"], "scattering.energies").tolist()
-    return {"energies": energies}
+                scattering_spec(config.get("scattering", False), preset, float(pot["mass"])))
 
 
 # Screening lengths closer than this (relative) are one engine cell: on log grids λ ∝ √(T/n)

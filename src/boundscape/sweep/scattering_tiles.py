@@ -19,9 +19,10 @@ import numpy as np
 from .. import engine
 from ..engine import INPUT_REJECTED, NOT_CONVERGED, OK
 from ..errors import ConvergenceError, InputError
+from .config import axis_values
 
 __all__ = ["SCATTERING_VARS", "SCATTERING_FLAGS", "PHASE_VARS", "PHASE_FLAGS", "NOT_SOLVED", "ENERGY_DIM",
-           "PART_CELL_DIMS", "wanted", "energies", "variable_names", "empty_arrays", "solve_cell", "part_dims",
+           "PART_CELL_DIMS", "scattering_spec", "wanted", "energies", "variable_names", "empty_arrays", "solve_cell", "part_dims",
            "part_attrs"]
 
 SCATTERING_VARS = ("scattering_length", "scattering_length_error", "inverse_scattering_length",
@@ -37,13 +38,26 @@ ENERGY_DIM = "scattering_energy"
 PART_CELL_DIMS = ("strength", "screening_length", "l")  # a tile's engine cells
 
 
+def scattering_spec(section, preset, mass: float) -> dict | None:
+    """What the plan and each tile spec carry of the config's ``scattering``: None (off), or
+    ``{"energies": [...]}``, the configured energies (the preset's energy unit, hartree without a
+    preset) in the engine's unit, ascending; empty for ``true``."""
+    if section is False:
+        return None
+    if section is True:
+        return {"energies": []}
+    energies = axis_values(section["energies"], "scattering.energies")
+    _, factor = preset.shown_energy_unit(mass)  # engine unit -> the preset's; (None, None) without one
+    return {"energies": (energies / factor if factor else energies).tolist()}
+
+
 def wanted(spec: dict) -> bool:
     """Whether a tile spec asks for scattering."""
     return spec.get("scattering") is not None
 
 
 def energies(spec: dict) -> list:
-    """The configured energies (the cube's energy unit, = the engine's); empty for ``true``."""
+    """The configured energies in the engine's (and the cube's) energy unit; empty for ``true``."""
     return list(spec["scattering"]["energies"])
 
 
