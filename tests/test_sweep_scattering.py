@@ -252,6 +252,16 @@ def test_inverse_length_figure_puts_each_zero_on_its_loss(yukawa):
         assert abs(math.log(zero / lost)) < step, (row, name, lost, zero)
     gids = {artist.get_gid() for ax in fig.axes for artist in ax.get_children()}
     assert {"zero:1s", "loss:1s", "zero:2p"} <= gids
+    from matplotlib.backends.backend_agg import FigureCanvasAgg
+
+    FigureCanvasAgg(fig)
+    renderer = fig.canvas.get_renderer()
+    for ax in fig.axes:  # every loss named once, no two names overlapping (common practice, no source)
+        labels = [t for t in ax.texts if (t.get_gid() or "").startswith("label:")]
+        lines = [line for line in ax.get_lines() if (line.get_gid() or "").startswith("loss:")]
+        assert sorted(t.get_gid()[6:] for t in labels) == sorted(line.get_gid()[5:] for line in lines)
+        boxes = [t.get_window_extent(renderer) for t in labels]
+        assert not [(a, b) for i, a in enumerate(boxes) for b in boxes[i + 1:] if a.overlaps(b)]
     for ax in fig.axes:  # mathtext, never an ASCII underscore in a label
         assert "_" not in ax.get_title() and ("_" not in ax.get_ylabel() or "$" in ax.get_ylabel())
 

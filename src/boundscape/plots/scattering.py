@@ -15,10 +15,14 @@ from matplotlib.figure import Figure
 
 from ..labels import state_label
 from ..physics.presets import NO_PRESET
+from .level_fan import place_in_rows
 from .style import energy_unit, family_title, shade_invalid_x, tidy_log_axis, unit_names
 from .views import fan_view, picks
 
 __all__ = ["inverse_length_figure", "phase_shift_figure", "zero_crossings"]
+
+LABEL_WIDTH = 0.06  # a rotated 7-point state name: about this fraction of a panel's log-x span wide
+ROW_POINTS = 17  # vertical step between rows of labels
 
 
 def zero_crossings(x, inverse, count):
@@ -73,6 +77,7 @@ def inverse_length_figure(ds, preset=NO_PRESET, strengths=None):
     axes = fig.subplots(len(view.rows), len(ls), sharex=True, squeeze=False)
     colors = matplotlib.colormaps["viridis"](np.linspace(0, 0.85, ds.sizes["n_r"]))
     zeros, invalid = {}, None
+    span = math.log10(x.max() / x.min()) or 1.0
     for row, fan in enumerate(view.rows):
         for col, l in enumerate(ls):
             ax = axes[row, col]
@@ -89,6 +94,7 @@ def inverse_length_figure(ds, preset=NO_PRESET, strengths=None):
                     color="k", lw=1.2, zorder=3, gid=f"inverse_length:l{l}")
             ax.plot(x, inverse, ".", color="k", ms=3, zorder=3)
             found = dict(zero_crossings(x, inverse, count))
+            marks = []
             for k, n_r in enumerate(ds["n_r"].values):
                 if fan.critical is None:
                     break
@@ -97,13 +103,12 @@ def inverse_length_figure(ds, preset=NO_PRESET, strengths=None):
                     continue
                 name = state_label(int(ds["n"].sel(l=l, n_r=n_r)), int(l))
                 ax.axvline(lost, color=colors[k], ls="--", lw=1.0, zorder=2, gid=f"loss:{name}")
-                ax.annotate(name, (lost, 1.0), xycoords=("data", "axes fraction"), xytext=(2, -2),
-                            textcoords="offset points", rotation=90, ha="left", va="top", fontsize=7,
-                            color=colors[k])
+                marks.append((math.log10(lost), name, colors[k]))
                 if int(n_r) in found:
                     zeros[(fan.key, name)] = (lost, found[int(n_r)])
                     ax.plot([found[int(n_r)]], [0.0], "o", mfc="none", mec=colors[k], ms=7, mew=1.5, zorder=4,
                             gid=f"zero:{name}")
+            _label_losses(ax, marks, span)
             ax.set_title(f"{fan.title}, $l$ = {l}", fontsize=9)
     tidy_log_axis(axes[-1, 0].xaxis, x.min(), x.max())
     for row in range(len(view.rows)):
@@ -119,6 +124,16 @@ def inverse_length_figure(ds, preset=NO_PRESET, strengths=None):
     fig.supxlabel(view.x_label, fontsize="medium")
     fig.suptitle(f"Inverse scattering length of the {family_title(ds)}: zero where a state is lost")
     return fig, {"zeros": zeros}
+
+
+def _label_losses(ax, marks, span):
+    """Each loss's state name at the top of its dashed line, in rows so that none overlaps."""
+    rows = place_in_rows([m[0] for m in marks], LABEL_WIDTH * span)
+    for (xm, name, color), r in zip(marks, rows):
+        ax.annotate(name, (10 ** xm, 1.0), xycoords=("data", "axes fraction"), xytext=(0, -3 - ROW_POINTS * r),
+                    textcoords="offset points", rotation=90, ha="center", va="top", fontsize=7, color=color,
+                    zorder=5, gid=f"label:{name}",
+                    bbox={"boxstyle": "square,pad=0.1", "facecolor": "white", "edgecolor": "none", "alpha": 0.85})
 
 
 def _x_at(x, where):
