@@ -121,6 +121,7 @@ def test_energies_are_read_in_the_presets_energy_unit():
     assert plain.scattering["energies"] == [0.05, 0.5]
     assert sweep.plan({**SQUARE, "scattering": True}).scattering == {"energies": []}
     assert sweep.plan({k: v for k, v in SQUARE.items() if k != "scattering"}).scattering is None
+    assert sweep.plan({**SQUARE, "scattering": False}).scattering is None
 
 
 # -- the square well against its closed forms --------------------------------------------------
@@ -264,6 +265,22 @@ def test_inverse_length_figure_puts_each_zero_on_its_loss(yukawa):
         assert not [(a, b) for i, a in enumerate(boxes) for b in boxes[i + 1:] if a.overlaps(b)]
     for ax in fig.axes:  # mathtext, never an ASCII underscore in a label
         assert "_" not in ax.get_title() and ("_" not in ax.get_ylabel() or "$" in ax.get_ylabel())
+
+
+def test_figures_of_a_sweep_without_screening_length(tmp_path):
+    # an unscreened short-range table (a Gaussian well −S exp(−r²)) swept over its strength S
+    r = np.linspace(0.01, 8.0, 400)
+    np.savetxt(tmp_path / "gauss.csv", np.c_[r, -np.exp(-r * r)], delimiter=",", header="r,V", comments="")
+    ds = build(tmp_path / "cube", {"sweep": "tab", "potential": {"family": "tabulated", "table": str(tmp_path / "gauss.csv")},
+                                   "scattering": {"energies": [0.01, 0.1]},
+                                   "grid": {"strength": {"start": 0.5, "stop": 20, "num": 12, "spacing": "log"},
+                                            "l": [0], "n_r_max": 2}})
+    with matplotlib.rc_context(RC):
+        fig, _ = inverse_length_figure(ds)
+        phase_shift_figure(ds)
+    rings = [line for ax in fig.axes for line in ax.get_lines() if (line.get_gid() or "").startswith("zero:")]
+    count = ds["num_bound"].sel(l=0).values.ravel()
+    assert len(rings) == int(count[-1] - count[0]) >= 1  # one ring per state gained along the strength
 
 
 def test_zero_crossings_skips_a_through_infinity():

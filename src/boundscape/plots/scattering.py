@@ -16,8 +16,9 @@ from matplotlib.figure import Figure
 from ..labels import state_label
 from ..physics.presets import NO_PRESET
 from .level_fan import place_in_rows
-from .style import energy_unit, family_title, shade_invalid_x, tidy_log_axis, unit_names
-from .views import fan_view, picks
+from .style import (energy_unit, family_title, shade_invalid_x, strength_label, strength_values, tidy_log_axis,
+                    unit_names)
+from .views import FanRow, FanView, fan_view, picks
 
 __all__ = ["inverse_length_figure", "phase_shift_figure", "zero_crossings"]
 
@@ -70,7 +71,7 @@ def inverse_length_figure(ds, preset=NO_PRESET, strengths=None):
     data : dict
         ``zeros`` maps (row key, state name) to (stored loss, zero of 1/a_l read off the cube).
     """
-    view = fan_view(ds, preset, strengths)
+    view = _view(ds, preset, strengths)
     ls, x = ds["l"].values, view.x
     length_name = unit_names(preset)[0]
     fig = Figure(figsize=(max(2.8 * len(ls) + 2.6, 8.0), 2.5 * len(view.rows) + 0.7), layout="constrained")
@@ -86,7 +87,9 @@ def inverse_length_figure(ds, preset=NO_PRESET, strengths=None):
             finite = np.abs(inverse[np.isfinite(inverse) & (inverse != 0)])
             ax.set(xscale="log", xlim=(x.min(), x.max()))
             # symlog: 1/a_l spans decades on both sides of its zeros, which are what matters
-            ax.set_yscale("symlog", linthresh=float(np.median(finite)) / 10 if finite.size else 1.0)
+            # (a power of ten, so that the ticks ±linthresh sit a decade's height from zero)
+            ax.set_yscale("symlog", linthresh=10.0 ** math.floor(math.log10(np.median(finite) / 10))
+                          if finite.size else 1.0)
             invalid = shade_invalid_x(ax, x, fan.invalid) or invalid
             ax.axhline(0.0, color="0.5", lw=0.6, zorder=1)
             where, values = _broken(inverse, count)
@@ -94,10 +97,12 @@ def inverse_length_figure(ds, preset=NO_PRESET, strengths=None):
                     color="k", lw=1.2, zorder=3, gid=f"inverse_length:l{l}")
             ax.plot(x, inverse, ".", color="k", ms=3, zorder=3)
             found = dict(zero_crossings(x, inverse, count))
+            for n_r, x0 in found.items():  # every zero, also of a state past n_r_max (grey)
+                color = colors[n_r] if n_r < len(colors) else "0.5"
+                ax.plot([x0], [0.0], "o", mfc="none", mec=color, ms=7, mew=1.5, zorder=4,
+                        gid=f"zero:{state_label(n_r + int(l) + 1, int(l))}")
             marks = []
-            for k, n_r in enumerate(ds["n_r"].values):
-                if fan.critical is None:
-                    break
+            for k, n_r in enumerate(ds["n_r"].values if fan.critical is not None else ()):
                 lost = float(fan.critical.sel(l=l, n_r=n_r))
                 if not (math.isfinite(lost) and x.min() <= lost <= x.max()):
                     continue
@@ -106,8 +111,6 @@ def inverse_length_figure(ds, preset=NO_PRESET, strengths=None):
                 marks.append((math.log10(lost), name, colors[k]))
                 if int(n_r) in found:
                     zeros[(fan.key, name)] = (lost, found[int(n_r)])
-                    ax.plot([found[int(n_r)]], [0.0], "o", mfc="none", mec=colors[k], ms=7, mew=1.5, zorder=4,
-                            gid=f"zero:{name}")
             _label_losses(ax, marks, span)
             ax.set_title(f"{fan.title}, $l$ = {l}", fontsize=9)
     tidy_log_axis(axes[-1, 0].xaxis, x.min(), x.max())
@@ -115,15 +118,26 @@ def inverse_length_figure(ds, preset=NO_PRESET, strengths=None):
         axes[row, 0].set_ylabel(f"$1/a_l$ ({length_name}$^{{-1}}$)")
     where = "$\\lambda_c$" if view.lost_towards_small else "loss density"
     handles = [matplotlib.lines.Line2D([], [], color="k", marker=".", lw=1.2, label="$1/a_l$ (cube)"),
-               matplotlib.lines.Line2D([], [], color="0.3", ls="--", label=f"stored {where} (state lost)"),
                matplotlib.lines.Line2D([], [], color="0.3", ls="none", marker="o", mfc="none",
                                        label="zero of $1/a_l$ (interpolated)")]
+    if any(row.critical is not None for row in view.rows):
+        handles.insert(1, matplotlib.lines.Line2D([], [], color="0.3", ls="--", label=f"stored {where} (state lost)"))
     if invalid is not None:
         handles.append(invalid)
     fig.legend(handles=handles, loc="outside right center", fontsize=7)
     fig.supxlabel(view.x_label, fontsize="medium")
     fig.suptitle(f"Inverse scattering length of the {family_title(ds)}: zero where a state is lost")
     return fig, {"zeros": zeros}
+
+
+def _view(ds, preset, strengths):
+    """The rows to draw: the fans' (against λ, density or range), or, without a screening length
+    (an unscreened table), one row against the strength, where no loss length is stored."""
+    if np.isfinite(ds["screening_length"].values).all():
+        return fan_view(ds, preset, strengths)
+    row = FanRow("unscreened", "no screening length", ds.isel(screening_length=0).assign_coords(
+        strength=strength_values(ds, preset)), None, None)
+    return FanView("strength", row.cube["strength"].values, strength_label(ds, preset), True, [row])
 
 
 def _label_losses(ax, marks, span):
@@ -152,7 +166,7 @@ def phase_shift_figure(ds, preset=NO_PRESET, strengths=None, cells=3):
     data : dict
         ``curves`` maps (row key, l, x) to (E, δ_l/π) drawn; ``counts`` to N_b.
     """
-    view = fan_view(ds, preset, strengths)
+    view = _view(ds, preset, strengths)
     ls, x = ds["l"].values, view.x
     e = ds["scattering_energy"].values
     e_name, factor = energy_unit(ds, preset)
