@@ -27,7 +27,6 @@ from boundscape.cube import open_cube
 from boundscape.cube.collect import collect
 from boundscape.cube.display import readable
 from boundscape.errors import InputError
-from boundscape.physics.presets import Nuclear
 from boundscape.plots.scattering import inverse_length_figure, phase_shift_figure, zero_crossings
 from boundscape.plots.style import RC
 
@@ -194,7 +193,29 @@ def test_nuclear_cube_reads_in_fm_and_MeV(tmp_path):
     assert shown["scattering_length"].attrs["units"] == "fm"
     assert shown["inverse_scattering_length"].attrs["units"] == "1/fm"
     assert shown["cross_section"].attrs["units"] == "fm^2"
-    assert isinstance(Nuclear.energy_unit.name, str)
+
+
+def test_condition_sweep_holds_each_engine_cells_values(tmp_path):
+    # a plasma sweep over n_e x T_e: each condition holds what the engine gives at its screening length
+    import boundscape as bs
+
+    config = {"sweep": "pl", "potential": {"family": "yukawa"}, "scattering": {"energies": [1.0, 10.0]},
+              "grid": {"strength": [1.0], "electron_density": {"start": 1e22, "stop": 1e24, "num": 3, "spacing": "log"},
+                       "electron_temperature": [10.0, 100.0], "l": [0, 1], "n_r_max": 1},
+              "preset": {"kind": "plasma", "species": "electrons"}}
+    ds = build(tmp_path, config)
+    assert ds["scattering_length"].dims == ("strength", "electron_density", "electron_temperature", "l")
+    ev = 1.0 / 27.211386245981  # hartree per eV (CODATA 2018, value from memory)
+    assert np.allclose(ds["scattering_energy"].values, [ev, 10 * ev], rtol=1e-10)
+    for n in ds["electron_density"].values:
+        for t in ds["electron_temperature"].values:
+            cell = ds.sel(strength=1.0, electron_density=n, electron_temperature=t)
+            pot = bs.potential("yukawa", 1.0, float(cell["screening_length"]), 1.0)
+            for l in (0, 1):
+                direct = bs.scattering(pot, l)
+                assert float(cell["scattering_length"].sel(l=l)) == direct.length
+                shifts = bs.phase_shifts(pot, l, ds["scattering_energy"].values)
+                assert np.array_equal(cell["phase_shift"].sel(l=l).values, shifts.phase_shift)
 
 
 def test_cube_does_not_depend_on_the_tiling(tmp_path, square):
