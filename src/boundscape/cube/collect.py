@@ -29,6 +29,7 @@ from .parameters import add_family_parameters
 from .physical import add_physical_coordinates, add_trade_variables
 from .resonances import RESONANCE_VARS, add_resonances
 from .resonances import placeholders as resonance_placeholders
+from .summary import run_summary
 
 __all__ = ["collect"]
 
@@ -158,7 +159,6 @@ def collect(config: dict, tile_paths, critical_paths, output, summary=None) -> s
     # A flagged cell keeps its count when the count was found (some level short of tolerance);
     # where the solve failed or the input was rejected the tile says the count is unknown.
     levels["num_bound"][levels["num_bound"] == UNKNOWN_COUNT] = NUM_BOUND_UNKNOWN
-    flagged = int(np.count_nonzero(levels["status"]))  # engine cells
     levels["num_bound"], levels["status"] = layout.cells(levels["num_bound"]), layout.cells(levels["status"])
 
     crit_shape = (plan.strength.size, plan.l.size, plan.n_r_max)
@@ -211,13 +211,8 @@ def collect(config: dict, tile_paths, critical_paths, output, summary=None) -> s
     cells = f"{plan.num_cells} cells ({' x '.join(map(str, shape))})"
     if layout.mapped:
         cells += f" from {plan.num_engine_cells} distinct engine cells"
-    lines = [f"sweep {plan.sweep}: {cells}, {flagged} flagged{' (engine cells)' * layout.mapped}, "
-             f"{len(criticals['reasons'])} critical lengths not converged; engine time {engine_seconds:.2f} s",
-             f"cube: {output}"]
-    if flagged or criticals["reasons"]:
-        lines.append(f"flagged cells: variable status (attribute flagged_cells) in {output}, "
-                     f"and the tile logs beside it")
-    report = "\n".join(lines)
+    # every flag of every variable, counted from the written cube (cube/summary.py)
+    report = run_summary(output, f"sweep {plan.sweep}: {cells}; engine time {engine_seconds:.2f} s")
     if summary:
         Path(summary).write_text(report + "\n")
     return report

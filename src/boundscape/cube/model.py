@@ -120,8 +120,8 @@ def build_cube(axes, levels, criticals, *, provenance, layout=None):
     }
     # The unit each number is in, as plain factors: a script converts with these, whatever the
     # preset (a preset that reads the cube in other units rewrites them, see physical.py).
-    energy_attrs = {"units": HARTREE_UDUNITS, "energy_unit_in_J": HARTREE_J, "energy_unit_in_eV": HARTREE_EV,
-                    "hartree_in_eV": HARTREE_EV, "hartree_in_J": HARTREE_J}
+    # One name per unit value (issue 21): energy_unit_in_J/eV and length_unit_in_m, nothing else.
+    energy_attrs = {"units": HARTREE_UDUNITS, "energy_unit_in_J": HARTREE_J, "energy_unit_in_eV": HARTREE_EV}
     length_attrs = {"units": BOHR_UDUNITS, "length_unit_in_m": BOHR_M}
     coords["screening_length"][2].update(length_attrs)
     status = levels["status"].astype(np.int8)
@@ -134,7 +134,7 @@ def build_cube(axes, levels, criticals, *, provenance, layout=None):
             "long_name": "energy error estimate", **energy_attrs,
             "comment": "absolute error estimate of the energy"}),
         "mean_radius": (level_dims, levels["mean_radius"], {
-            "long_name": "mean radius <r>", **length_attrs, "bohr_in_m": BOHR_M}),
+            "long_name": "mean radius <r>", **length_attrs}),
         "num_bound": (cell_dims, levels["num_bound"].astype(np.int32), {
             "long_name": "number of bound states of this l", "units": "1", "ancillary_variables": "status",
             "comment": "exact count from the nodes of the zero-energy solution, also where some level of the "
@@ -182,9 +182,6 @@ def build_cube(axes, levels, criticals, *, provenance, layout=None):
         "energy_unit_in_J": HARTREE_J,
         "energy_unit_in_eV": HARTREE_EV,
         "length_unit_in_m": BOHR_M,
-        "hartree_energy_in_J": HARTREE_J,
-        "hartree_energy_in_eV": HARTREE_EV,
-        "bohr_radius_in_m": BOHR_M,
         "config_yaml": provenance["config_yaml"],
         "config_sha256": provenance["config_sha256"],
         "git_commit": provenance.get("git_commit") or "unknown",
