@@ -66,7 +66,7 @@ def write_criticals(spec: dict, output) -> None:
     from ..cube import CRITICAL_DIMS, write_part
 
     result = solve_criticals(spec)
-    names = ("critical_screening_length", "critical_flag")
+    names = ("critical_screening_length", "critical_screening_length_error", "critical_flag")
     attrs = {"spec_json": json.dumps(spec), "engine_seconds": result["engine_seconds"],
              "reasons_json": json.dumps(result["reasons"])}
     dims = dict.fromkeys(names, CRITICAL_DIMS)

@@ -18,6 +18,7 @@ from ..errors import InputError
 from ..physics.presets import from_config
 from ..sweep.config import config_text
 from ..sweep.plan import plan as make_plan
+from ..sweep.stored import stored_config
 from ..sweep.tiles import CRITICAL_FLAGS, UNKNOWN_COUNT
 from ..version import VERSION
 from .lines import add_lines, fill_lines
@@ -163,10 +164,11 @@ def collect(config: dict, tile_paths, critical_paths, output, summary=None) -> s
 
     crit_shape = (plan.strength.size, plan.l.size, plan.n_r_max)
     criticals = {"critical_screening_length": np.full(crit_shape, np.nan),
+                 "critical_screening_length_error": np.full(crit_shape, np.nan),
                  "critical_flag": np.zeros(crit_shape, np.int8), "reasons": []}
     for block, path in zip(plan.critical_blocks, critical_paths):
         arrays, attrs = _read_checked(path, plan.critical_spec(block))
-        for name in ("critical_screening_length", "critical_flag"):
+        for name in ("critical_screening_length", "critical_screening_length_error", "critical_flag"):
             criticals[name][slice(*block.strength_slice)] = arrays[name]
         if past:
             for name in ("dissolution_screening_length", "dissolution_flag"):
@@ -188,7 +190,7 @@ def collect(config: dict, tile_paths, critical_paths, output, summary=None) -> s
     flag[finite & (lam_c < plan.screening_length[0])] = CRITICAL_FLAGS.index("below_grid")
     flag[finite & (lam_c > plan.screening_length[-1])] = CRITICAL_FLAGS.index("above_grid")
 
-    text, sha = config_text(config)
+    text, sha = config_text(stored_config(config, plan.engine["mass"]))  # what was written + defaults that matter
     provenance = {"sweep": plan.sweep, "family": plan.engine["family"], "mass": plan.engine["mass"],
                   "config_yaml": text, "config_sha256": sha, "version": VERSION,
                   "git_commit": _git_commit(),

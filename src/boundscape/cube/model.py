@@ -88,7 +88,8 @@ def build_cube(axes, levels, criticals, *, provenance, layout=None):
         (strength, screening_length, l); ``reasons``, a list of one-line texts naming each
         flagged cell.  With a ``layout`` the arrays run over its dimensions instead.
     criticals : dict
-        ``critical_screening_length`` and ``critical_flag`` (strength, l, n_r), ``reasons``.
+        ``critical_screening_length`` and ``critical_flag`` (strength, l, n_r), ``reasons``;
+        ``critical_screening_length_error`` (its error estimate; NaN if absent).
     provenance : dict
         ``sweep``, ``family``, ``mass``, ``config_yaml``, ``config_sha256``, ``version``,
         ``git_commit`` (or None), ``history`` (one line).
@@ -149,10 +150,16 @@ def build_cube(axes, levels, criticals, *, provenance, layout=None):
             "flagged_cells": listing(levels["reasons"])}),
         "critical_screening_length": (critical_dims, criticals["critical_screening_length"], {
             "long_name": "critical screening length",
-            **length_attrs, "ancillary_variables": "critical_screening_length_flag",
+            **length_attrs, "ancillary_variables": "critical_screening_length_flag critical_screening_length_error",
             "comment": "the screening length below which the state (n_r, l) is not bound; from the zero-energy "
                        "solution by root finding; +inf where never bound; stored for every state, also outside "
                        "the grid's screening_length range"}),
+        "critical_screening_length_error": (critical_dims, criticals.get(
+            "critical_screening_length_error", np.full(np.shape(criticals["critical_screening_length"]), np.nan)), {
+            "long_name": "critical screening length error estimate", **length_attrs,
+            "comment": "absolute error estimate of critical_screening_length: the Richardson change of the "
+                       "zero-energy eigenvalue at the root over its slope in the screening length; NaN where "
+                       "the state is never bound or not converged"}),
         "critical_screening_length_flag": (critical_dims, criticals["critical_flag"].astype(np.int8), {
             "long_name": "position of the critical screening length against the grid",
             **flag_attrs(CRITICAL_FLAGS),
