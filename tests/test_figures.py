@@ -259,9 +259,14 @@ def test_workflow_renders_figures_and_builds_the_report(tmp_path):
     assert run.returncode == 0, run.stderr[-2000:]
     assert "Could not detect mimetype" not in run.stdout + run.stderr
     html = (out / "report.html").read_text()
-    for text in ("Threshold maps", "Level fans", "Physical conditions", "threshold_map_l0.png", "run_summary.txt",
-                 "sweep_config.yaml", "the exact number of bound states of this l"):
-        assert text in html
+    # categories in a reader's order, readable labels, the run's pages inline (HTML), the first
+    # page composed from the cube (issue 21)
+    for text in ("1. Maps", "2. Fans", "3. Conditions", "4. Tables", "5. Run", "Threshold map, l = 0",
+                 "threshold_map_l0.png", "run_summary.html", "configuration.html", "critical_screening_lengths.html",
+                 "sweep_config.yaml", "the exact number of bound states of this l", "Reduced mass", "Scope",
+                 "Accuracy"):
+        assert text in html, text
+    assert "Thomas–Fermi on a non-degenerate gas" not in html  # no semiconductor paragraph in a plasma run
 
 
 @pytest.mark.parametrize("preset", [Plasma(temperature_eV=10.0),

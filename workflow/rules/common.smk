@@ -9,6 +9,7 @@ from snakemake.exceptions import WorkflowError
 from snakemake.utils import validate
 
 from boundscape.physics import presets as _presets
+from boundscape.report_layout import arrange, figure_label
 from boundscape.cube.netcdf import unwritable
 from boundscape.errors import InputError
 from boundscape.sweep import SCHEMA_PATH, plan, schema_error
@@ -64,6 +65,8 @@ if HAS_CONDITION_MAP:
 FIGURE_LIST += [(f"line_shift_{line}", "line_shift.rst", "Spectral lines", line) for line in PLAN.lines]
 if PLAN.lines:
     FIGURE_LIST.append(("line_survival", "line_survival.rst", "Spectral lines", "survival"))
+# the report's categories in a reader's order, readable names, the l = 0 map's own caption
+FIGURE_LIST, CATEGORIES = arrange(FIGURE_LIST)
 TABLES = ("critical_screening_lengths.csv", "sweep_config.yaml")
 CRITICAL_COUPLINGS = PLAN.critical_strengths  # the nuclear critical coupling at each range, a table of its own
 
