@@ -15,9 +15,12 @@ import numpy as np
 
 from ..engine.bound.levels import RTOL
 from ..labels import FAMILY_NAMES
-from ..plots.table_notes import SCOPE
 
-__all__ = ["landing_text", "text_page", "table_page", "write_report_pages", "MAX_TABLE_ROWS"]
+__all__ = ["landing_text", "text_page", "table_page", "write_report_pages", "MAX_TABLE_ROWS", "SCOPE"]
+
+SCOPE = ("the non-relativistic Schrödinger equation with a static screened potential (no dynamic screening, "
+         "no ion correlations); the screening models are linear, mean-field ones: Debye–Hückel holds at weak "
+         "coupling only. The results are not a substitute for a licensed or site-specific safety assessment")
 
 MAX_TABLE_ROWS = 5000  # rows shown inline; the CSV beside it holds them all
 _STYLE = ("body{font-family:sans-serif;font-size:14px;margin:1em;color:#222}"
@@ -109,9 +112,10 @@ def landing_text(ds, config: dict, summary: str) -> str:
         lines.append("- **Preset**: none; every number in atomic units (hartree, bohr).")
     lines.append(f"- **Reduced mass**: {float(attrs.get('mass', 1.0)):g} {attrs.get('mass_units', 'electron masses')} "
                  "(the engine's mass; the cube's attributes ``mass`` and ``mass_units``).")
+    tol = f"{RTOL:.0e}".replace("e-0", "e-")
     accuracy = (f"- **Accuracy**: every level is converged until its error estimate (Richardson, grids h, h/2, h/4; "
-                f"stored as ``energy_error``) is below {RTOL:g} of its energy, and flagged where it is not. The "
-                f"engine is checked to {RTOL:g} against exact levels (Coulomb, Hulthén, oscillator, square well) "
+                f"stored as ``energy_error``) is below {tol} of its energy, and flagged where it is not. The "
+                f"engine is checked to {tol} against exact levels (Coulomb, Hulthén, oscillator, square well) "
                 "and an independent DOP853 shooting solver on cells no formula covers (the test suite). Critical "
                 "screening lengths are roots of the zero-energy problem (brentq), with an error estimate each")
     if "critical_screening_length_error" in ds:

@@ -27,8 +27,11 @@ def matched_digits(value: float, error: float) -> int | None:
 
 
 def _flag_text(ds, name):
+    """Every meaning of a flag variable, then its comment on them."""
     attrs = ds[name].attrs
-    return attrs.get("comment") or ", ".join(attrs.get("flag_meanings", "").split())
+    meanings = ", ".join(attrs.get("flag_meanings", "").split())
+    comment = attrs.get("comment", "")
+    return f"one of {meanings}" + (f" ({comment})" if comment else "")
 
 
 def _columns(ds, columns, preset, loss):
