@@ -169,7 +169,8 @@ def collect(config: dict, tile_paths, critical_paths, output, summary=None) -> s
     for block, path in zip(plan.critical_blocks, critical_paths):
         arrays, attrs = _read_checked(path, plan.critical_spec(block))
         for name in ("critical_screening_length", "critical_screening_length_error", "critical_flag"):
-            criticals[name][slice(*block.strength_slice)] = arrays[name]
+            if name in arrays:  # (a part written before the error estimate keeps NaN there)
+                criticals[name][slice(*block.strength_slice)] = arrays[name]
         if past:
             for name in ("dissolution_screening_length", "dissolution_flag"):
                 past_dissolution[name][slice(*block.strength_slice)] = arrays[name]
