@@ -29,7 +29,7 @@ rule report_pages:
         table=report(f"{REPORT}/critical_screening_lengths.html", caption="../report/critical_table.rst",
                      category=CATEGORIES["Tables"], labels={"table": "Critical screening lengths"}),
     params:
-        outdir=REPORT,
+        outdir=lambda wildcards, output: Path(output.landing).parent,
     log:
         f"{RESULTS}/logs/report_pages.log",
     localrule: True
