@@ -1,8 +1,9 @@
 """The loss table: where every stored state is lost (``critical_screening_lengths.csv``), in the
 preset's units only — its critical screening length, and under a preset that reads densities the
 density above which it is lost (at each temperature of a sweep over them) with the screening
-model's validity there — and, under the nuclear preset, the critical coupling at each range
-(``critical_couplings.csv``)."""
+model's validity there — with λ_c's error estimate, under a ``#`` header that says what each
+column is (:mod:`.table_notes`); and, under the nuclear preset, the critical coupling at each
+range (``critical_couplings.csv``)."""
 
 from __future__ import annotations
 
@@ -28,7 +29,8 @@ def _loss_variable(ds):
 
 def critical_rows(ds, preset=NO_PRESET):
     """One row per stored (strength, l, n_r) — and per temperature of a sweep over them: λ_c in
-    the preset's length unit (bohr without a preset, every stored digit), then the preset's
+    the preset's length unit (bohr without a preset), its error estimate in the same unit
+    (``critical_screening_length_error_<unit>``, NaN if the cube has none), then the preset's
     columns (the loss density and the model's validity there, the coupling; see
     :meth:`~boundscape.physics.presets.Preset.critical_length_columns`), and the flag."""
     strength_dim, length_dims = cube_dims(ds)
