@@ -143,7 +143,7 @@ def solve_criticals(spec: dict) -> dict:
     -------
     dict
         ``critical_screening_length`` (strength, l, n_r), bohr, +inf where the state is never
-        bound; ``critical_flag`` (same shape, only ``never_bound``, ``not_converged`` and
+        bound, and ``critical_screening_length_error``, its error estimate; ``critical_flag`` (same shape, only ``never_bound``, ``not_converged`` and
         ``not_applicable`` are set here: the grid flags are set in collect, which knows the
         grid); ``reasons`` and ``engine_seconds``; with ``critical_strength_at`` in the spec also
         ``critical_strength`` and its flag over (screening length, l, n_r).
@@ -151,6 +151,7 @@ def solve_criticals(spec: dict) -> dict:
     strengths, ls, n_r_max = spec["strength"], spec["l"], int(spec["n_r_max"])
     shape = (len(strengths), len(ls), n_r_max)
     critical = np.full(shape, np.nan)
+    error = np.full(shape, np.nan)  # the engine's error estimate of each λ_c
     flag = np.zeros(shape, np.int8)
     reasons = []
     start = time.perf_counter()
@@ -164,8 +165,8 @@ def solve_criticals(spec: dict) -> dict:
             for k, l in enumerate(ls):
                 for n_r in range(n_r_max):
                     try:
-                        value = engine.critical_screening_length(
-                            family, strength, int(l), n_r, mass=spec["mass"], **extra)
+                        value, error[i, k, n_r] = engine.critical_screening_length(
+                            family, strength, int(l), n_r, mass=spec["mass"], full_output=True, **extra)
                     except ConvergenceError as exc:
                         flag[i, k, n_r] = CRITICAL_FLAGS.index("not_converged")
                         reasons.append((i, k, n_r, _one_line(exc)))
@@ -173,7 +174,8 @@ def solve_criticals(spec: dict) -> dict:
                     critical[i, k, n_r] = value
                     if math.isinf(value):
                         flag[i, k, n_r] = CRITICAL_FLAGS.index("never_bound")
-    result = {"critical_screening_length": critical, "critical_flag": flag, "reasons": reasons}
+    result = {"critical_screening_length": critical, "critical_screening_length_error": error,
+              "critical_flag": flag, "reasons": reasons}
     if "critical_strength_at" in spec:
         result.update(_critical_strengths(spec, probe))
     if resonance_tiles.wanted(spec):
