@@ -17,7 +17,7 @@ import math
 import os
 import sys
 
-from . import convert, fit, lines, resonances, scattering
+from . import convert, fit, lines, populations, resonances, scattering
 from .options import make_potential, parse_l_values, potential_args
 from .readings import describe, engine_length, engine_strength, reading_of, significant, title
 from .trade import print_table, trade_columns, trade_notes
@@ -67,6 +67,7 @@ def build_parser() -> argparse.ArgumentParser:
     lines.register(sub)
     scattering.register(sub)
     fit.register(sub)
+    populations.register(sub)
     return parser
 
 
