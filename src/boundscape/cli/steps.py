@@ -26,7 +26,7 @@ from pathlib import Path
 import numpy as np
 
 from ..errors import InputError
-from ..sweep import load_config, plan, resonance_tiles, solve_criticals, solve_tile
+from ..sweep import load_config, plan, population_tiles, resonance_tiles, solve_criticals, solve_tile
 
 
 def write_tile(spec: dict, output) -> None:
@@ -42,6 +42,10 @@ def write_tile(spec: dict, output) -> None:
         dims.update(dict.fromkeys(resonance_tiles.RESONANCE_VARS, LEVEL_DIMS))
         attrs.update(resonance_reasons_json=json.dumps(result["resonance_reasons"]),
                      resonance_seconds=result["resonance_seconds"])
+    if population_tiles.wanted(spec):  # each engine cell's complete level set
+        dims.update(population_tiles.TILE_DIMS)
+        attrs.update(population_reasons_json=json.dumps(result["population_reasons"]),
+                     population_seconds=result["population_seconds"])
     if spec.get("lines"):
         from ..cube.lines import LINE_DIMS
         from ..sweep.line_tiles import LINE_VARS, solve_line_tile

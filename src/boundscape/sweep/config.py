@@ -21,6 +21,7 @@ from ..engine import FAMILIES, ParameterError, potential
 from ..errors import InputError
 from ..physics.presets import PRESETS, from_config, is_condition_sweep
 from .limits import check_limits
+from . import population_tiles
 from .lines import check_lines
 
 __all__ = ["SCHEMA_PATH", "load_config", "load_yaml", "read_config_files", "config_file_error", "schema_error", "validate_config",
@@ -121,6 +122,7 @@ def validate_config(config: dict) -> dict:
         if np.unique(values).size != values.size:
             raise InputError(f"config key grid.{name}: repeated values")
     check_lines(config)
+    population_tiles.check_config(config, preset.kind, getattr(preset, "condition_keys", ()))
     return config
 
 

@@ -25,6 +25,7 @@ from ..physics.presets import ConditionGrid, from_config, is_condition_sweep
 from ..version import VERSION
 from .config import axis_values, validate_config
 from .limits import check_limits, max_tiles
+from . import population_tiles
 from .lines import label_of, line_pairs
 
 __all__ = ["Plan", "Tile", "plan", "tile_layout", "distinct_lengths", "TILE_FILE", "CRITICAL_FILE", "SAME_LENGTH"]
@@ -219,6 +220,8 @@ def plan(config: dict) -> Plan:
     engine["engine"] = f"boundscape {VERSION}"
     if config["resonances"]:  # only when on, so that a sweep without them keeps its tiles' params
         engine["resonances"] = True
+    if config.get("populations"):  # the temperatures each complete level set is summed at
+        engine["populations"] = population_tiles.settings(conditions)
     return Plan(config["sweep"], engine, strength, screening_length, l_values, n_r_max,
                 tuple(tiles), critical_blocks, tuple(label_of(p) for p in line_pairs(config.get("lines"))),
                 conditions, length_index,

@@ -15,7 +15,7 @@ import numpy as np
 from .. import engine
 from ..engine import INPUT_REJECTED, NOT_CONVERGED
 from ..errors import ConvergenceError, InputError
-from . import resonance_tiles
+from . import population_tiles, resonance_tiles
 
 __all__ = ["CRITICAL_FLAGS", "UNKNOWN_COUNT", "solve_tile", "solve_criticals"]
 
@@ -61,6 +61,9 @@ def solve_tile(spec: dict) -> dict:
     past = resonance_tiles.wanted(spec)  # also the states past threshold (resonance_tiles)
     if past:
         out.update(resonance_tiles.empty_arrays(cell_shape, n_r_max))
+    populations = population_tiles.wanted(spec)  # each cell's complete level set (population_tiles)
+    if populations:
+        out.update(population_tiles.empty_arrays(len(strengths), len(lams), len(spec["populations"]["kT_hartree"])))
     for i, strength in enumerate(strengths):
         for j, lam in enumerate(lams):
             start = time.perf_counter()
@@ -84,6 +87,8 @@ def solve_tile(spec: dict) -> dict:
                 _store_levels(out, (i, j, k), res, n_r_max, reasons)
                 if past:
                     resonance_tiles.solve_cell(out, (i, j, k), pot, int(l), int(res.num_bound), n_r_max)
+            if populations:
+                population_tiles.solve_cell(out, (i, j), pot, spec)
             engine_seconds += time.perf_counter() - start
     out["reasons"] = reasons
     out["engine_seconds"] = engine_seconds
