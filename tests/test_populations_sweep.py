@@ -1,0 +1,215 @@
+"""Populations in a sweep (``populations: true``) and on the command line: the cube's variables
+held against an independent re-sum of ``bound_levels`` per l, the textbook Saha equation in SI
+from scipy.constants, Debye–Hückel's lowering, the CF checker; the CLI's JSON keys and errors.
+(The library's own limits — Stewart–Pyatt, Ecker–Kröll, Planck–Larkin's series, freeze-out — are
+tested in tests/test_populations_*.py and not repeated here.)"""
+
+from __future__ import annotations
+
+import copy
+import json
+import math
+
+import numpy as np
+import pytest
+from scipy import constants as sc
+
+import boundscape as bs
+from boundscape import sweep
+from boundscape.cli.main import main as cli_entry
+from boundscape.cli import steps
+from boundscape.cube import open_cube
+from boundscape.cube.collect import collect
+from boundscape.errors import InputError
+
+HARTREE_EV = sc.physical_constants["Hartree energy in eV"][0]
+BOHR_M = sc.physical_constants["Bohr radius"][0]
+CONFIG = {"sweep": "pops", "potential": {"family": "yukawa"},
+          "grid": {"strength": [1.0, 2.0],
+                   "electron_density": {"start": 1e19, "stop": 1e24, "num": 6, "spacing": "log"},
+                   "electron_temperature": {"start": 1.0, "stop": 100.0, "num": 3, "spacing": "log"},
+                   "l": [0], "n_r_max": 2},
+          "populations": True, "tiles": {"cells": 8}, "preset": {"kind": "plasma", "screening": "debye"}}
+NAMES = ("bound_state_count", "partition_function", "planck_larkin_partition_function", "ionization_energy",
+         "continuum_lowering", "continuum_lowering_stewart_pyatt", "continuum_lowering_ecker_kroll",
+         "ionized_fraction", "level_set_status")
+
+
+def build(directory, config):
+    """The cube of ``config``, computed with the workflow's own steps in this process."""
+    config = sweep.validate_config(config)
+    plan = sweep.plan(config)
+    tiles, blocks = [], []
+    for kind, parts, spec, paths in (("solve-tile", plan.tiles, plan.tile_spec, tiles),
+                                     ("criticals", plan.critical_blocks, plan.critical_spec, blocks)):
+        for part in parts:
+            path = directory / f"{kind}_{part.name}.nc"
+            assert steps.main([kind, "--spec", json.dumps(spec(part)), "--output", str(path)]) == 0
+            paths.append(str(path))
+    collect(config, tiles, blocks, directory / "levels.nc")
+    return open_cube(directory / "levels.nc").load(), plan
+
+
+@pytest.fixture(scope="module")
+def cube(tmp_path_factory):
+    return build(tmp_path_factory.mktemp("pops"), CONFIG)
+
+
+def resum(pot, kT):
+    """U and the state count re-summed with bound_levels per l, until an l binds nothing."""
+    u, count, l = 0.0, 0, 0
+    while True:
+        res = bs.bound_levels(pot, l)
+        if res.num_bound == 0:
+            return u, count
+        assert res.energy.size == res.num_bound
+        u += 2 * (2 * l + 1) * float(np.sum(np.exp(-np.asarray(res.energy) / kT)))
+        count += 2 * (2 * l + 1) * int(res.num_bound)
+        l += 1
+
+
+def test_every_variable_is_over_the_conditions_with_its_units(cube):
+    ds, _ = cube
+    for name in NAMES:
+        assert ds[name].dims == ("strength", "electron_density", "electron_temperature"), name
+        assert ds[name].attrs["long_name"], name
+    for name in ("ionization_energy", "continuum_lowering", "continuum_lowering_stewart_pyatt",
+                 "continuum_lowering_ecker_kroll"):
+        assert ds[name].attrs["units"] == "eV"
+    assert "spin weight 2" in ds["ionized_fraction"].attrs["comment"]
+    assert "taken as 1" in ds["ionized_fraction"].attrs["comment"]
+    assert "Planck" in ds["planck_larkin_partition_function"].attrs["comment"]
+    assert ds["level_set_status"].attrs["flag_meanings"].split()[:2] == ["complete", "level_not_converged"]
+    assert (ds["level_set_status"] == 0).all()  # Debye-screened: every set here is complete
+
+
+@pytest.mark.parametrize("z, i, j", [(1.0, 0, 2), (1.0, 3, 0), (2.0, 2, 1), (2.0, 5, 2), (1.0, 5, 0)])
+def test_partition_function_is_the_resum_over_every_l_that_binds(cube, z, i, j):
+    # The completeness check the issue asks for: re-sum with bound_levels per l until an l binds nothing.
+    ds, _ = cube
+    cell = ds.sel(strength=z).isel(electron_density=i, electron_temperature=j)
+    lam = float(cell["screening_length"])
+    kT = float(cell["electron_temperature"]) / HARTREE_EV
+    u, count = resum(bs.potential("yukawa", z, lam, 1.0), kT)
+    assert int(cell["bound_state_count"]) == count
+    if count == 0:
+        assert float(cell["partition_function"]) == 0.0 and float(cell["ionized_fraction"]) == 1.0
+    else:
+        np.testing.assert_allclose(float(cell["partition_function"]), u, rtol=1e-12)
+
+
+def test_ionized_fraction_is_the_textbook_saha_equation_in_si(cube):
+    # n_Z/n_{Z-1} = 2 (2π m_e k T/h²)^{3/2}/(n_e U) (Saha 1920; e.g. Griem, Principles of Plasma
+    # Spectroscopy, eq. 6.2, reference from memory), in SI from scipy.constants.
+    ds, _ = cube
+    T_K = ds["electron_temperature"].values[None, None, :] * sc.eV / sc.k
+    n_e = ds["electron_density"].values[None, :, None] * 1e6
+    inverse = n_e * ds["partition_function"].values / (2.0 * (2 * math.pi * sc.m_e * sc.k * T_K / sc.h ** 2) ** 1.5)
+    np.testing.assert_allclose(ds["ionized_fraction"].values, 1.0 / (1.0 + inverse), rtol=1e-10)
+
+
+def test_lowering_tends_to_debye_huckel_at_the_lowest_density(cube):
+    # ΔI → Z e²/(4πε₀ λ_D) where λ_D ≫ the ion's size (common practice, no source), λ_D from the cube.
+    ds, _ = cube
+    cell = ds.isel(electron_density=0, electron_temperature=2)
+    lam_m = cell["screening_length"].values * BOHR_M
+    dh_eV = ds["strength"].values * sc.e / (4 * math.pi * sc.epsilon_0 * lam_m)
+    np.testing.assert_allclose(cell["continuum_lowering"].values, dh_eV, rtol=2e-3)
+    np.testing.assert_allclose(cell["continuum_lowering_stewart_pyatt"].values, dh_eV, rtol=2e-3)
+    # and I₀ = Z² Ry, Ry from scipy.constants
+    ry_eV = sc.physical_constants["Rydberg constant times hc in eV"][0]
+    np.testing.assert_allclose((cell["ionization_energy"] + cell["continuum_lowering"]).values,
+                               ds["strength"].values ** 2 * ry_eV, rtol=1e-9)
+
+
+def test_pressure_ionization_once_the_1s_is_lost(cube):
+    # Where the set binds nothing the ion is bare: fraction 1, I = 0, ΔI = I₀ (common practice, no source).
+    ds, _ = cube
+    empty = ds["bound_state_count"] == 0
+    assert empty.any()
+    assert (ds["ionized_fraction"].where(empty) == 1).sum() == empty.sum()
+    assert (ds["ionization_energy"].where(empty) == 0).sum() == empty.sum()
+
+
+def test_the_cube_passes_the_cf_checker(cube, tmp_path, cf_findings):
+    from boundscape.cube import write_cube
+
+    ds, _ = cube
+    path = tmp_path / "pops.nc"
+    write_cube(ds, path)
+    assert cf_findings(path) == []
+
+
+@pytest.mark.parametrize("changes, words", [
+    ({"preset": None}, "needs preset.kind plasma"),
+    ({"preset": {"kind": "semiconductor", "effective_mass": 0.067, "permittivity": 12.9},
+      "grid": {"strength": [1.0], "carrier_density": [1e15], "temperature": [10.0], "l": [0], "n_r_max": 1}},
+     "needs preset.kind plasma"),
+    ({"populations": "yes"}, "populations"),
+])
+def test_populations_on_a_sweep_it_does_not_fit_is_one_line_naming_the_key(changes, words):
+    config = copy.deepcopy(CONFIG)
+    for key, value in changes.items():
+        if value is None:
+            config.pop(key)
+            config["grid"] = {"strength": [1.0], "screening_length": [5.0], "l": [0], "n_r_max": 1}
+        else:
+            config[key] = value
+    with pytest.raises(InputError) as info:
+        sweep.plan(config)
+    message = str(info.value)
+    assert "\n" not in message and "populations" in message and words in message, message
+
+
+def run_cli(capsys, *argv):
+    assert cli_entry(["populations", *argv]) == 0
+    return capsys.readouterr().out
+
+
+def test_cli_json_keys_and_values_are_the_cubes(cube, capsys):
+    ds, _ = cube
+    cell = ds.sel(strength=2.0).isel(electron_density=3, electron_temperature=1)
+    out = json.loads(run_cli(capsys, "--preset", "plasma", "--nuclear-charge", "2", "--density",
+                             repr(float(cell["electron_density"])), "--temperature",
+                             repr(float(cell["electron_temperature"])), "--screening", "debye", "--format", "json"))
+    for key, name in [("partition_function", "partition_function"), ("ionized_fraction", "ionized_fraction"),
+                      ("continuum_lowering_eV", "continuum_lowering"), ("ionization_energy_eV", "ionization_energy"),
+                      ("continuum_lowering_stewart_pyatt_eV", "continuum_lowering_stewart_pyatt"),
+                      ("continuum_lowering_ecker_kroll_eV", "continuum_lowering_ecker_kroll"),
+                      ("planck_larkin_partition_function", "planck_larkin_partition_function")]:
+        np.testing.assert_allclose(out[key], float(cell[name]), rtol=1e-11, err_msg=key)
+    assert out["bound_state_count"] == int(cell["bound_state_count"])
+    assert out["level_set_status"] == "complete"
+    assert out["potential"]["conditions"]["screening_model"] == "debye"
+
+
+def test_cli_semiconductor_json_is_charge_neutral(capsys):
+    out = json.loads(run_cli(capsys, "--preset", "semiconductor", "--effective-mass", "0.067", "--permittivity",
+                             "12.9", "--donor-concentration", "1e16", "--temperature-K", "20", "--format", "json"))
+    for key in ("donor_concentration_cm-3", "free_density_cm-3", "ionized_fraction", "ionization_energy_meV",
+                "continuum_lowering_meV", "screening_length_nm", "status"):
+        assert key in out, key
+    # charge neutrality without compensation: n = N_D⁺ = f N_D (Sze & Ng §1.4, reference from memory)
+    np.testing.assert_allclose(out["free_density_cm-3"], out["ionized_fraction"] * out["donor_concentration_cm-3"],
+                               rtol=1e-12)
+    # the unscreened donor binding is Ry μ*/ε_r² (hydrogenic donor; common practice, no source)
+    ry_meV = sc.physical_constants["Rydberg constant times hc in eV"][0] * 1e3
+    np.testing.assert_allclose(out["unscreened_ionization_energy_meV"], ry_meV * 0.067 / 12.9 ** 2, rtol=1e-9)
+
+
+@pytest.mark.parametrize("argv, words", [
+    (["--preset", "nuclear", "--reduced-mass", "400"], "--preset plasma or --preset semiconductor"),
+    (["--nuclear-charge", "1", "--density", "1e22", "--temperature", "10"], "needs --preset"),
+    (["--preset", "plasma", "--nuclear-charge", "1", "--temperature", "10"], "--density"),
+    (["--preset", "plasma", "--nuclear-charge", "1", "--density", "-1", "--temperature", "10"], "-1"),
+    (["--preset", "plasma", "--nuclear-charge", "1", "--density", "1e22", "--temperature", "10",
+      "--donor-concentration", "1e16"], "--donor-concentration"),
+    (["--preset", "semiconductor", "--effective-mass", "0.067", "--permittivity", "12.9", "--temperature-K", "4"],
+     "--donor-concentration"),
+    (["--preset", "semiconductor", "--effective-mass", "0.067", "--permittivity", "12.9",
+      "--donor-concentration", "1e16"], "--temperature-K"),
+])
+def test_cli_bad_input_is_one_line(capsys, argv, words):
+    assert cli_entry(["populations", *argv]) != 0
+    err = capsys.readouterr().err.strip()
+    assert "\n" not in err and words in err, err
