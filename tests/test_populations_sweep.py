@@ -213,3 +213,23 @@ def test_cli_bad_input_is_one_line(capsys, argv, words):
     assert cli_entry(["populations", *argv]) != 0
     err = capsys.readouterr().err.strip()
     assert "\n" not in err and words in err, err
+
+
+def test_population_figures_render_from_the_cube_alone(cube, tmp_path):
+    import matplotlib
+
+    matplotlib.use("Agg")
+    from boundscape.plots.populations import figure_list, population_figures
+    from boundscape.plots.style import save
+
+    ds, plan = cube
+    figures = population_figures(ds)
+    assert [stem for stem, _ in figures] == [stem for stem, *_ in figure_list(plan.strength)]
+    for stem, fig in figures:
+        for path in save(fig, tmp_path / stem):
+            assert path.stat().st_size > 1000
+        labels = [ax.get_xlabel() for ax in fig.axes if ax.get_xlabel()]
+        assert any("$n_e$" in text for text in labels), labels  # mathtext subscripts, never n_e in ASCII
+    # the ionization map's colours are the stored fractions, untouched (plots never recompute)
+    mesh = figures[0][1].axes[0].collections[0]
+    np.testing.assert_array_equal(np.asarray(mesh.get_array()).ravel(), ds["ionized_fraction"].values[0].T.ravel())

@@ -7,6 +7,10 @@ FIGURE_OUTPUTS = {"table": report(f"{FIGURES}/critical_screening_lengths.csv", c
 if CRITICAL_COUPLINGS:
     FIGURE_OUTPUTS["couplings"] = report(f"{FIGURES}/critical_couplings.csv", caption="../report/critical_couplings.rst",
                                          category="Tables", labels={"table": "critical couplings"})
+if PLAN.engine.get("populations"):  # ionization maps, U and the continuum lowering (plots/populations.py)
+    from boundscape.plots.populations import figure_list as _population_figures
+
+    FIGURE_LIST += _population_figures(PLAN.strength)
 for _stem, _caption, _category, _subcategory in FIGURE_LIST:
     FIGURE_OUTPUTS[_stem] = [report(f"{FIGURES}/{_stem}.png", caption=f"../report/{_caption}", category=_category,
                                     subcategory=_subcategory, labels={"figure": _stem}),

@@ -12,6 +12,7 @@ from .level_fan import level_fan
 from .line_maps import line_shift_map
 from .line_survival import line_survival_chart
 from .loss_table import write_critical_csv
+from .populations import population_figures
 from .resonance_fan import resonance_fan
 from .style import RC, save
 from .threshold_map import threshold_map
@@ -37,6 +38,9 @@ def render_all(ds, outdir):
             for m, label in enumerate(ds["line_label"].values):
                 written += save(line_shift_map(ds, m, preset)[0], outdir / f"line_shift_{label}")
             written += save(line_survival_chart(ds, preset)[0], outdir / "line_survival")
+        if "partition_function" in ds:  # populations: true (plots/populations.py)
+            for stem, fig in population_figures(ds):
+                written += save(fig, outdir / stem)
     write_critical_csv(ds, outdir / "critical_screening_lengths.csv", preset)
     tables = [outdir / "critical_screening_lengths.csv"]
     if "critical_coupling" in ds:
