@@ -224,7 +224,7 @@ def test_population_figures_render_from_the_cube_alone(cube, tmp_path):
 
     ds, plan = cube
     figures = population_figures(ds)
-    assert [stem for stem, _ in figures] == [stem for stem, *_ in figure_list(plan.strength)]
+    assert [stem for stem, _ in figures] == [stem for stem, *_ in figure_list(plan)]
     for stem, fig in figures:
         for path in save(fig, tmp_path / stem):
             assert path.stat().st_size > 1000
@@ -233,3 +233,98 @@ def test_population_figures_render_from_the_cube_alone(cube, tmp_path):
     # the ionization map's colours are the stored fractions, untouched (plots never recompute)
     mesh = figures[0][1].axes[0].collections[0]
     np.testing.assert_array_equal(np.asarray(mesh.get_array()).ravel(), ds["ionized_fraction"].values[0].T.ravel())
+
+
+# -- a semiconductor donor sweep --------------------------------------------------------------------
+
+DONORS = {"sweep": "donors", "potential": {"family": "yukawa"},
+          "grid": {"strength": [1.0], "donor_concentration": {"start": 1e14, "stop": 1e18, "num": 5, "spacing": "log"},
+                   "temperature": [4.0, 77.0], "l": [0], "n_r_max": 1},
+          "populations": True, "tiles": {"cells": 3},
+          "preset": {"kind": "semiconductor", "effective_mass": 0.067, "permittivity": 12.9}}
+
+
+@pytest.fixture(scope="module")
+def donor_cube(tmp_path_factory):
+    return build(tmp_path_factory.mktemp("donors"), DONORS)
+
+
+def test_donor_sweep_is_over_donor_concentration_and_temperature(donor_cube):
+    ds, plan = donor_cube
+    assert len(plan.tiles) > 1  # each condition solved in the one tile that holds its engine cell
+    for name in ("free_electron_density", "ionized_fraction", "ionization_energy", "continuum_lowering",
+                 "partition_function", "balance_status"):
+        assert ds[name].dims == ("strength", "donor_concentration", "temperature"), name
+    assert ds["donor_concentration"].attrs["units"] == "cm-3" and ds["temperature"].attrs["units"] == "K"
+    assert ds["ionization_energy"].attrs["units"] == "meV" and ds["free_electron_density"].attrs["units"] == "cm-3"
+    assert "not_solved" not in [ds["balance_status"].attrs["flag_meanings"].split()[int(v)]
+                                for v in ds["balance_status"].values.ravel()]
+
+
+def test_donor_sweep_is_charge_neutral_in_every_cell(donor_cube):
+    # n = N_D⁺ = (N_D⁺/N_D) N_D without compensation (Sze & Ng §1.4, reference from memory)
+    ds, _ = donor_cube
+    n_d = ds["donor_concentration"].values[None, :, None]
+    np.testing.assert_allclose(ds["free_electron_density"].values, ds["ionized_fraction"].values * n_d, rtol=1e-12)
+    assert ((ds["ionized_fraction"] > 0) & (ds["ionized_fraction"] <= 1)).all()
+
+
+def test_donors_are_ionized_above_the_concentration_where_the_1s_is_lost(donor_cube):
+    # Mott: where N_D free electrons bind no 1s, the ionized branch is the only consistent one (Mott 1949).
+    ds, _ = donor_cube
+    loss = ds["loss_donor_concentration"].sel(l=0).isel(n_r=0, strength=0).values  # per temperature
+    for j, n_c in enumerate(loss):
+        beyond = ds["donor_concentration"].values > n_c
+        assert beyond.any()
+        np.testing.assert_array_equal(ds["ionized_fraction"].values[0, beyond, j], 1.0)
+
+
+def test_donor_cell_equals_the_command_line(donor_cube, capsys):
+    ds, _ = donor_cube
+    cell = ds.isel(strength=0, donor_concentration=1, temperature=1)
+    out = json.loads(run_cli(capsys, "--preset", "semiconductor", "--effective-mass", "0.067", "--permittivity",
+                             "12.9", "--donor-concentration", repr(float(cell["donor_concentration"])),
+                             "--temperature-K", repr(float(cell["temperature"])), "--format", "json"))
+    np.testing.assert_allclose(out["free_density_cm-3"], float(cell["free_electron_density"]), rtol=1e-11)
+    np.testing.assert_allclose(out["ionization_energy_meV"], float(cell["ionization_energy"]), rtol=1e-11)
+    np.testing.assert_allclose(out["continuum_lowering_meV"], float(cell["continuum_lowering"]), rtol=1e-9)
+
+
+def test_the_donor_cube_passes_the_cf_checker(donor_cube, tmp_path, cf_findings):
+    from boundscape.cube import write_cube
+
+    ds, _ = donor_cube
+    write_cube(ds, tmp_path / "donors.nc")
+    assert cf_findings(tmp_path / "donors.nc") == []
+
+
+@pytest.mark.parametrize("preset, words", [
+    ({"hole_mass": 0.5}, "remove preset.hole_mass"),
+    ({"units": "atomic"}, "units: effective"),
+])
+def test_donor_populations_it_cannot_solve_are_one_line(preset, words):
+    config = copy.deepcopy(DONORS)
+    config["preset"].update(preset)
+    if "units" in preset:
+        config["potential"]["mass"] = 0.067
+    with pytest.raises(InputError) as info:
+        sweep.plan(config)
+    message = str(info.value)
+    assert "\n" not in message and "config key populations" in message and words in message, message
+
+
+def test_donor_figure_renders_from_the_cube_alone(donor_cube, tmp_path):
+    import matplotlib
+
+    matplotlib.use("Agg")
+    from boundscape.plots.populations import figure_list, population_figures
+    from boundscape.plots.style import save
+
+    ds, plan = donor_cube
+    figures = population_figures(ds)
+    assert [stem for stem, _ in figures] == [stem for stem, *_ in figure_list(plan)] == ["donor_freeze_out"]
+    fig = figures[0][1]
+    assert any("$N_D$" in ax.get_xlabel() for ax in fig.axes)
+    # the curves are the stored fractions, untouched
+    np.testing.assert_array_equal(fig.axes[0].lines[0].get_ydata(), ds["ionized_fraction"].values[0, :, 0])
+    assert all(path.stat().st_size > 1000 for path in save(fig, tmp_path / "donor_freeze_out"))

@@ -10,7 +10,7 @@ if CRITICAL_COUPLINGS:
 if PLAN.engine.get("populations"):  # ionization maps, U and the continuum lowering (plots/populations.py)
     from boundscape.plots.populations import figure_list as _population_figures
 
-    FIGURE_LIST += _population_figures(PLAN.strength)
+    FIGURE_LIST += _population_figures(PLAN)
 for _stem, _caption, _category, _subcategory in FIGURE_LIST:
     FIGURE_OUTPUTS[_stem] = [report(f"{FIGURES}/{_stem}.png", caption=f"../report/{_caption}", category=_category,
                                     subcategory=_subcategory, labels={"figure": _stem}),

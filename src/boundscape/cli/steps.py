@@ -43,7 +43,7 @@ def write_tile(spec: dict, output) -> None:
         attrs.update(resonance_reasons_json=json.dumps(result["resonance_reasons"]),
                      resonance_seconds=result["resonance_seconds"])
     if population_tiles.wanted(spec):  # each engine cell's complete level set
-        dims.update(population_tiles.TILE_DIMS)
+        dims.update(population_tiles.tile_dims(spec))
         attrs.update(population_reasons_json=json.dumps(result["population_reasons"]),
                      population_seconds=result["population_seconds"])
     if spec.get("lines"):

@@ -209,7 +209,7 @@ def collect(config: dict, tile_paths, critical_paths, output, summary=None) -> s
     ds = add_trade_variables(ds, preset, plan, criticals)
     ds = add_family_parameters(ds, plan.engine)  # potential: diffuseness, core_strength, ... as scalar coordinates
     if plan.engine.get("populations"):  # partition functions, lowering, Saha (cube/populations.py)
-        ds = add_populations(ds, plan, tile_paths, layout)
+        ds = add_populations(ds, plan, tile_paths, layout, preset)
     write_cube(ds, output, fill=_fill_levels(plan, tile_paths, LEVEL_VARS + (RESONANCE_VARS if past else ()), layout))
     cells = f"{plan.num_cells} cells ({' x '.join(map(str, shape))})"
     if layout.mapped:

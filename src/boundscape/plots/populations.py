@@ -8,6 +8,7 @@ import matplotlib.pyplot as plt
 import numpy as np
 from matplotlib.lines import Line2D
 
+from .donor_freeze_out import donor_figure_list, donor_freeze_out_figure
 from .style import HALO, cell_edges, invalid_mask, shade_invalid, shade_invalid_x, tidy_log_axis
 
 __all__ = ["figure_list", "population_figures", "ionization_map", "partition_function_curves",
@@ -23,8 +24,11 @@ def _z_stem(z) -> str:
     return f"ionization_map_Z{float(z):g}"
 
 
-def figure_list(strengths) -> list:
-    """(stem, caption, report category, subcategory) of every populations figure of a sweep."""
+def figure_list(plan) -> list:
+    """(stem, caption, report category, subcategory) of every populations figure of a sweep's plan."""
+    if plan.engine["populations"].get("kind") == "donors":
+        return donor_figure_list()
+    strengths = plan.strength
     out = [(_z_stem(z), "ionization_map.rst", "Populations", f"Z = {float(z):g}") for z in strengths]
     out += [("partition_function", "partition_function.rst", "Populations", "partition function"),
             ("continuum_lowering", "continuum_lowering.rst", "Populations", "continuum lowering")]
@@ -33,6 +37,8 @@ def figure_list(strengths) -> list:
 
 def population_figures(ds):
     """(stem, figure) of every populations figure of a cube."""
+    if "donor_concentration" in ds.dims:
+        return [("donor_freeze_out", donor_freeze_out_figure(ds))]
     out = [(_z_stem(z), ionization_map(ds, i)) for i, z in enumerate(ds["strength"].values)]
     out.append(("partition_function", partition_function_curves(ds)))
     out.append(("continuum_lowering", continuum_lowering_curves(ds)))

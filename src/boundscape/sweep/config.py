@@ -122,7 +122,7 @@ def validate_config(config: dict) -> dict:
         if np.unique(values).size != values.size:
             raise InputError(f"config key grid.{name}: repeated values")
     check_lines(config)
-    population_tiles.check_config(config, preset.kind, getattr(preset, "condition_keys", ()))
+    population_tiles.check_config(config, preset)
     return config
 
 

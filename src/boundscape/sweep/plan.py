@@ -221,7 +221,7 @@ def plan(config: dict) -> Plan:
     if config["resonances"]:  # only when on, so that a sweep without them keeps its tiles' params
         engine["resonances"] = True
     if config.get("populations"):  # the temperatures each complete level set is summed at
-        engine["populations"] = population_tiles.settings(conditions)
+        engine["populations"] = population_tiles.settings(config, conditions, length_index)
     return Plan(config["sweep"], engine, strength, screening_length, l_values, n_r_max,
                 tuple(tiles), critical_blocks, tuple(label_of(p) for p in line_pairs(config.get("lines"))),
                 conditions, length_index,

@@ -25,9 +25,10 @@ from ..physics.populations import (bound_state_count, ecker_kroll_lowering, ioni
                                    log_partition_function, log_planck_larkin_partition_function,
                                    omitted_partition_bound, stewart_pyatt_lowering, unscreened_ionization_energy)
 from ..physics.populations.level_sets import DEFAULT_MAX_LEVELS
+from . import donor_tiles
 
-__all__ = ["wanted", "settings", "check_config", "empty_arrays", "solve_cell", "TILE_DIMS", "POPULATION_FLAGS",
-           "NOT_SOLVED", "condition_populations"]
+__all__ = ["wanted", "settings", "check_config", "is_donor", "tile_dims", "empty_arrays", "solve_cell", "TILE_DIMS",
+           "POPULATION_FLAGS", "NOT_SOLVED", "condition_populations", "PLASMA_AXES", "DONOR_AXES"]
 
 # The set's completeness: the engine's codes (boundscape.engine.status.LEVEL_SET_STATUS), then
 # a cell whose set could not be solved at all.
@@ -38,6 +39,8 @@ CELL = ("strength", "screening_length")
 TILE_DIMS = {"set_bound_state_count": CELL, "set_ionization_energy": CELL, "set_status": CELL,
              "set_log_partition_function": CELL + ("population_temperature",),
              "set_omitted_partition_bound": CELL + ("population_temperature",)}
+PLASMA_AXES = ("electron_density", "electron_temperature")
+DONOR_AXES = ("donor_concentration", "temperature")
 HARTREE_EV = sc.physical_constants["Hartree energy in eV"][0]
 BOHR_CM = sc.physical_constants["Bohr radius"][0] / sc.centi
 
@@ -47,24 +50,50 @@ def wanted(spec: dict) -> bool:
     return bool(spec.get("populations"))
 
 
-def check_config(config: dict, preset_kind, condition_keys) -> None:
-    """One-line error unless ``populations: true`` sits on a plasma sweep over (n_e, T_e)."""
+def check_config(config: dict, preset) -> None:
+    """One-line error unless ``populations: true`` sits on a plasma sweep over (n_e, T_e) or a
+    semiconductor donor sweep over (N_D, T) in effective atomic units."""
     if not config.get("populations"):
         return
-    if preset_kind != "plasma" or tuple(condition_keys) != ("electron_density", "electron_temperature") \
-            or "electron_density" not in config["grid"]:
-        raise InputError("config key populations: needs preset.kind plasma and grid axes electron_density and "
-                         "electron_temperature (the Saha balance is taken at each n_e, T_e); got "
-                         f"preset {preset_kind or 'none'} over {', '.join(k for k in config['grid'] if k not in ('l', 'n_r_max'))}")
+    keys, grid = tuple(getattr(preset, "condition_keys", ())), config["grid"]
+    if preset.kind == "plasma" and keys == PLASMA_AXES and keys[0] in grid:
+        return
+    if preset.kind == "semiconductor" and keys == DONOR_AXES and keys[0] in grid:
+        if preset.is_exciton:
+            raise InputError("config key populations: the donor sweep's freeze-out is for a donor; remove "
+                             "preset.hole_mass (the exciton balance is on the command line: boundscape populations)")
+        if preset.units_choice != "effective":
+            raise InputError("config key populations: the donor freeze-out needs preset.units: effective, got "
+                             f"{preset.units_choice}")
+        return
+    axes = ", ".join(k for k in grid if k not in ("l", "n_r_max"))
+    raise InputError("config key populations: needs preset.kind plasma with grid axes electron_density and "
+                     "electron_temperature, or preset.kind semiconductor with donor_concentration and temperature; "
+                     f"got preset {preset.kind or 'none'} over {axes}")
 
 
-def settings(conditions) -> dict:
-    """The tile spec's ``populations`` entry: the temperatures (hartree) each set is summed at."""
+def settings(config: dict, conditions, length_index) -> dict:
+    """The tile spec's ``populations`` entry: for a plasma the temperatures (hartree) each set
+    is summed at; for donors :func:`.donor_tiles.settings`."""
+    if tuple(conditions.length_dims) == DONOR_AXES:
+        return donor_tiles.settings(config, conditions, length_index)
     temperature_eV = np.asarray(conditions.length_values[1], dtype=float)
     return {"kT_hartree": (temperature_eV / HARTREE_EV).tolist()}
 
 
-def empty_arrays(num_strength: int, num_length: int, num_temperature: int) -> dict:
+def is_donor(spec: dict) -> bool:
+    return spec.get("populations", {}).get("kind") == "donors"
+
+
+def tile_dims(spec: dict) -> dict:
+    """The dimensions of a tile's population variables."""
+    return donor_tiles.tile_dims(spec) if is_donor(spec) else dict(TILE_DIMS)
+
+
+def empty_arrays(spec: dict, num_strength: int, num_length: int) -> dict:
+    if is_donor(spec):
+        return donor_tiles.empty_arrays(spec, num_strength)
+    num_temperature = len(spec["populations"]["kT_hartree"])
     shape = (num_strength, num_length)
     return {"set_bound_state_count": np.full(shape, -1, np.int64),
             "set_ionization_energy": np.full(shape, np.nan),
@@ -75,8 +104,13 @@ def empty_arrays(num_strength: int, num_length: int, num_temperature: int) -> di
 
 
 def solve_cell(out: dict, cell, pot, spec: dict) -> None:
-    """The complete level set of one engine cell and its sums at the sweep's temperatures."""
+    """The complete level set of one engine cell and its sums at the sweep's temperatures (a
+    donor sweep: the freeze-out of every condition on this engine cell)."""
     start = time.perf_counter()
+    if is_donor(spec):
+        donor_tiles.solve_cell(out, cell, pot, spec)
+        out["population_seconds"] += time.perf_counter() - start
+        return
     kT = np.asarray(spec["populations"]["kT_hartree"], dtype=float)
     try:
         levels = engine.level_set(pot, max_levels=DEFAULT_MAX_LEVELS)

@@ -63,7 +63,7 @@ def solve_tile(spec: dict) -> dict:
         out.update(resonance_tiles.empty_arrays(cell_shape, n_r_max))
     populations = population_tiles.wanted(spec)  # each cell's complete level set (population_tiles)
     if populations:
-        out.update(population_tiles.empty_arrays(len(strengths), len(lams), len(spec["populations"]["kT_hartree"])))
+        out.update(population_tiles.empty_arrays(spec, len(strengths), len(lams)))
     for i, strength in enumerate(strengths):
         for j, lam in enumerate(lams):
             start = time.perf_counter()
