@@ -131,6 +131,15 @@ def test_pressure_ionization_once_the_1s_is_lost(cube):
     assert (ds["ionization_energy"].where(empty) == 0).sum() == empty.sum()
 
 
+def test_populations_do_not_depend_on_the_tiling(cube, tmp_path):
+    # common practice, no source: a cell's bits are its own, whatever tile solved it
+    ds, _ = cube
+    other, plan = build(tmp_path, {**CONFIG, "tiles": {"cells": 3}})
+    assert len(plan.tiles) > 4
+    for name in NAMES:
+        np.testing.assert_array_equal(other[name].values, ds[name].values, err_msg=name)
+
+
 def test_the_cube_passes_the_cf_checker(cube, tmp_path, cf_findings):
     from boundscape.cube import write_cube
 

@@ -127,6 +127,7 @@ class Plan:
         # Critical lengths do not depend on the λ grid; only its ends decide the flags in collect.
         spec.pop("screening_length"), spec.pop("screening_length_index")
         spec.pop("lines", None)
+        spec.pop("populations", None)  # critical lengths do not depend on them: toggling reruns no block
         if self.critical_strengths and block.index == 0:  # the critical strength at every length, once
             spec["critical_strength_at"] = self.screening_length.tolist()
         return spec
