@@ -192,6 +192,26 @@ def test_cli_json_keys_and_values_are_the_cubes(cube, capsys):
     assert out["potential"]["conditions"]["screening_model"] == "debye"
 
 
+def test_with_screening_ions_the_published_models_see_them_too(tmp_path, capsys):
+    config = copy.deepcopy(CONFIG)
+    config["grid"].update(strength=[2.0], electron_density=[1e21, 1e23], electron_temperature=[10.0])
+    config["preset"] = {"kind": "plasma", "species": "electrons_and_ions", "screening_ion_charge": 2.0}
+    ds, _ = build(tmp_path, config)
+    capsys.readouterr()  # the steps' progress lines
+    cell = ds.isel(strength=0, electron_density=1, electron_temperature=0)
+    out = json.loads(run_cli(capsys, "--preset", "plasma", "--nuclear-charge", "2", "--density", "1e23",
+                             "--temperature", "10", "--species", "electrons_and_ions", "--screening-ion-charge", "2",
+                             "--format", "json"))
+    for key in ("continuum_lowering_stewart_pyatt_eV", "continuum_lowering_ecker_kroll_eV", "continuum_lowering_eV",
+                "ionized_fraction"):
+        np.testing.assert_allclose(out[key], float(cell[key.removesuffix("_eV")]), rtol=1e-11, err_msg=key)
+    assert "z* = 2" in ds["continuum_lowering_stewart_pyatt"].attrs["comment"]
+    # electrons and ions screen more than electrons alone: SP's lowering is larger (Stewart & Pyatt 1966)
+    alone = json.loads(run_cli(capsys, "--preset", "plasma", "--nuclear-charge", "2", "--density", "1e23",
+                               "--temperature", "10", "--format", "json"))
+    assert out["continuum_lowering_stewart_pyatt_eV"] > alone["continuum_lowering_stewart_pyatt_eV"]
+
+
 def test_cli_semiconductor_json_is_charge_neutral(capsys):
     out = json.loads(run_cli(capsys, "--preset", "semiconductor", "--effective-mass", "0.067", "--permittivity",
                              "12.9", "--donor-concentration", "1e16", "--temperature-K", "20", "--format", "json"))

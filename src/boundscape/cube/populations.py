@@ -44,11 +44,11 @@ POPULATION_VARS = {
     "continuum_lowering": ("continuum lowering of this model, I_0 - I", "eV",
                            "I_0 = Z^2 mu/2 hartree, the unscreened hydrogen-like ion's ionization energy", True),
     "continuum_lowering_stewart_pyatt": ("continuum lowering of Stewart and Pyatt", "eV",
-                                         "J. C. Stewart and K. D. Pyatt, Astrophys. J. 144, 1203 (1966), electrons "
-                                         "alone (z* = 0), at the same n_e and T_e", True),
+                                         "J. C. Stewart and K. D. Pyatt, Astrophys. J. 144, 1203 (1966); {plasma}",
+                                         True),
     "continuum_lowering_ecker_kroll": ("continuum lowering of Ecker and Kroll", "eV",
-                                       "G. Ecker and W. Kroll, Phys. Fluids 6, 62 (1963), constant C = 1, "
-                                       "n_i = n_e, electrons alone (z* = 0), at the same n_e and T_e", True),
+                                       "G. Ecker and W. Kroll, Phys. Fluids 6, 62 (1963), constant C = 1; {plasma}",
+                                       True),
     "ionized_fraction": ("ionized fraction of the hydrogen-like ion, n_Z/(n_Z + n_{Z-1})", "1", SAHA_CONVENTION,
                          False),
 }
@@ -79,15 +79,19 @@ def add_populations(ds, plan, tile_paths, layout, preset=None):
         return add_donor_populations(ds, plan, tile_paths, preset)
     sets, reasons = _gather(plan, tile_paths)
     grid = plan.conditions
+    z_star = float(plan.engine["populations"].get("z_star", 0.0))
     values = condition_populations(plan.strength, grid.length_values[0], grid.length_values[1], layout.length_index,
-                                   sets, mass=float(plan.engine["mass"]))
+                                   sets, mass=float(plan.engine["mass"]), z_star=z_star)
+    plasma = (f"electrons and ions of charge {z_star:g} (z* = {z_star:g}, n_i = n_e/z*)" if z_star
+              else "electrons alone (z* = 0)") + ", T_i = T_e, at the same n_e and T_e"
     dims = (layout.strength_dim, *layout.length_dims)
     out = ds.copy()
     for name, (long_name, units, comment, energy) in POPULATION_VARS.items():
         data = np.asarray(values[name], dtype=np.int64 if name == "bound_state_count" else np.float64)
         if energy:
             data = data * HARTREE_EV
-        out[name] = (dims, np.ascontiguousarray(data), {"long_name": long_name, "units": units, "comment": comment,
+        out[name] = (dims, np.ascontiguousarray(data), {"long_name": long_name, "units": units,
+                                                          "comment": comment.replace("{plasma}", plasma),
                                                           "ancillary_variables": "level_set_status"})
     out["level_set_status"] = (dims, np.asarray(values["level_set_status"], np.int8), {
         "long_name": "completeness of the cell's bound level set", **flag_attrs(POPULATION_FLAGS),

@@ -78,7 +78,11 @@ def settings(config: dict, conditions, length_index) -> dict:
     if tuple(conditions.length_dims) == DONOR_AXES:
         return donor_tiles.settings(config, conditions, length_index)
     temperature_eV = np.asarray(conditions.length_values[1], dtype=float)
-    return {"kT_hartree": (temperature_eV / HARTREE_EV).tolist()}
+    section = config.get("preset") or {}
+    # Stewart–Pyatt and Ecker–Kröll see the plasma the engine's screening sees: electrons alone
+    # (z* = 0), or with quasi-neutral ions of charge Z_i (z* = Z_i, n_i = n_e/Z_i).
+    z_star = float(section.get("screening_ion_charge", 1.0)) if section.get("species") == "electrons_and_ions" else 0.0
+    return {"kT_hartree": (temperature_eV / HARTREE_EV).tolist(), "z_star": z_star}
 
 
 def is_donor(spec: dict) -> bool:
@@ -130,12 +134,12 @@ def solve_cell(out: dict, cell, pot, spec: dict) -> None:
 
 
 def condition_populations(strength, electron_density_cm3, temperature_eV, length_index, sets: dict,
-                          mass: float = 1.0) -> dict:
+                          mass: float = 1.0, z_star: float = 0.0) -> dict:
     """Every population quantity over (strength, n_e, T_e), in hartree where an energy.
 
     ``sets`` holds the tiles' arrays gathered over (strength, distinct λ[, T]); ``length_index``
-    (n_e, T_e) → distinct λ, as the plan gives it.  Stewart–Pyatt and Ecker–Kröll use the
-    electrons alone (z* = 0), as the engine's screening does for ``species: electrons``."""
+    (n_e, T_e) → distinct λ, as the plan gives it.  Stewart–Pyatt and Ecker–Kröll see the same
+    screening species: electrons alone (z* = 0), or with ions of charge z* (n_i = n_e/z*)."""
     Z = np.asarray(strength, float)[:, None, None]
     n_e = (np.asarray(electron_density_cm3, float) * BOHR_CM ** 3)[None, :, None]
     kT = (np.asarray(temperature_eV, float) / HARTREE_EV)[None, None, :]
@@ -156,8 +160,9 @@ def condition_populations(strength, electron_density_cm3, temperature_eV, length
         "planck_larkin_partition_function": np.broadcast_to(planck_larkin, shape),
         "ionization_energy": i_set,
         "continuum_lowering": i_0 - i_set,
-        "continuum_lowering_stewart_pyatt": np.broadcast_to(stewart_pyatt_lowering(Z, n_e, kT), shape),
-        "continuum_lowering_ecker_kroll": np.broadcast_to(ecker_kroll_lowering(Z, n_e, kT), shape),
+        "continuum_lowering_stewart_pyatt": np.broadcast_to(stewart_pyatt_lowering(Z, n_e, kT, z_star=z_star), shape),
+        "continuum_lowering_ecker_kroll": np.broadcast_to(
+            ecker_kroll_lowering(Z, n_e, kT, z_star=z_star, ion_density=n_e / z_star if z_star else None), shape),
         "ionized_fraction": fraction,
         "level_set_status": sets["set_status"][:, length_index],
     }
