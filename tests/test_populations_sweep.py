@@ -153,7 +153,7 @@ def test_the_cube_passes_the_cf_checker(cube, tmp_path, cf_findings):
     ({"preset": None}, "needs preset.kind plasma"),
     ({"preset": {"kind": "semiconductor", "effective_mass": 0.067, "permittivity": 12.9},
       "grid": {"strength": [1.0], "carrier_density": [1e15], "temperature": [10.0], "l": [0], "n_r_max": 1}},
-     "needs preset.kind plasma"),
+     "needs preset.hole_mass"),
     ({"populations": "yes"}, "populations"),
 ])
 def test_populations_on_a_sweep_it_does_not_fit_is_one_line_naming_the_key(changes, words):
@@ -325,6 +325,26 @@ def test_the_donor_cube_passes_the_cf_checker(donor_cube, tmp_path, cf_findings)
     ds, _ = donor_cube
     write_cube(ds, tmp_path / "donors.nc")
     assert cf_findings(tmp_path / "donors.nc") == []
+
+
+def test_exciton_sweep_over_the_pair_density(tmp_path, capsys):
+    config = {**copy.deepcopy(DONORS), "sweep": "excitons"}
+    config["grid"] = {"strength": [1.0], "carrier_density": [1e14, 1e16, 1e18], "temperature": [10.0], "l": [0],
+                      "n_r_max": 1}
+    config["preset"]["hole_mass"] = 0.5
+    ds, _ = build(tmp_path, config)
+    capsys.readouterr()
+    for name in ("free_pair_density", "ionized_fraction", "ionization_energy", "balance_status"):
+        assert ds[name].dims == ("strength", "carrier_density", "temperature"), name
+    # pairs are conserved: the free ones are the ionized fraction of all (common practice, no source)
+    np.testing.assert_allclose(ds["free_pair_density"].values,
+                               ds["ionized_fraction"].values * ds["carrier_density"].values[None, :, None], rtol=1e-12)
+    cell = ds.isel(strength=0, carrier_density=1, temperature=0)
+    out = json.loads(run_cli(capsys, "--preset", "semiconductor", "--effective-mass", "0.067", "--hole-mass", "0.5",
+                             "--permittivity", "12.9", "--pair-density", "1e16", "--temperature-K", "10",
+                             "--format", "json"))
+    np.testing.assert_allclose(out["free_density_cm-3"], float(cell["free_pair_density"]), rtol=1e-11)
+    assert ds["ionized_fraction"].values[0, -1, 0] == 1.0  # 1e18 cm-3 of pairs bind no exciton: a plasma
 
 
 @pytest.mark.parametrize("preset, words", [

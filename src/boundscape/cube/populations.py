@@ -14,10 +14,12 @@ import json
 import numpy as np
 
 from ..sweep.population_tiles import HARTREE_EV, POPULATION_FLAGS, TILE_DIMS, condition_populations
+from ..sweep.balance_tiles import KINDS as BALANCE_KINDS
+from .balances import add_balances
 from .model import flag_attrs
 from .netcdf import read_part_variables
 
-__all__ = ["POPULATION_VARS", "add_populations", "add_donor_populations", "DONOR_ATTRS", "SAHA_CONVENTION", "PLANCK_LARKIN_SOURCE"]
+__all__ = ["POPULATION_VARS", "add_populations", "SAHA_CONVENTION", "PLANCK_LARKIN_SOURCE"]
 
 SAHA_CONVENTION = ("hydrogen-like ion <-> bare nucleus: n_Z/n_{Z-1} = 2 (2 pi m_e k T_e/h^2)^{3/2} / (n_e U), "
                    "with the bare nucleus's partition function taken as 1 and the free electron's spin weight 2; "
@@ -75,8 +77,8 @@ def _gather(plan, tile_paths) -> dict:
 
 def add_populations(ds, plan, tile_paths, layout, preset=None):
     """``ds`` with the population variables over (strength, *conditions)."""
-    if plan.engine["populations"].get("kind") == "donors":
-        return add_donor_populations(ds, plan, tile_paths, preset)
+    if plan.engine["populations"].get("kind") in BALANCE_KINDS:  # a semiconductor's (cube/balances.py)
+        return add_balances(ds, plan, tile_paths, preset)
     sets, reasons = _gather(plan, tile_paths)
     grid = plan.conditions
     z_star = float(plan.engine["populations"].get("z_star", 0.0))
@@ -102,57 +104,3 @@ def add_populations(ds, plan, tile_paths, layout, preset=None):
     out.attrs["populations"] = np.int8(1)
     return out
 
-
-# -- a semiconductor donor sweep -----------------------------------------------------------------
-
-DONOR_ATTRS = {
-    "free_electron_density": ("free electron density of the self-consistent donor freeze-out", "cm-3",
-                              "n = N_D+ (charge neutrality, no compensation); the free electrons screen the donors "
-                              "in the preset's model"),
-    "ionized_fraction": ("ionized donor fraction N_D+/N_D", "1",
-                         "self-consistent: n sets the screening, the screening the donor's complete level set, the "
-                         "levels N_D0/N_D+ = exp(eta) U (Saha; Sze & Ng, Physics of Semiconductor Devices, 3rd ed., "
-                         "section 1.4); the ionized branch where several solutions exist (Mott)"),
-    "ionization_energy": ("ionization energy of the screened donor at the self-consistent screening", "meV",
-                          "I = -E_1s from the band edge; 0 where the 1s is no longer bound"),
-    "continuum_lowering": ("continuum lowering of the donor at the self-consistent screening, I_0 - I", "meV",
-                           "I_0 = Z^2 Ry mu*/eps_r^2, the unscreened hydrogenic donor"),
-    "partition_function": ("partition function of the screened donor", "1", "sum over every bound (n, l) of "
-                           "2(2l + 1) exp(-E_nl/kT), energies from the band edge, at the self-consistent screening"),
-    "self_consistent_screening_length": ("screening length of the self-consistent free electrons", "nm", ""),
-    "balance_solutions": ("number of self-consistent solutions", "1",
-                          "more than one: the balance is hysteretic near the Mott transition"),
-}
-
-
-def add_donor_populations(ds, plan, tile_paths, preset):
-    """``ds`` with the donor freeze-out over (strength, donor_concentration, temperature)."""
-    from ..sweep.donor_tiles import DONOR_FLAGS, DONOR_VARS, gather
-
-    merged = gather(plan, ((tile, read_part_variables(path, DONOR_VARS)) for tile, path in zip(plan.tiles, tile_paths)))
-    z = np.asarray(plan.strength, float)[:, None, None]
-    i_0 = z ** 2 * preset.effective.energy_eV * 1e3 / 2.0  # Z² Ry*: half the effective hartree, in meV
-    merged["continuum_lowering"] = i_0 - merged["ionization_energy"]
-    dims = ("strength", "donor_concentration", "temperature")
-    out = ds.copy()
-    for name, (long_name, units, comment) in DONOR_ATTRS.items():
-        attrs = {"long_name": long_name, "units": units, "ancillary_variables": "balance_status"}
-        if comment:
-            attrs["comment"] = comment
-        dtype = np.int16 if name == "balance_solutions" else np.float64
-        out[name] = (dims, np.asarray(merged[name], dtype), attrs)
-    reasons = []
-    import netCDF4
-
-    for tile, path in zip(plan.tiles, tile_paths):
-        with netCDF4.Dataset(path) as nc:
-            reasons += [f"strength={tile.strength[i]!r} donor_concentration={plan.conditions.length_values[0][a]!r} "
-                        f"temperature={plan.conditions.length_values[1][b]!r}: {text}"
-                        for i, a, b, text in json.loads(nc.getncattr("population_reasons_json"))]
-    out["balance_status"] = (dims, merged["balance_status"], {
-        "long_name": "status of the self-consistent donor balance", **flag_attrs(DONOR_FLAGS),
-        "comment": "several_solutions: hysteretic, the ionized branch taken; incomplete_scan or beyond_engine_limits: "
-                   "the search stopped at its reach. Why, per cell: attribute flagged_cells",
-        "flagged_cells": "\n".join(reasons) or "none"})
-    out.attrs["populations"] = np.int8(1)
-    return out

@@ -8,7 +8,7 @@ import matplotlib.pyplot as plt
 import numpy as np
 from matplotlib.lines import Line2D
 
-from .donor_freeze_out import donor_figure_list, donor_freeze_out_figure
+from .balances import balance_figure_list, balance_figure, figure_stem
 from .style import HALO, cell_edges, invalid_mask, shade_invalid, shade_invalid_x, tidy_log_axis
 
 __all__ = ["figure_list", "population_figures", "ionization_map", "partition_function_curves",
@@ -26,8 +26,8 @@ def _z_stem(z) -> str:
 
 def figure_list(plan) -> list:
     """(stem, caption, report category, subcategory) of every populations figure of a sweep's plan."""
-    if plan.engine["populations"].get("kind") == "donors":
-        return donor_figure_list()
+    if plan.engine["populations"].get("kind") in ("donors", "excitons"):
+        return balance_figure_list(plan.engine["populations"]["kind"])
     strengths = plan.strength
     out = [(_z_stem(z), "ionization_map.rst", "Populations", f"Z = {float(z):g}") for z in strengths]
     out += [("partition_function", "partition_function.rst", "Populations", "partition function"),
@@ -37,8 +37,8 @@ def figure_list(plan) -> list:
 
 def population_figures(ds):
     """(stem, figure) of every populations figure of a cube."""
-    if "donor_concentration" in ds.dims:
-        return [("donor_freeze_out", donor_freeze_out_figure(ds))]
+    if "balance_status" in ds:  # a semiconductor's self-consistent balance
+        return [(figure_stem(ds), balance_figure(ds))]
     out = [(_z_stem(z), ionization_map(ds, i)) for i, z in enumerate(ds["strength"].values)]
     out.append(("partition_function", partition_function_curves(ds)))
     out.append(("continuum_lowering", continuum_lowering_curves(ds)))

@@ -25,10 +25,10 @@ from ..physics.populations import (bound_state_count, ecker_kroll_lowering, ioni
                                    log_partition_function, log_planck_larkin_partition_function,
                                    omitted_partition_bound, stewart_pyatt_lowering, unscreened_ionization_energy)
 from ..physics.populations.level_sets import DEFAULT_MAX_LEVELS
-from . import donor_tiles
+from . import balance_tiles
 
-__all__ = ["wanted", "settings", "check_config", "is_donor", "tile_dims", "empty_arrays", "solve_cell", "TILE_DIMS",
-           "POPULATION_FLAGS", "NOT_SOLVED", "condition_populations", "PLASMA_AXES", "DONOR_AXES"]
+__all__ = ["wanted", "settings", "check_config", "is_balance", "tile_dims", "empty_arrays", "solve_cell", "TILE_DIMS",
+           "POPULATION_FLAGS", "NOT_SOLVED", "condition_populations", "PLASMA_AXES"]
 
 # The set's completeness: the engine's codes (boundscape.engine.status.LEVEL_SET_STATUS), then
 # a cell whose set could not be solved at all.
@@ -40,7 +40,6 @@ TILE_DIMS = {"set_bound_state_count": CELL, "set_ionization_energy": CELL, "set_
              "set_log_partition_function": CELL + ("population_temperature",),
              "set_omitted_partition_bound": CELL + ("population_temperature",)}
 PLASMA_AXES = ("electron_density", "electron_temperature")
-DONOR_AXES = ("donor_concentration", "temperature")
 HARTREE_EV = sc.physical_constants["Hartree energy in eV"][0]
 BOHR_CM = sc.physical_constants["Bohr radius"][0] / sc.centi
 
@@ -51,32 +50,37 @@ def wanted(spec: dict) -> bool:
 
 
 def check_config(config: dict, preset) -> None:
-    """One-line error unless ``populations: true`` sits on a plasma sweep over (n_e, T_e) or a
-    semiconductor donor sweep over (N_D, T) in effective atomic units."""
+    """One-line error unless ``populations: true`` sits on a plasma sweep over (n_e, T_e), a
+    donor sweep over (N_D, T), or an exciton sweep over (pair density, T), the last two in
+    effective atomic units."""
     if not config.get("populations"):
         return
     keys, grid = tuple(getattr(preset, "condition_keys", ())), config["grid"]
     if preset.kind == "plasma" and keys == PLASMA_AXES and keys[0] in grid:
         return
-    if preset.kind == "semiconductor" and keys == DONOR_AXES and keys[0] in grid:
-        if preset.is_exciton:
+    if preset.kind == "semiconductor" and keys[0] in grid and keys in balance_tiles.KINDS.values():
+        if keys == balance_tiles.KINDS["donors"] and preset.is_exciton:
             raise InputError("config key populations: the donor sweep's freeze-out is for a donor; remove "
-                             "preset.hole_mass (the exciton balance is on the command line: boundscape populations)")
+                             "preset.hole_mass, or sweep an exciton over carrier_density (the pair density)")
+        if keys == balance_tiles.KINDS["excitons"] and not preset.is_exciton:
+            raise InputError("config key populations: over carrier_density it is the exciton balance and needs "
+                             "preset.hole_mass; for donors sweep grid.donor_concentration")
         if preset.units_choice != "effective":
-            raise InputError("config key populations: the donor freeze-out needs preset.units: effective, got "
-                             f"{preset.units_choice}")
+            raise InputError("config key populations: the self-consistent balance needs preset.units: effective, "
+                             f"got {preset.units_choice}")
         return
     axes = ", ".join(k for k in grid if k not in ("l", "n_r_max"))
     raise InputError("config key populations: needs preset.kind plasma with grid axes electron_density and "
-                     "electron_temperature, or preset.kind semiconductor with donor_concentration and temperature; "
-                     f"got preset {preset.kind or 'none'} over {axes}")
+                     "electron_temperature, or preset.kind semiconductor with donor_concentration (or, for an "
+                     f"exciton, carrier_density) and temperature; got preset {preset.kind or 'none'} over {axes}")
 
 
 def settings(config: dict, conditions, length_index) -> dict:
     """The tile spec's ``populations`` entry: for a plasma the temperatures (hartree) each set
-    is summed at; for donors :func:`.donor_tiles.settings`."""
-    if tuple(conditions.length_dims) == DONOR_AXES:
-        return donor_tiles.settings(config, conditions, length_index)
+    is summed at; for a semiconductor :func:`.balance_tiles.settings`."""
+    for kind, axes in balance_tiles.KINDS.items():
+        if tuple(conditions.length_dims) == axes:
+            return balance_tiles.settings(config, conditions, length_index, kind)
     temperature_eV = np.asarray(conditions.length_values[1], dtype=float)
     section = config.get("preset") or {}
     # Stewart–Pyatt and Ecker–Kröll see the plasma the engine's screening sees: electrons alone
@@ -85,18 +89,19 @@ def settings(config: dict, conditions, length_index) -> dict:
     return {"kT_hartree": (temperature_eV / HARTREE_EV).tolist(), "z_star": z_star}
 
 
-def is_donor(spec: dict) -> bool:
-    return spec.get("populations", {}).get("kind") == "donors"
+def is_balance(spec: dict) -> bool:
+    """Whether a spec's populations are a semiconductor's self-consistent balances."""
+    return spec.get("populations", {}).get("kind") in balance_tiles.KINDS
 
 
 def tile_dims(spec: dict) -> dict:
     """The dimensions of a tile's population variables."""
-    return donor_tiles.tile_dims(spec) if is_donor(spec) else dict(TILE_DIMS)
+    return balance_tiles.tile_dims(spec) if is_balance(spec) else dict(TILE_DIMS)
 
 
 def empty_arrays(spec: dict, num_strength: int, num_length: int) -> dict:
-    if is_donor(spec):
-        return donor_tiles.empty_arrays(spec, num_strength)
+    if is_balance(spec):
+        return balance_tiles.empty_arrays(spec, num_strength)
     num_temperature = len(spec["populations"]["kT_hartree"])
     shape = (num_strength, num_length)
     return {"set_bound_state_count": np.full(shape, -1, np.int64),
@@ -109,10 +114,10 @@ def empty_arrays(spec: dict, num_strength: int, num_length: int) -> dict:
 
 def solve_cell(out: dict, cell, pot, spec: dict) -> None:
     """The complete level set of one engine cell and its sums at the sweep's temperatures (a
-    donor sweep: the freeze-out of every condition on this engine cell)."""
+    semiconductor: the balance of every condition on this engine cell)."""
     start = time.perf_counter()
-    if is_donor(spec):
-        donor_tiles.solve_cell(out, cell, pot, spec)
+    if is_balance(spec):
+        balance_tiles.solve_cell(out, cell, pot, spec)
         out["population_seconds"] += time.perf_counter() - start
         return
     kT = np.asarray(spec["populations"]["kT_hartree"], dtype=float)
