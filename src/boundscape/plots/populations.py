@@ -69,6 +69,12 @@ def ionization_map(ds, index: int):
         ax.contour(n_e, T_e, empty.T.astype(float), levels=[0.5], colors="orangered", linewidths=1.4,
                    linestyles="--")
         handles.append(Line2D([], [], color="orangered", lw=1.4, ls="--", label="beyond: no bound level"))
+    incomplete = ds["level_set_status"].values[index] != 0  # truncated (U a lower bound) or unknown
+    if incomplete.any():
+        a, b = np.nonzero(incomplete)
+        ax.plot(n_e[a], T_e[b], ls="none", marker="x", ms=4, mew=0.8, color="white", path_effects=HALO, zorder=3)
+        handles.append(Line2D([], [], ls="none", marker="x", ms=4, color="white", path_effects=HALO,
+                              label="level set incomplete: U a lower bound"))
     mask = invalid_mask(ds)
     if mask is not None:
         hatch = shade_invalid(ax, x_edges, y_edges, mask)
@@ -79,7 +85,7 @@ def ionization_map(ds, index: int):
     ax.set_xlabel(DENSITY), ax.set_ylabel(TEMPERATURE)
     ax.set_title(f"Saha ionized fraction of the {_title(ds, z)}")
     if handles:  # below the map, so that it hides no cell
-        fig.legend(handles=handles, loc="outside lower center", ncols=min(len(handles), 3), fontsize=7)
+        fig.legend(handles=handles, loc="outside lower center", ncols=2, fontsize=7)
     return fig
 
 
