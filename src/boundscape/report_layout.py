@@ -17,13 +17,17 @@ _GROUP = {"Threshold maps": "Maps", "Level fans": "Fans", "Resonance fans": "Fan
 _SUBCATEGORY = {"level_fan": "bound levels", "resonance_fan": "past the threshold"}
 _NAMES = {"level_fan": "Level fan", "resonance_fan": "Resonance fan", "condition_map": "Condition map",
           "line_survival": "Line survival chart", "inverse_scattering_length": "Inverse scattering length 1/a",
-          "phase_shifts": "Phase shifts"}
+          "phase_shifts": "Phase shifts", "partition_function": "Partition function",
+          "continuum_lowering": "Continuum lowering", "donor_freeze_out": "Donor freeze-out",
+          "exciton_balance": "Exciton balance"}
 
 
 def figure_label(stem: str) -> str:
     """A figure's name as a reader reads it: ``threshold_map_l0`` → ``"Threshold map, l = 0"``."""
     if stem.startswith("threshold_map_l"):
         return f"Threshold map, l = {stem.removeprefix('threshold_map_l')}"
+    if stem.startswith("ionization_map_Z"):
+        return f"Ionization map, Z = {stem.removeprefix('ionization_map_Z')}"
     if stem.startswith("line_shift_"):
         return f"Line shift, {stem.removeprefix('line_shift_').replace('-', '–')}"
     return _NAMES.get(stem, stem.replace("_", " ").capitalize())

@@ -69,6 +69,10 @@ if PLAN.scattering is not None:  # scattering: true, or {energies: [...]} (plots
     FIGURE_LIST.append(("inverse_scattering_length", "inverse_scattering_length.rst", "Scattering", "1/a"))
     if PLAN.scattering["energies"]:
         FIGURE_LIST.append(("phase_shifts", "phase_shifts.rst", "Scattering", "phase shifts"))
+if PLAN.engine.get("populations"):  # ionization maps, U and the continuum lowering (plots/populations.py)
+    from boundscape.plots.populations import figure_list as _population_figures
+
+    FIGURE_LIST += _population_figures(PLAN)
 # the report's categories in a reader's order, readable names, the l = 0 map's own caption
 FIGURE_LIST, CATEGORIES = arrange(FIGURE_LIST)
 TABLES = ("critical_screening_lengths.csv", "sweep_config.yaml")

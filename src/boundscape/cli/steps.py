@@ -28,7 +28,7 @@ from pathlib import Path
 import numpy as np
 
 from ..errors import InputError
-from ..sweep import load_config, plan, resonance_tiles, scattering_tiles, solve_criticals, solve_tile
+from ..sweep import load_config, plan, population_tiles, resonance_tiles, scattering_tiles, solve_criticals, solve_tile
 
 
 def write_tile(spec: dict, output) -> None:
@@ -47,6 +47,10 @@ def write_tile(spec: dict, output) -> None:
     if scattering_tiles.wanted(spec):
         dims.update(scattering_tiles.part_dims(spec))
         attrs.update(scattering_tiles.part_attrs(result))
+    if population_tiles.wanted(spec):  # each engine cell's complete level set
+        dims.update(population_tiles.tile_dims(spec))
+        attrs.update(population_reasons_json=json.dumps(result["population_reasons"]),
+                     population_seconds=result["population_seconds"])
     if spec.get("lines"):
         from ..cube.lines import LINE_DIMS
         from ..sweep.line_tiles import LINE_VARS, solve_line_tile

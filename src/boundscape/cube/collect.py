@@ -28,6 +28,7 @@ from .model import LEVEL_VARS, NUM_BOUND_UNKNOWN, build_cube, strength_attribute
 from .netcdf import open_for_filling, read_part, read_part_variables, write_cube
 from .parameters import add_family_parameters
 from .physical import add_physical_coordinates, add_trade_variables
+from .populations import add_populations
 from .resonances import RESONANCE_VARS, add_resonances
 from .resonances import placeholders as resonance_placeholders
 from .scattering import add_scattering
@@ -214,6 +215,8 @@ def collect(config: dict, tile_paths, critical_paths, output, summary=None) -> s
     ds = add_family_parameters(ds, plan.engine)  # potential: diffuseness, core_strength, ... as scalar coordinates
     if plan.scattering is not None:  # in the units the preset left the cube in (cube/scattering.py)
         ds = add_scattering(ds, plan, tile_paths, layout)
+    if plan.engine.get("populations"):  # partition functions, lowering, Saha (cube/populations.py)
+        ds = add_populations(ds, plan, tile_paths, layout, preset)
     write_cube(ds, output, fill=_fill_levels(plan, tile_paths, LEVEL_VARS + (RESONANCE_VARS if past else ())
                                              + scattering_names(plan), layout))
     cells = f"{plan.num_cells} cells ({' x '.join(map(str, shape))})"

@@ -15,7 +15,7 @@ import numpy as np
 from .. import engine
 from ..engine import INPUT_REJECTED, NOT_CONVERGED
 from ..errors import ConvergenceError, InputError
-from . import resonance_tiles, scattering_tiles
+from . import population_tiles, resonance_tiles, scattering_tiles
 
 __all__ = ["CRITICAL_FLAGS", "UNKNOWN_COUNT", "solve_tile", "solve_criticals"]
 
@@ -65,6 +65,9 @@ def solve_tile(spec: dict) -> dict:
     scatter = scattering_tiles.wanted(spec)  # also a_l, 1/a_l, r_e (and δ_l, σ_l): scattering_tiles
     if scatter:
         out.update(scattering_tiles.empty_arrays(cell_shape, spec))
+    populations = population_tiles.wanted(spec)  # each cell's complete level set (population_tiles)
+    if populations:
+        out.update(population_tiles.empty_arrays(spec, len(strengths), len(lams)))
     for i, strength in enumerate(strengths):
         for j, lam in enumerate(lams):
             start = time.perf_counter()
@@ -90,6 +93,8 @@ def solve_tile(spec: dict) -> dict:
                     resonance_tiles.solve_cell(out, (i, j, k), pot, int(l), int(res.num_bound), n_r_max)
                 if scatter:
                     scattering_tiles.solve_cell(out, (i, j, k), pot, int(l), int(res.num_bound), spec)
+            if populations:
+                population_tiles.solve_cell(out, (i, j), pot, spec)
             engine_seconds += time.perf_counter() - start
     out["reasons"] = reasons
     out["engine_seconds"] = engine_seconds
