@@ -110,7 +110,10 @@ def landing_text(ds, config: dict, summary: str) -> str:
         lines.append(text)
     else:
         lines.append("- **Preset**: none; every number in atomic units (hartree, bohr).")
-    lines.append(f"- **Reduced mass**: {float(attrs.get('mass', 1.0)):g} {attrs.get('mass_units', 'electron masses')} "
+    mass, mass_units = float(attrs.get("mass", 1.0)), attrs.get("mass_units", "electron masses")
+    if mass == 1.0 and mass_units.endswith("masses"):  # "1 electron mass", not "1 electron masses"
+        mass_units = mass_units.removesuffix("es")
+    lines.append(f"- **Reduced mass**: {mass:g} {mass_units} "
                  "(the engine's mass; the cube's attributes ``mass`` and ``mass_units``).")
     tol = f"{RTOL:.0e}".replace("e-0", "e-")
     accuracy = (f"- **Accuracy**: every level is converged until its error estimate (Richardson, grids h, h/2, h/4; "

@@ -47,7 +47,7 @@ def population_figures(ds):
 
 def _title(ds, z):
     model = ds.attrs.get("screening_model")
-    return f"hydrogen-like ion, $Z$ = {float(z):g}" + (f"\n({model} screening)" if model else "")
+    return f"hydrogen-like ion, $Z$ = {float(z):g}" + (f"\n({model.replace('_', '-')} screening)" if model else "")
 
 
 def ionization_map(ds, index: int):
