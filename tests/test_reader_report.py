@@ -209,7 +209,7 @@ def test_landing_text_states_preset_mass_tolerance_and_scope(plasma_cube):
     config = yaml.safe_load(ds.attrs["config_yaml"])
     text = landing_text(ds, config, (directory / "summary.txt").read_text())
     for words in ("**Preset**: plasma (temperature_eV 20.0, species electrons, screening debye)",
-                  "**Reduced mass**: 1 electron masses", "below 1e-9 of its energy", "checked to 1e-9",
+                  "**Reduced mass**: 1 electron mass", "below 1e-9 of its energy", "checked to 1e-9",
                   "The non-relativistic Schrödinger equation", "static screened potential", "weak coupling",
                   "not converged, rejected or not solved: 0"):
         assert words in text, words
