@@ -71,7 +71,7 @@ def test_loss_table_header_says_units_conditions_model_and_version(plasma_cube, 
     assert f"boundscape {ds.attrs['boundscape_version']}" in text and ds.attrs["config_sha256"] in text
     assert "preset: plasma" in text and "screening model debye" in text  # a sweep over λ keeps Debye
     assert "at the reference temperature 20 eV" in text  # where the loss density holds
-    assert "reduced mass 1 electron masses" in text and "non-relativistic" in text
+    assert "reduced mass 1 electron mass (engine units)" in text and "non-relativistic" in text
     for column in rows[0]:  # every column explained, with its unit where it has one
         assert f"#   {column}: " in text, column
     assert "nuclear_charge" in rows[0] and "strength" not in rows[0]  # Z under the plasma preset

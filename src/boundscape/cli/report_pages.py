@@ -15,6 +15,7 @@ import numpy as np
 
 from ..engine.bound.levels import RTOL
 from ..cube.model import family_title
+from ..plots.table_notes import mass_text
 
 __all__ = ["landing_text", "text_page", "table_page", "write_report_pages", "MAX_TABLE_ROWS", "SCOPE"]
 
@@ -110,10 +111,7 @@ def landing_text(ds, config: dict, summary: str) -> str:
         lines.append(text)
     else:
         lines.append("- **Preset**: none; every number in atomic units (hartree, bohr).")
-    mass, mass_units = float(attrs.get("mass", 1.0)), attrs.get("mass_units", "electron masses")
-    if mass == 1.0 and mass_units.endswith("masses"):  # "1 electron mass", not "1 electron masses"
-        mass_units = mass_units.removesuffix("es")
-    lines.append(f"- **Reduced mass**: {mass:g} {mass_units} "
+    lines.append(f"- **Reduced mass**: {mass_text(attrs)} "
                  "(the engine's mass; the cube's attributes ``mass`` and ``mass_units``).")
     tol = f"{RTOL:.0e}".replace("e-0", "e-")
     accuracy = (f"- **Accuracy**: every level is converged until its error estimate (Richardson, grids h, h/2, h/4; "

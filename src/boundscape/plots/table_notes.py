@@ -9,13 +9,21 @@ import math
 from ..cube.model import family_title
 from ..physics.presets import NO_PRESET
 
-__all__ = ["table_header", "matched_digits", "DERIVED_PREFIXES", "SCOPE"]
+__all__ = ["table_header", "matched_digits", "mass_text", "DERIVED_PREFIXES", "SCOPE"]
 
 # Columns computed from λ_c (a unit conversion or the screening model at it): their digits follow λ_c's error.
 DERIVED_PREFIXES = ("critical_screening_length_", "loss_", "mott_parameter", "two_mu_g2")
 SCOPE = ("non-relativistic Schroedinger equation with a static screened potential; the screening models are "
          "linear (mean-field): Debye-Hueckel holds at weak coupling only (see screening_validity); not a "
          "substitute for a licensed or site-specific safety assessment")
+
+
+def mass_text(attrs) -> str:
+    """The cube's reduced mass as read aloud: "1 electron mass", "0.5 electron masses"."""
+    mass, units = float(attrs.get("mass", 1.0)), attrs.get("mass_units", "electron masses")
+    if mass == 1.0 and units.endswith("masses"):
+        units = units.removesuffix("es")
+    return f"{mass:g} {units}"
 
 
 def matched_digits(value: float, error: float) -> int | None:
@@ -79,8 +87,7 @@ def table_header(ds, columns, preset=NO_PRESET, loss=None) -> list[str]:
              f"{family_title(family)} potential is lost",
              f"computed by boundscape {attrs.get('boundscape_version', '?')} (git {attrs.get('git_commit', 'unknown')}), "
              f"config sha256 {attrs.get('config_sha256', 'unknown')}, from the cube levels.nc",
-             f"model: {family} potential, reduced mass {float(attrs.get('mass', 1.0)):g} "
-             f"{attrs.get('mass_units', 'electron masses')} (engine units)"]
+             f"model: {family} potential, reduced mass {mass_text(attrs)} (engine units)"]
     if "preset" in attrs:
         model = f"preset: {attrs['preset']}"
         if "screening_model" in attrs:
