@@ -24,7 +24,6 @@ from boundscape.cube.collect import collect
 from boundscape.cube.physical import preset_of
 from boundscape.physics.presets import Semiconductor
 from boundscape.plots import condition_map, level_fan, render_all, threshold_map
-from boundscape.plots.condition_maps import binding_curves
 from boundscape.plots.line_maps import line_shift_map
 from boundscape.plots.line_survival import line_survival_chart
 from boundscape.plots.resonance_fan import resonance_fan
@@ -41,25 +40,31 @@ CONFIG = {"sweep": "hidden", "potential": {"family": "yukawa", "mass": 1.0}, "re
           "preset": {"kind": "plasma", "temperature_eV": 10.0}}
 
 
-@pytest.fixture(scope="module")
-def built(tmp_path_factory):
-    directory = tmp_path_factory.mktemp("hidden")
-    config = sweep.validate_config(CONFIG)
+def _build(directory: Path, config: dict):
+    """(cube, trajectories path or None) of ``config`` through the workflow's steps, in process."""
+    config = sweep.validate_config(config)
     plan = sweep.plan(config)
-    traj = directory / "resonance_trajectories.json"
-    assert steps.main(["trajectories", "--spec", json.dumps(plan.critical_spec(plan.critical_blocks[0])),
-                       "--output", str(traj)]) == 0
+    extra, traj = [], None
+    if config.get("resonances"):
+        traj = directory / "resonance_trajectories.json"
+        assert steps.main(["trajectories", "--spec", json.dumps(plan.critical_spec(plan.critical_blocks[0])),
+                           "--output", str(traj)]) == 0
+        extra = ["--trajectories", str(traj)]
     tiles, blocks = [], []
     for kind, parts, spec, paths in (("solve-tile", plan.tiles, plan.tile_spec, tiles),
                                      ("criticals", plan.critical_blocks, plan.critical_spec, blocks)):
         for part in parts:
             path = directory / f"{kind}_{part.name}.nc"
-            assert steps.main([kind, "--spec", json.dumps(spec(part)), "--output", str(path),
-                               "--trajectories", str(traj)]) == 0
+            assert steps.main([kind, "--spec", json.dumps(spec(part)), "--output", str(path), *extra]) == 0
             paths.append(str(path))
     collect(config, tiles, blocks, directory / "levels.nc")
     with open_cube(directory / "levels.nc") as ds:
         return ds.load(), traj
+
+
+@pytest.fixture(scope="module")
+def built(tmp_path_factory):
+    return _build(tmp_path_factory.mktemp("hidden"), CONFIG)
 
 
 def _windows_without_a_cell(cube):
@@ -158,7 +163,9 @@ def _unexplained_lines(fig):
         r, g, b, _ = matplotlib.colors.to_rgba(h.get_color())
         return r == g == b and 0 < r < 1
 
-    kinds = {(h.get_linestyle(), h.get_marker()) for h in handles if grey(h)}
+    # A grey entry drawn as a line and a marker stands for lines of either.
+    kinds = {kind for h in handles if grey(h) for kind in ((h.get_linestyle(), h.get_marker()),
+                                                           (h.get_linestyle(), "None"), ("None", h.get_marker()))}
     styles = {(matplotlib.colors.to_hex(h.get_color()), h.get_linestyle()) for h in handles}
     missing = []
     for ax in fig.axes:
@@ -185,34 +192,24 @@ def test_every_condition_map_line_has_a_legend_entry(built):
     assert len(_unexplained_lines(one_d)) == 1
 
 
-def test_condition_sweep_curves_have_a_legend_entry_per_line(tmp_path_factory):
-    from boundscape.physics.presets import Plasma
-
-    # The binding-energy curves of a sweep over density with one temperature column (condition_maps).
-    config = {"sweep": "curves", "potential": {"family": "yukawa"},
-              "grid": {"strength": [1.0], "electron_density": {"start": 1e21, "stop": 1e24, "num": 5,
-                                                               "spacing": "log"},
-                       "electron_temperature": [10.0], "l": [0], "n_r_max": 2},
+@pytest.mark.parametrize("temperatures", [[10.0], [3.0, 30.0]])
+def test_condition_sweep_figures_explain_every_line_in_mathtext(tmp_path, temperatures):
+    # A plasma sweep over n_e x T_e: with one temperature the maps are binding-energy curves.
+    config = {"sweep": "conditions", "potential": {"family": "yukawa"}, "resonances": True,
+              "grid": {"strength": [1.0, 2.0], "electron_density": {"start": 1e21, "stop": 1e24, "num": 5,
+                                                                    "spacing": "log"},
+                       "electron_temperature": temperatures, "l": [0, 1], "n_r_max": 2},
               "preset": {"kind": "plasma"}}
-    directory = tmp_path_factory.mktemp("curves")
-    config = sweep.validate_config(config)
-    plan = sweep.plan(config)
-    tiles, blocks = [], []
-    for kind, parts, spec, paths in (("solve-tile", plan.tiles, plan.tile_spec, tiles),
-                                     ("criticals", plan.critical_blocks, plan.critical_spec, blocks)):
-        for part in parts:
-            path = directory / f"{kind}_{part.name}.nc"
-            assert steps.main([kind, "--spec", json.dumps(spec(part)), "--output", str(path)]) == 0
-            paths.append(str(path))
-    collect(config, tiles, blocks, directory / "levels.nc")
-    with open_cube(directory / "levels.nc") as ds:
-        cube = ds.load()
-    preset, settings = preset_of(cube)
-    assert isinstance(preset, Plasma)
+    cube, traj = _build(tmp_path, config)
+    preset, _ = preset_of(cube)
     with matplotlib.rc_context(RC):
-        fig = binding_curves(cube, 0, preset)[0]
-    assert _unexplained_lines(fig) == []
-    assert _text_with_ascii_subscripts(fig) == []
+        figures = {f"threshold map l = {l}": threshold_map(cube, int(l), preset)[0] for l in (0, 1)}
+        figures["binding energies"] = level_fan(cube, preset=preset)[0]
+        figures["resonance fan"], data = resonance_fan(cube, preset=preset, trajectories=traj)
+    assert data["paths"] and data["hidden"] == []
+    assert {name: _text_with_ascii_subscripts(fig) for name, fig in figures.items()
+            if _text_with_ascii_subscripts(fig)} == {}
+    assert {name: _unexplained_lines(fig) for name, fig in figures.items() if _unexplained_lines(fig)} == {}
 
 
 # --- figure text ----------------------------------------------------------------------------
@@ -232,7 +229,7 @@ def _text_with_ascii_subscripts(fig):
     return found
 
 
-def test_no_figure_text_has_ascii_subscripts(built):
+def test_no_ascii_subscripts_and_a_legend_entry_per_line_in_every_figure(built):
     cube, traj = built
     preset, settings = preset_of(cube)
     with matplotlib.rc_context(RC):
@@ -249,6 +246,9 @@ def test_no_figure_text_has_ascii_subscripts(built):
     assert all(fig is not None for fig in figures.values())
     found = {name: _text_with_ascii_subscripts(fig) for name, fig in figures.items()}
     assert {name: texts for name, texts in found.items() if texts} == {}
+    # Every kind of figure: a legend entry for every line drawn.
+    unexplained = {name: _unexplained_lines(fig) for name, fig in figures.items()}
+    assert {name: lines for name, lines in unexplained.items() if lines} == {}
     # The scan catches one.
     figures["level fan"].axes[0].set_title("n_r = 0")
     assert _text_with_ascii_subscripts(figures["level fan"]) == ["n_r = 0"]
@@ -269,4 +269,5 @@ def test_render_all_writes_every_figure(built, tmp_path):
     cube, traj = built
     written = render_all(cube, tmp_path, trajectories=traj)
     assert {Path(p).name for p in written} >= {"level_fan.png", "resonance_fan.png", "line_shift_1s-2p.png"}
+
 

@@ -112,7 +112,7 @@ def resonance_fan(ds, strengths=None, preset=NO_PRESET, trajectories=None):
                         ax.fill_between(lam[has], low, er[has] + width[has] / 2, color=colors[k],
                                         alpha=0.3, lw=0, zorder=2, gid=f"band:{name}")
                         ax.errorbar(lam[has], er[has], yerr=(er[has] - low, width[has] / 2), fmt="none",
-                                    ecolor=colors[k], elinewidth=1.0, capsize=2, zorder=3)
+                                    ecolor=colors[k], elinewidth=1.0, capsize=0, zorder=3)
                     ok = has & (status == OK)
                     ax.plot(lam[ok], er[ok], "o", color=colors[k], ms=4, zorder=4, gid=f"resonance:{name}")
                     gone = has & (status == DISSOLVED)
@@ -159,7 +159,10 @@ def resonance_fan(ds, strengths=None, preset=NO_PRESET, trajectories=None):
                 matplotlib.lines.Line2D([], [], color="0.3", marker="o", mfc="white", ls="none",
                                         label="dissolved, $\\Gamma > E_r$"),
                 matplotlib.patches.Patch(color="0.3", alpha=0.3, label="$E_r \\pm \\Gamma/2$"),
-                matplotlib.lines.Line2D([], [], color="0.3", marker="|", ms=9, ls="none", label=threshold)]
+                matplotlib.lines.Line2D([], [], color="0.3", marker="|", ms=9, ls="none", label=threshold),
+                matplotlib.lines.Line2D([], [], color="0.5", lw=0.6, label="threshold E = 0"),
+                matplotlib.lines.Line2D([], [], color="0.3", lw=1.0, ls=":",
+                                        label="guide to the eye: last bound cell to E = 0")]
     if drawn_paths:
         handles += [matplotlib.lines.Line2D([], [], color="0.3", lw=1.4, label="trajectory, $\\Gamma \\leq E_r$"),
                     matplotlib.lines.Line2D([], [], color="0.3", lw=1.0, ls="--", label="trajectory, $\\Gamma > E_r$")]
