@@ -271,3 +271,23 @@ def test_render_all_writes_every_figure(built, tmp_path):
     assert {Path(p).name for p in written} >= {"level_fan.png", "resonance_fan.png", "line_shift_1s-2p.png"}
 
 
+
+
+@pytest.mark.parametrize("points", [1, 2, 5])
+def test_a_trajectory_with_few_points_on_the_axis_is_drawn(points):
+    # A trajectory that only enters the axis at its edge keeps a point or two (the nuclear sweep's
+    # strongest coupling did): it is drawn, solid where Γ ≤ E_r and dashed past it.
+    from matplotlib.figure import Figure
+
+    from boundscape.plots.resonance_fan import draw_trajectory
+    from boundscape.plots.trajectories import StatePath
+
+    x = np.geomspace(8.0, 5.0, points)
+    e_r = np.geomspace(1e-4, 1e-2, points)
+    path = StatePath(x, e_r, np.geomspace(1e-6, 3e-2, points), threshold=8.2)
+    ax = Figure().add_subplot()
+    draw_trajectory(ax, path, "C1", "2p")
+    solid, dashed = (next(li for li in ax.get_lines() if li.get_gid() == gid)
+                     for gid in ("trajectory:2p", "trajectory_dissolved:2p"))
+    assert solid.get_xdata().size == points + 1 and dashed.get_xdata().size == points
+    assert np.isfinite(solid.get_ydata()).sum() == 1 + (path.width <= path.e_r).sum()

@@ -24,7 +24,7 @@ from .style import STATE_FONTSIZE, family_title, shade_invalid_x, tidy_log_axis,
 from .trajectories import agrees, length_to_condition, read_trajectories, state_path
 from .views import fan_view
 
-__all__ = ["resonance_fan"]
+__all__ = ["resonance_fan", "draw_trajectory"]
 
 OK, DISSOLVED = 0, 2  # resonance_status codes (the cube's flag_values)
 
@@ -103,7 +103,7 @@ def resonance_fan(ds, strengths=None, preset=NO_PRESET, trajectories=None):
                     path = None
                 if path is not None:
                     drawn_paths[(z, name)] = (path.x, path.e_r, path.width)
-                    _draw_path(ax, path, colors[k], name)
+                    draw_trajectory(ax, path, colors[k], name)
                     highest = max(highest, 1.5 * float(np.max(path.e_r)))
                 if has.any():
                     drawn_res[(z, name)] = (lam[has], er[has], width[has])
@@ -188,13 +188,15 @@ def _path(trajectory, cell, x, mass):
     return state_path(trajectory, float(cell["strength"]), mass, length_to_condition(lengths, x))
 
 
-def _draw_path(ax, path, color, name):
+def draw_trajectory(ax, path, color, name):
     """E_r along the trajectory, solid while Γ ≤ E_r and dashed past it, the band ±Γ/2 (cut at
     E = 0) where it is narrower than the energy, and the threshold joined to its first point."""
     narrow = path.width <= path.e_r
     ax.plot(np.concatenate([[path.threshold], path.x]), np.concatenate([[0.0], np.where(narrow, path.e_r, np.nan)]),
             "-", color=color, lw=1.4, zorder=3, gid=f"trajectory:{name}")
-    broad = np.convolve(~narrow, [1, 1, 1], "same") > 0  # overlaps the solid part by a point: one line
+    broad = ~narrow  # widened by a point each way: it meets the solid part, one line
+    broad[1:] |= ~narrow[:-1]
+    broad[:-1] |= ~narrow[1:]
     ax.plot(path.x, np.where(broad, path.e_r, np.nan), "--", color=color, lw=1.0, zorder=3,
             gid=f"trajectory_dissolved:{name}")
     ax.fill_between(path.x, np.maximum(path.e_r - path.width / 2, 0.0), path.e_r + path.width / 2, where=narrow,
