@@ -254,7 +254,7 @@ def test_no_ascii_subscripts_and_a_legend_entry_per_line_in_every_figure(built):
     assert _text_with_ascii_subscripts(figures["level fan"]) == ["n_r = 0"]
 
 
-def test_line_shift_map_says_red_or_blue_shifted(built):
+def test_line_shift_colour_bars_say_red_or_blue_shifted(built):
     cube, _ = built
     preset, _ = preset_of(cube)
     with matplotlib.rc_context(RC):
@@ -262,7 +262,9 @@ def test_line_shift_map_says_red_or_blue_shifted(built):
     fig.draw_without_rendering()
     texts = " ".join(t.get_text() for t in fig.findobj(matplotlib.text.Text))
     assert "(red)" not in texts and "(blue)" not in texts
-    assert any(way in texts for way in ("red-shifted", "blue-shifted", "shifted both ways"))
+    bars = [ax.get_ylabel() for ax in fig.axes if ax.get_label() == "<colorbar>"]
+    assert len(bars) == 2
+    assert all(bar.endswith((", red-shifted", ", blue-shifted", ", shifted both ways")) for bar in bars)
 
 
 def test_render_all_writes_every_figure(built, tmp_path):
