@@ -28,6 +28,7 @@ from boundscape.plots.line_maps import line_shift_map
 from boundscape.plots.line_survival import line_survival_chart
 from boundscape.plots.resonance_fan import resonance_fan
 from boundscape.plots.style import RC
+from boundscape.plots.trajectories import read_trajectories
 
 pytestmark = pytest.mark.filterwarnings("error")
 
@@ -293,3 +294,20 @@ def test_a_trajectory_with_few_points_on_the_axis_is_drawn(points):
                      for gid in ("trajectory:2p", "trajectory_dissolved:2p"))
     assert solid.get_xdata().size == points + 1 and dashed.get_xdata().size == points
     assert np.isfinite(solid.get_ydata()).sum() == 1 + (path.width <= path.e_r).sum()
+
+
+def test_trajectories_that_do_not_read_leave_the_cells_and_a_note(built, tmp_path):
+    cube, traj = built
+    text = traj.read_text()
+    assert read_trajectories(text, "yukawa").keys() == read_trajectories(traj, "yukawa").keys()
+    broken = tmp_path / "broken.json"
+    broken.write_text(text[: len(text) // 2])  # truncated
+    other = json.loads(text)
+    other["family"] = "exponential_cosine"
+    cases = {"truncated": broken, "missing": tmp_path / "none.json", "another family": json.dumps(other)}
+    for why, source in cases.items():
+        with matplotlib.rc_context(RC):
+            fig, data = resonance_fan(cube, trajectories=source)
+        note = fig._supxlabel.get_text()
+        assert data["paths"] == {} and data["resonances"], why
+        assert "the trajectories did not read" in note and "no grid cell in its resonance window" in note, why

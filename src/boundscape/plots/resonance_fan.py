@@ -64,7 +64,12 @@ def resonance_fan(ds, strengths=None, preset=NO_PRESET, trajectories=None):
     axes = fig.subplots(len(view.rows), len(ls), sharex=True, sharey="row", squeeze=False)
     colors = matplotlib.colormaps["viridis"](np.linspace(0, 0.85, ds.sizes["n_r"]))
     drawn_res, drawn_bound, drawn_paths, hidden, mismatched = {}, {}, {}, [], []
-    traced = {} if trajectories is None else read_trajectories(trajectories, ds.attrs.get("family", ""))
+    traced, unread = {}, ""
+    if trajectories is not None:
+        try:
+            traced = read_trajectories(trajectories, ds.attrs.get("family", ""))
+        except (OSError, ValueError) as exc:  # the figure is still drawn, from the cells, and says why
+            unread = f"the trajectories did not read ({exc}): resonances at the grid cells only"
     mass = float(ds.attrs.get("mass", 1.0))
     invalid = None
     for row, fan in enumerate(view.rows):
@@ -170,7 +175,7 @@ def resonance_fan(ds, strengths=None, preset=NO_PRESET, trajectories=None):
         handles.append(invalid)
     fig.legend(handles=handles, loc="outside right center", fontsize=8, title="$n = n_r + l + 1$", title_fontsize=8)
     fig.supxlabel(with_note(view.x_label, "; ".join(filter(None, [
-        view.omitted, _trajectory_note(trajectories, traced, drawn_paths, hidden, mismatched)]))), fontsize="medium")
+        view.omitted, _trajectory_note(trajectories, unread, traced, hidden, mismatched)]))), fontsize="medium")
     fig.supylabel(f"energy E ({unit_names(preset)[1]}; symmetric log scale)", fontsize="medium")
     fig.suptitle(f"Resonance fan of the {family_title(ds)}: each state bound (E < 0), then past its threshold a "
                  "resonance $E_r - i\\Gamma/2$", fontsize=9)
@@ -209,10 +214,12 @@ def _label_point(path):
     return int(over[0]) if over.size else path.x.size - 1
 
 
-def _trajectory_note(trajectories, traced, drawn, hidden, mismatched):
+def _trajectory_note(trajectories, unread, traced, hidden, mismatched):
     """What the figure says about the resonances it could not draw as trajectories."""
     parts = []
-    if trajectories is None:
+    if unread:
+        parts.append(unread)
+    elif trajectories is None:
         parts.append("resonances at the grid cells only (the sweep's traced trajectories were not given)")
     elif not traced:
         parts.append("the trajectories file holds no l ≥ 1 trajectory: resonances at the grid cells only")

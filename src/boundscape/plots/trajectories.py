@@ -41,15 +41,20 @@ class StatePath:
 
 
 def read_trajectories(source, family: str) -> dict:
-    """The traced trajectories of ``source`` (a path or the JSON text) by (l, n_r), for l ≥ 1.
+    """The traced trajectories of ``source`` (a path, or the JSON text) by (l, n_r), for l ≥ 1.
 
-    Raises ValueError if they are of another family than the cube's."""
-    text = Path(source).read_text() if isinstance(source, (str, Path)) and Path(str(source)).exists() else source
-    data = json.loads(text)
+    Raises ValueError if they do not read as trajectories or are of another family than the
+    cube's, OSError if the file does not read."""
+    text = source if isinstance(source, str) and source.lstrip().startswith("{") else Path(source).read_text()
+    try:
+        data = json.loads(text)
+        records = data["records"]
+    except (ValueError, KeyError, TypeError) as exc:
+        raise ValueError(f"not a trajectories file ({type(exc).__name__}: {exc})") from None
     if data.get("family") != family:
         raise ValueError(f"the trajectories are of family {data.get('family')!r}, the cube's is {family!r}")
     out = {}
-    for rec in data["records"]:
+    for rec in records:
         item = rec.get("trajectory")
         if item is None or int(rec["l"]) == 0 or len(item.get("s", ())) < 2:
             continue
