@@ -24,6 +24,7 @@ from boundscape.cube.collect import collect
 from boundscape.cube.physical import preset_of
 from boundscape.physics.presets import Semiconductor
 from boundscape.plots import condition_map, level_fan, render_all, threshold_map
+from boundscape.plots.condition_maps import binding_curves
 from boundscape.plots.line_maps import line_shift_map
 from boundscape.plots.line_survival import line_survival_chart
 from boundscape.plots.resonance_fan import resonance_fan
@@ -211,6 +212,16 @@ def test_condition_sweep_figures_explain_every_line_in_mathtext(tmp_path, temper
     assert {name: _text_with_ascii_subscripts(fig) for name, fig in figures.items()
             if _text_with_ascii_subscripts(fig)} == {}
     assert {name: _unexplained_lines(fig) for name, fig in figures.items() if _unexplained_lines(fig)} == {}
+    if len(temperatures) == 1:
+        # Six strengths (the cube's two, relabelled: the figure is checked against the cube, not
+        # physics): the binding-energy curves draw four panels and say which.
+        import xarray as xr
+
+        six = xr.concat([cube.assign_coords(strength=cube["strength"] + 10 * k) for k in range(3)], "strength",
+                        data_vars="all", coords="different", compat="equals", join="outer")
+        with matplotlib.rc_context(RC):
+            fig = binding_curves(six, 0, preset)[0]
+        assert "Note: 4 of the 6 stored strengths drawn" in fig._supxlabel.get_text()
 
 
 # --- figure text ----------------------------------------------------------------------------
