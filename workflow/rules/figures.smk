@@ -15,11 +15,13 @@ for _stem, _caption, _category, _subcategory in FIGURE_LIST:
 
 rule figures:
     input:
+        ENGINE_INPUTS,  # with resonances: the traced trajectories the resonance fan draws
         cube=f"{RESULTS}/levels.nc",
     output:
         **FIGURE_OUTPUTS,
     params:
         outdir=lambda wildcards, output: Path(output.table).parent,
+        trajectories=TRAJECTORY_OPTION,
     log:
         f"{RESULTS}/logs/figures.log",
     benchmark:
@@ -31,4 +33,4 @@ rule figures:
     conda:
         "../envs/boundscape.yaml"
     shell:
-        "python -m boundscape.cli.steps figures {input.cube:q} {params.outdir:q} > {log:q} 2>&1"
+        "python -m boundscape.cli.steps figures {input.cube:q} {params.outdir:q} {params.trajectories} > {log:q} 2>&1"

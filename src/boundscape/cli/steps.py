@@ -163,8 +163,10 @@ def _figures(args):
     from ..cube import open_cube
     from ..plots import render_all
 
+    # The resonance fan draws the trajectories the sweep traced (written beside the cube).
+    traced = args.trajectories or Path(args.cube).with_name("resonance_trajectories.json")
     with open_cube(args.cube) as ds:
-        for path in render_all(ds.load(), args.outdir):
+        for path in render_all(ds.load(), args.outdir, traced if Path(traced).is_file() else None):
             print(path)
 
 
@@ -208,6 +210,8 @@ def main(argv=None):
     p = sub.add_parser("figures")
     p.add_argument("cube")
     p.add_argument("outdir")
+    p.add_argument("--trajectories", help="trajectories written by the trajectories step (default: "
+                                          "resonance_trajectories.json beside the cube, if there)")
     p.set_defaults(run=_figures)
     p = sub.add_parser("report-pages", help="the report's landing text and inline pages (cli/report_pages.py)")
     for name, what in (("cube", "the cube, levels.nc"), ("summary", "the run summary, summary.txt"),

@@ -16,7 +16,7 @@ from ..engine import INPUT_REJECTED
 from ..labels import state_label
 from ..physics.presets import NO_PRESET
 from .style import (HALO, axis_label, cell_edges, count_colorbar, count_norm, cube_dims, energy_unit, family_title,
-                    invalid_mask, shade_invalid, shade_invalid_x, tidy_log_axis, unit_names)
+                    invalid_mask, shade_invalid, shade_invalid_x, tidy_log_axis, unit_names, with_note)
 from .views import fan_view, picks
 
 __all__ = ["condition_threshold_map", "binding_curves"]
@@ -159,7 +159,8 @@ def binding_curves(ds, l, preset=NO_PRESET):
     if invalid is not None:
         handles.append(invalid)
     fig.legend(handles=handles, loc="outside right center", fontsize=7, title="state", title_fontsize=7)
-    fig.supxlabel(view.x_label, fontsize="medium")
+    fig.supxlabel(with_note(view.x_label, view.omitted.replace("; the threshold maps show every one", "")),
+                  fontsize="medium")
     fig.supylabel(f"binding energy −E ({unit_names(preset)[1]})", fontsize="medium")
     fig.suptitle(f"{family_title(ds)}, $l$ = {l}: binding energy against {view.x_label.rsplit(' (', 1)[0]}",
                  fontsize=9)

@@ -146,6 +146,8 @@ def condition_map(ds, preset=NO_PRESET, settings=None):
         count_colorbar(fig, mesh, list(axes[:len(strengths)]), top, "surviving stored bound states (all l)")
     handles = [matplotlib.lines.Line2D([], [], color="0.4" if two_d else "C0", ls="--",
                                        label=f"loss of the lowest $l$ = {l0} states")]
+    if not two_d:  # the count itself is a line here
+        handles.insert(0, matplotlib.lines.Line2D([], [], color="black", label="surviving stored bound states (all $l$)"))
     if fails.any():
         handles.append(invalid_handle())
     fig.legend(handles=handles, loc="outside lower center", fontsize=7, ncols=2)

@@ -13,15 +13,16 @@ from matplotlib.figure import Figure
 
 from ..labels import state_label
 from ..physics.presets import NO_PRESET
-from .style import (energy_unit, family_title, shade_invalid_x, strength_label, strength_values, tidy_log_axis,
-                    unit_names)
+from .style import (STATE_FONTSIZE, energy_unit, family_title, shade_invalid_x, strength_label, strength_values,
+                    tidy_log_axis, unit_names, with_note)
 from .views import fan_strengths, fan_view
 
 __all__ = ["level_fan", "fan_strengths", "place_in_rows"]
 
-# A λ_c label is a rotated 7-point text: about this fraction of a panel's log-λ span wide.
-LABEL_WIDTH = 0.055
-ROW_POINTS = 17  # vertical step between label rows
+# A λ_c label is a rotated STATE_FONTSIZE-point text: about this fraction of a panel's log-λ span
+# wide (the resonance fan's horizontal names; the level fan measures its panels, :func:`label_width`).
+LABEL_WIDTH = 0.075
+ROW_POINTS = 21  # vertical step between label rows
 
 
 def place_in_rows(positions, width):
@@ -41,9 +42,34 @@ def place_in_rows(positions, width):
     return [rows[i] for i in range(len(positions))]
 
 
+def label_width(fig, ax, span):
+    """The log-x width of one rotated state name in ``ax`` (``span`` decades wide), from the
+    panel's width after layout: a name is about 1.5 font sizes wide with its box."""
+    fig.draw_without_rendering()
+    points = ax.get_window_extent().width * 72.0 / fig.dpi
+    return span * 1.5 * STATE_FONTSIZE / max(points, 1.0)
+
+
+def name_states(fig, pending, span):
+    """Name each marked loss under its panel, in rows so that no two names overlap."""
+    width = None
+    for ax, bottom, marks in pending:
+        width = width or label_width(fig, ax, span)  # the panels of a fan share one width
+        for (xm, name, color), r in zip(marks, place_in_rows([m[0] for m in marks], width)):
+            ax.annotate(name, (10 ** xm, bottom), xytext=(0, 7 + ROW_POINTS * r), textcoords="offset points",
+                        rotation=90, ha="center", va="bottom", fontsize=STATE_FONTSIZE, color=color, zorder=5,
+                        gid=f"label:{name}",
+                        bbox={"boxstyle": "square,pad=0.1", "facecolor": "white", "edgecolor": "none",
+                              "alpha": 0.85})
+
+
 def level_fan(ds, strengths=None, preset=NO_PRESET):
-    """−E_nl against the condition axis, one row per chosen strength (and temperature) and one
-    panel per l; where each state is lost marked and named.
+    """−E_nl against the condition axis, one row per stored strength (and chosen temperature) and
+    one panel per l; where each state is lost marked and named.
+
+    Every stored strength gets its row up to :data:`.views.MAX_STRENGTH_ROWS`; whatever the
+    figure leaves out (strengths beyond that, the other temperatures of a condition sweep) is
+    named in a note under its x label.
 
     Against λ in a sweep over screening lengths; against the density at a temperature in a sweep
     over density × temperature (the binding energy against density, several temperatures when
@@ -71,6 +97,7 @@ def level_fan(ds, strengths=None, preset=NO_PRESET):
     span = math.log10(x.max() / x.min()) or 1.0
     lines, critical = {}, {}
     invalid = None
+    pending = []  # (axes, bottom, λ_c marks): named once the layout gives each panel's width
     for row, fan in enumerate(view.rows):
         depth = -fan.cube["energy"].values  # (x, l, n_r)
         positive = depth[np.isfinite(depth) & (depth > 0)]
@@ -104,13 +131,7 @@ def level_fan(ds, strengths=None, preset=NO_PRESET):
                     ax.plot([x[last], lc], [y[last], bottom], ":", color=colors[k], lw=1.0,
                             gid=f"connector:{name}", zorder=2)
                 marks.append((math.log10(lc), name, colors[k]))
-            rows = place_in_rows([m[0] for m in marks], LABEL_WIDTH * span)
-            for (xm, name, color), r in zip(marks, rows):
-                ax.annotate(name, (10 ** xm, bottom), xytext=(0, 7 + ROW_POINTS * r), textcoords="offset points",
-                            rotation=90, ha="center", va="bottom", fontsize=7, color=color, zorder=5,
-                            gid=f"label:{name}",
-                            bbox={"boxstyle": "square,pad=0.1", "facecolor": "white", "edgecolor": "none",
-                                  "alpha": 0.85})
+            pending.append((ax, bottom, marks))
             if not drawn:
                 ax.text(0.5, 0.5, "no bound level stored", transform=ax.transAxes, ha="center", va="center",
                         color="0.4")
@@ -127,12 +148,13 @@ def level_fan(ds, strengths=None, preset=NO_PRESET):
     handles.append(matplotlib.lines.Line2D([], [], color="0.3", marker="^", ls=":", label=f"on to {where} (state lost)"))
     if invalid is not None:
         handles.append(invalid)
-    fig.legend(handles=handles, loc="outside right center", fontsize=7, title="$n = n_r + l + 1$", title_fontsize=7)
-    fig.supxlabel(view.x_label, fontsize="medium")
+    fig.legend(handles=handles, loc="outside right center", fontsize=8, title="$n = n_r + l + 1$", title_fontsize=8)
+    fig.supxlabel(with_note(view.x_label, view.omitted), fontsize="medium")
     fig.supylabel(f"binding energy −E ({unit_names(preset)[1]})", fontsize="medium")
     against = view.x_label.rsplit(" (", 1)[0]
     fig.suptitle(f"{'Level fan' if view.lost_towards_small else 'Binding energies'} of the {family_title(ds)} "
                  f"against {against}")
+    name_states(fig, pending, span)
     return fig, {"lines": lines, "critical": critical}
 
 
@@ -149,7 +171,7 @@ def _fan_against_strength(ds, preset):
     lines = {}
     for col, l in enumerate(ls):
         ax = axes[col]
-        ax.set(xscale="log", yscale="log", title=f"l = {l}")
+        ax.set(xscale="log", yscale="log", title=f"$l$ = {l}")
         for k, n_r in enumerate(ds["n_r"].values):
             name = state_label(int(ds["n"].sel(l=l, n_r=n_r)), int(l))
             y = shown[:, col, k]
@@ -161,7 +183,7 @@ def _fan_against_strength(ds, preset):
         ax.set_xlabel(strength_label(ds, preset))
     what = "energy E (confining: every level bound, E > 0)" if confining else "binding energy −E"
     axes[0].set_ylabel(f"{what} ({unit_names(preset)[1]})")
-    handles = [matplotlib.lines.Line2D([], [], color=c, lw=1.3, label=f"n_r = {k}") for k, c in enumerate(colors)]
-    fig.legend(handles=handles, loc="outside right center", fontsize=7, title="n = n_r + l + 1", title_fontsize=7)
+    handles = [matplotlib.lines.Line2D([], [], color=c, lw=1.3, label=f"$n_r$ = {k}") for k, c in enumerate(colors)]
+    fig.legend(handles=handles, loc="outside right center", fontsize=8, title="$n = n_r + l + 1$", title_fontsize=8)
     fig.suptitle(f"Levels of the {family_title(ds)} against strength (no screening length)")
     return fig, {"lines": lines, "critical": {}}

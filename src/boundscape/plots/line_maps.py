@@ -42,6 +42,11 @@ def _direction(relative):
     return "shifted both ways"
 
 
+def _bar_label(title, way):
+    """A colour bar's label: the quantity, and which way the line moves ("red-shifted", not a colour)."""
+    return f"{title}, {way.split(' (')[0]}"
+
+
 def _panel(fig, ax, x_edges, y_edges, values, label):
     shown = np.abs(values)
     shown = np.where(shown > 0, shown, np.nan)
@@ -95,7 +100,7 @@ def _strength_shift_map(ds, m, preset, relative, absolute, unit, way):
     for ax, values, title in zip(axes, (relative, absolute), titles):
         ax.set(xscale="log", yscale="log", xlim=cell_edges(z)[[0, -1]], ylim=cell_edges(lam)[[0, -1]],
                xlabel=strength_label(ds, preset), title=title)
-        _panel(fig, ax, cell_edges(z), cell_edges(lam), values, title)
+        _panel(fig, ax, cell_edges(z), cell_edges(lam), values, _bar_label(title, way))
         handles = []
         if bad is not None:
             shaded = shade_invalid(ax, cell_edges(z), cell_edges(lam), np.broadcast_to(bad[None, :], (z.size, lam.size)))
@@ -130,7 +135,7 @@ def _condition_shift_map(ds, m, preset, relative, absolute, unit, way):
             ax = axes[row, col]
             ax.set(xscale="log", yscale="log", xlim=cell_edges(x)[[0, -1]], ylim=cell_edges(y)[[0, -1]],
                    title=f"{name}: {title}")
-            _panel(fig, ax, cell_edges(x), cell_edges(y), values, title)
+            _panel(fig, ax, cell_edges(x), cell_edges(y), values, _bar_label(title, way))
             handles = []
             if loss is not None:
                 ok = np.isfinite(loss[i]) & (loss[i] > 0)
@@ -149,4 +154,8 @@ def _condition_shift_map(ds, m, preset, relative, absolute, unit, way):
                 ax.set_xlabel(axis_label(ds, x_dim, preset))
             if col == 0:
                 ax.set_ylabel(axis_label(ds, y_dim, preset))
+    if rows.size < ds.sizes[strength_dim]:
+        shown = ", ".join(preset.strength_text(float(ds[strength_dim].values[i]), ds[strength_dim].attrs) for i in rows)
+        fig.supxlabel(f"Note: {rows.size} of the {ds.sizes[strength_dim]} stored strengths drawn ({shown}); the "
+                      "cube's line shift holds every one", fontsize="small")
     return fig, drawn

@@ -11,7 +11,7 @@ from scipy import constants
 
 from ..labels import parse_state
 from ..physics.presets import NO_PRESET
-from .style import axis_label, cube_dims, family_title, length_label, strength_values, tidy_log_axis
+from .style import axis_label, cube_dims, family_title, length_label, strength_values, tidy_log_axis, with_note
 from .views import picks
 
 __all__ = ["line_survival_chart", "line_loss_length", "line_loss_density", "line_loss_state"]
@@ -138,12 +138,13 @@ def line_survival_chart(ds, preset=NO_PRESET):
             xlabel = f"screening length below which the line is gone ({length_label(ds, preset).rsplit('(', 1)[-1]}"
     fig = Figure(figsize=(7.4, 4.8), layout="constrained")
     ax = fig.add_subplot()
-    placed, handles = [], []
+    placed, handles, never = [], [], []
     for label, x, y, bad, note, marker in series:
         m = labels.index(label)
         colour = f"C{m % 10}"
         ok = np.isfinite(x) & np.isfinite(y) & (y > 0)
         if not ok.any():
+            never.append(f"{label.replace('-', '–')}{note}")
             continue
         (line,) = ax.plot(x[ok], y[ok], "-", marker=marker, color=colour, ms=4, lw=1, gid=f"line:{label}{note}",
                           label=f"{label.replace('-', '–')}{note}")
@@ -172,4 +173,12 @@ def line_survival_chart(ds, preset=NO_PRESET):
                     transform=ax.transAxes, ha="right", va="bottom", fontsize=7, color="0.3")
     else:
         ax.text(0.5, 0.5, "no line is present in the sweep", transform=ax.transAxes, ha="center", va="center")
+    notes = []
+    if len(length_dims) == 2 and chosen.size < temperatures.size:
+        notes.append(f"drawn at {symbol} = {', '.join(f'{temperatures[k]:.3g}' for k in chosen)} {unit} only, of the "
+                     f"{temperatures.size} stored temperatures")
+    if never and placed:
+        notes.append(f"not drawn, never gone within the sweep (or never present): {', '.join(never)}")
+    if notes:
+        ax.set_xlabel(with_note(ax.get_xlabel(), "; ".join(notes)))
     return fig, {"threshold": threshold, "wavelength_nm": wavelength}

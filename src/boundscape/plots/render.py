@@ -21,8 +21,10 @@ from .threshold_map import threshold_map
 __all__ = ["render_all"]
 
 
-def render_all(ds, outdir):
-    """Every figure and the critical-lengths table of a cube, under ``outdir``; returns the paths."""
+def render_all(ds, outdir, trajectories=None):
+    """Every figure and the critical-lengths table of a cube, under ``outdir``; returns the paths.
+
+    ``trajectories``: the sweep's traced trajectories past threshold (a path), for the resonance fan."""
     outdir = Path(outdir)
     preset, settings = preset_of(ds)
     written = []
@@ -31,7 +33,7 @@ def render_all(ds, outdir):
             written += save(threshold_map(ds, int(l), preset)[0], outdir / f"threshold_map_l{int(l)}")
         written += save(level_fan(ds, preset=preset)[0], outdir / "level_fan")
         if "resonance_energy" in ds:  # a cube with resonances: always drawn, empty panels say so
-            written += save(resonance_fan(ds, preset=preset)[0], outdir / "resonance_fan")
+            written += save(resonance_fan(ds, preset=preset, trajectories=trajectories)[0], outdir / "resonance_fan")
         fig, _ = condition_map(ds, preset, settings)
         if fig is not None:
             written += save(fig, outdir / "condition_map")

@@ -18,7 +18,10 @@ from ..physics.presets import NO_PRESET
 __all__ = ["HALO", "RC", "cell_edges", "count_norm", "count_colorbar", "value_ticks", "tidy_log_axis",
            "strength_label", "strength_values", "family_title", "length_label", "cube_unit_system", "unit_names",
            "length_unit", "energy_unit", "save", "cube_dims", "is_condition_cube", "axis_label", "invalid_mask",
-           "invalid_handle", "shade_invalid", "shade_invalid_x", "INVALID_LABEL"]
+           "invalid_handle", "shade_invalid", "shade_invalid_x", "INVALID_LABEL", "STATE_FONTSIZE", "with_note"]
+
+# State names (2p, 10d) on curves: readable where the report shows a figure at a page's width.
+STATE_FONTSIZE = 9
 
 HALO = [patheffects.withStroke(linewidth=2.6, foreground="black")]
 PNG_METADATA = {"Software": None}
@@ -148,6 +151,12 @@ def length_unit(ds, preset=NO_PRESET):
     return name, factor
 
 
+def with_note(label: str, note: str) -> str:
+    """An axis or figure label followed by a note on its own line (the figure's own statement of
+    what it leaves out: no stored state may be dropped silently)."""
+    return f"{label}\nNote: {note}" if note else label
+
+
 def save(fig, stem):
     """Write ``stem.png`` and ``stem.pdf`` with fixed metadata (byte-identical reruns)."""
     stem = Path(stem)
@@ -162,7 +171,7 @@ def save(fig, stem):
 INVALID_FACE = (0.55, 0.55, 0.55, 0.55)
 INVALID_EDGE = (0.15, 0.15, 0.15, 0.7)
 INVALID_HATCH = "////"
-INVALID_LABEL = "screening model fails (hatched; see screening_validity)"
+INVALID_LABEL = "screening model fails (hatched; the cube's screening validity flag)"
 
 
 def cube_dims(ds):
