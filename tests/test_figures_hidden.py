@@ -322,3 +322,28 @@ def test_trajectories_that_do_not_read_leave_the_cells_and_a_note(built, tmp_pat
         note = fig._supxlabel.get_text()
         assert data["paths"] == {} and data["resonances"], why
         assert "the trajectories did not read" in note and "no grid cell in its resonance window" in note, why
+
+
+POPULATED = {"sweep": "populated", "potential": {"family": "yukawa"}, "populations": True,
+             "scattering": {"energies": [1.0, 10.0]},  # eV under the plasma preset
+             "grid": {"strength": [1.0, 2.0], "electron_density": [1e19, 1e21, 1e23],
+                      "electron_temperature": [3.0, 30.0], "l": [0, 1], "n_r_max": 2},
+             "tiles": {"cells": 8}, "preset": {"kind": "plasma"}}
+
+
+def test_populations_and_scattering_figures_have_mathtext_and_legend_entries(tmp_path):
+    # The figures merged after the scan above was written: the same two checks.
+    from boundscape.plots.populations import population_figures
+    from boundscape.plots.scattering import inverse_length_figure, phase_shift_figure
+
+    cube, _ = _build(tmp_path, POPULATED)
+    preset, _ = preset_of(cube)
+    with matplotlib.rc_context(RC):
+        figures = dict(population_figures(cube))
+        figures["inverse scattering length"] = inverse_length_figure(cube, preset)[0]
+        figures["phase shifts"] = phase_shift_figure(cube, preset)[0]
+    assert len(figures) == 2 + 2 + 2  # an ionization map per Z, U, the lowering, 1/a, δ_l
+    found = {name: _text_with_ascii_subscripts(fig) for name, fig in figures.items()}
+    assert {name: texts for name, texts in found.items() if texts} == {}
+    unexplained = {name: _unexplained_lines(fig) for name, fig in figures.items()}
+    assert {name: lines for name, lines in unexplained.items() if lines} == {}

@@ -117,11 +117,13 @@ def inverse_length_figure(ds, preset=NO_PRESET, strengths=None):
     for row in range(len(view.rows)):
         axes[row, 0].set_ylabel(f"$1/a_l$ ({length_name}$^{{-1}}$)")
     where = "$\\lambda_c$" if view.lost_towards_small else "loss density"
-    handles = [matplotlib.lines.Line2D([], [], color="k", marker=".", lw=1.2, label="$1/a_l$ (cube)"),
+    handles = [matplotlib.lines.Line2D([], [], color="k", lw=1.2, label="$1/a_l$ (cube), joined between cells"),
+               matplotlib.lines.Line2D([], [], color="k", ls="none", marker=".", label="the sweep's cells"),
+               matplotlib.lines.Line2D([], [], color="0.5", lw=0.6, label="$1/a_l = 0$"),
                matplotlib.lines.Line2D([], [], color="0.3", ls="none", marker="o", mfc="none",
                                        label="zero of $1/a_l$ (interpolated)")]
     if any(row.critical is not None for row in view.rows):
-        handles.insert(1, matplotlib.lines.Line2D([], [], color="0.3", ls="--", label=f"stored {where} (state lost)"))
+        handles.insert(3, matplotlib.lines.Line2D([], [], color="0.3", ls="--", label=f"stored {where} (state lost)"))
     if invalid is not None:
         handles.append(invalid)
     fig.legend(handles=handles, loc="outside right center", fontsize=7)
