@@ -8,6 +8,7 @@ import math
 
 from ..engine import FAMILIES, ParameterError, family_info, potential_from_spec
 from ..errors import InputError
+from ..physics.presets.strengths import PARAMETER_DIMENSIONS
 from .readings import add_preset_arguments, engine_strength, reading_of, significant
 
 __all__ = ["parse_l_values", "parse_params", "potential_args", "make_potential", "describe", "title"]
@@ -81,15 +82,26 @@ def parse_params(family: str, given: list[str], flagged: dict) -> dict:
     return out
 
 
+def engine_parameters(args, reading, given: dict) -> dict:
+    """The family's own parameters given with ``--param`` in the engine's units: lengths read in
+    ``--length-unit`` (fm under the nuclear preset), dimensionless ones as given."""
+    units = {q.name: q.unit for q in family_info(args.family).parameters}
+    out = {}
+    for name, value in given.items():
+        dimension = PARAMETER_DIMENSIONS.get(units[name])
+        if dimension == "length":
+            out[name] = reading.engine_length(value, args.length_unit)
+        elif dimension == "1":
+            out[name] = value
+        else:  # no family declares one yet: say so rather than guess a unit
+            raise InputError(f"--param {name} is in {units[name]}, which the command line cannot read yet")
+    return out
+
+
 def make_potential(args, strength, screening_length):
     flagged = {"table": args.table, "screened": getattr(args, "screened", False), "coulomb_tail": args.coulomb_tail}
     own = parse_params(args.family, getattr(args, "param", []), {"family", "mass", *flagged})
-    units = {q.name: q.unit for q in family_info(args.family).parameters}
-    dimensioned = [name for name in own if units[name] != "1"]
-    if dimensioned and reading_of(args).preset is not None:
-        # the engine runs in the preset's units there; the families' parameters are not read in them yet
-        raise InputError(f"--param {dimensioned[0]} is in {units[dimensioned[0]]}, which --preset {args.preset} does "
-                         "not read; leave out --preset (atomic units) for this family")
+    own = engine_parameters(args, reading_of(args), own)
     spec = {"family": args.family, "mass": 1.0 if args.mass is None else args.mass, **flagged, **own}
     try:
         return potential_from_spec(spec, strength, screening_length)

@@ -126,6 +126,7 @@ class SquareWell(Family):
     display_name = "square well"
     strength_meaning, length_meaning = "depth (hartree)", "radius λ (bohr)"
     strength_long_name, strength_dimension, length_long_name = "well depth", "energy", "radius of the well"
+    strength_symbol = "V0"
 
     @staticmethod
     def formula(r, p, x, c, continued):
@@ -158,6 +159,7 @@ class Harmonic(Family):
     display_name = "harmonic oscillator"
     strength_meaning = "ω (hartree/ħ)"
     strength_long_name, strength_dimension = "oscillator angular frequency", "angular_frequency"
+    strength_symbol = "ω"
 
     @staticmethod
     def formula(r, p, x, c, continued):

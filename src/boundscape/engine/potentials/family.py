@@ -84,6 +84,10 @@ class Family:
     # "angular_frequency").
     strength_long_name = "charge number Z of the screened Coulomb potential"
     strength_dimension = "1"
+    # How a formula names the strength (Z, V0, g), and how it is named read as a coupling
+    # (energy × length, a nuclear g² of the Yukawa form -g² e^{-r/λ}/r) where its dimension is "1".
+    strength_symbol = "Z"
+    coupling_symbol = "g²"
     length_long_name = "screening length"
 
     # --- the formula ------------------------------------------------------------------------

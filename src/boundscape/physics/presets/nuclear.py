@@ -16,6 +16,7 @@ from ...checks import positive
 from ...errors import InputError
 from ..units import FM_M, HBAR_C_MEV_FM, MEV_J, UnitSystem, nuclear_units
 from .base import ConditionGrid, EngineParameters, Preset, Unit
+from .strengths import StrengthReading
 
 __all__ = ["Nuclear"]
 
@@ -165,3 +166,9 @@ class Nuclear(Preset):
 
     def strength_input(self, value):
         return float(self.strength_for(value)), f"g² = {value:g} MeV fm"
+
+    def coupling_reading(self, info):
+        # a charge-like strength is a coupling, energy × length: Yukawa's g², two-Yukawa's g
+        symbol = info.coupling_symbol
+        return StrengthReading("--coupling", f"{symbol}, MeV fm", "coupling", "MeV fm", float(self.strength_for(1.0)),
+                               f"{symbol} = {{value:g}} MeV fm")
