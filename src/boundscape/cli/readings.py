@@ -26,7 +26,7 @@ from ..physics.screening import MODELS
 from ..physics.units import ATOMIC, BOHR_M, UnitSystem, convert
 
 __all__ = ["add_preset_arguments", "Reading", "reading_of", "engine_strength", "strength_reading", "engine_length", "describe", "title",
-           "flag_value", "own_parameters", "shown_parameters",
+           "flag_value", "own_parameters", "shown_parameters", "length_reader",
            "significant"]
 
 LENGTH_UNITS = ("bohr", "nm", "fm", "a*")
@@ -65,6 +65,10 @@ def add_preset_arguments(p: argparse.ArgumentParser):
                              "(default for a donor) or electrons_and_holes (default for an exciton)")
     plasma.add_argument("--screening-ion-charge", type=float, default=None,
                         help="plasma with --species electrons_and_ions: charge Z_i of the screening ions (default 1)")
+    plasma.add_argument("--ion-sphere-charge", type=float, default=None,
+                        help="plasma, family ion_sphere with --density: charge Z_i of the ions whose Wigner-Seitz "
+                             "radius (3 Z_i/(4 pi n_e))^(1/3) is the ion-sphere radius R (default: --nuclear-charge, "
+                             "so that the sphere's cloud of Z electrons has the density n_e)")
     plasma.add_argument("--ion-temperature-ratio", type=float, default=None,
                         help="plasma with --species electrons_and_ions: T_i/T_e (default 1)")
     semi = p.add_argument_group("--preset semiconductor")
@@ -168,14 +172,28 @@ def engine_length(args, reading: Reading) -> tuple[float | None, dict]:
     length = getattr(args, "screening_length", None)
     flag = preset.length_flag[0] if preset.length_flag else None
     value = flag_value(args, flag) if flag else None
+    reader = length_reader(args, reading) if flag else None
     if value is None:
         return (None if length is None else reading.engine_length(length, args.length_unit)), {}
     if length is not None:
         raise InputError(f"give {flag} or --screening-length, not both: each sets the screening length")
+    if reader is None:
+        info = family_info(args.family)
+        raise InputError(f"{flag} sets a screening length, but family {args.family}'s length is its "
+                         f"{info.length_long_name}: give --screening-length (in --length-unit)")
     positive(flag, value)
     if preset.temperature_flag and flag_value(args, preset.temperature_flag) is None:
-        raise InputError(f"{flag} needs {preset.temperature_flag} (the screening depends on the temperature)")
-    return preset.command_line_length(value, reading.units), preset.command_line_conditions(value)
+        raise InputError(f"{flag} needs {preset.temperature_flag} (the screening and its validity depend on the "
+                         "temperature)")
+    return reader.command_line_length(value, reading.units), reader.command_line_conditions(value)
+
+
+def length_reader(args, reading: Reading):
+    """What reads the preset's condition flag (``--density``) as ``--family``'s length
+    (``Preset.length_reading``): the screening length, or a plasma's ion-sphere radius."""
+    preset = reading.trade
+    taken = preset.strength_reading(family_info(args.family))
+    return preset.length_reading(family_info(args.family), flag_value(args, taken.flag))
 
 
 def own_parameters(pot) -> dict:

@@ -89,6 +89,9 @@ class Family:
     strength_symbol = "Z"
     coupling_symbol = "g²"
     length_long_name = "screening length"
+    # What the length is: "screening_length" (what a medium's density and temperature set),
+    # "well_radius" (a well's size) or "ion_sphere_radius" (what a plasma's density sets).
+    length_kind = "screening_length"
 
     # --- the formula ------------------------------------------------------------------------
     @staticmethod

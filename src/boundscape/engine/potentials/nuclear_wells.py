@@ -72,6 +72,7 @@ class WoodsSaxon(Family):
     strength_meaning, length_meaning = "depth V0 (hartree)", "radius R (bohr), where V = -V0/2"
     strength_long_name, strength_dimension = "well depth V0", "energy"
     strength_symbol = "V0"
+    length_kind = "well_radius"
     length_long_name = "radius of the Woods-Saxon well"  # where V = -V0/2; figures add the symbol R
 
     @staticmethod

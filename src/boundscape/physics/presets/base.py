@@ -343,6 +343,13 @@ class Preset:
         strength's dimension (:func:`~.strengths.read_strength`)."""
         return read_strength(self, info, self.command_line_reading()["units"].energy_J)
 
+    def length_reading(self, info, charge: float | None = None):
+        """What reads the value of :attr:`length_flag` as family ``info``'s length: the preset
+        itself (:meth:`command_line_length`, :meth:`command_line_conditions`,
+        :meth:`critical_columns`) where that length is a screening length; ``None`` where the
+        condition cannot set it (a well's radius).  ``charge`` is the strength given, if any."""
+        return self if info.length_kind == "screening_length" else None
+
     def coupling_reading(self, info) -> StrengthReading:
         """How the command line takes a charge-like strength (dimension ``"1"``): with
         :attr:`strength_flag`, as :meth:`strength_input` reads it (and names it)."""

@@ -167,6 +167,9 @@ class Nuclear(Preset):
     def strength_input(self, value):
         return float(self.strength_for(value)), f"g² = {value:g} MeV fm"
 
+    def length_reading(self, info, charge=None):
+        return self  # --range is a length in fm, whatever the family's length is
+
     def coupling_reading(self, info):
         # a charge-like strength is a coupling, energy × length: Yukawa's g², two-Yukawa's g
         symbol = info.coupling_symbol
