@@ -147,6 +147,21 @@ def test_woods_saxon_sharp_surface_tends_to_the_square_well(capsys):
         assert limit == pytest.approx(ref, rel=1e-4) and abs(limit - ref) < abs(sharp) / 5
 
 
+def test_fit_solves_for_a_depth_in_MeV(capsys):
+    # the depth V0 that puts a Woods–Saxon 1s at −20 MeV; the square well's closed-form condition
+    # is the check where the surface is sharp (transcendental equation above, same depth)
+    ws = ["--family", "woods_saxon", "--screening-length", "4", "--param", "diffuseness=0.65", *NUCLEAR]
+    out = run_json(capsys, "fit", *ws, "--vary", "strength", "--state", "1s", "--energy", "-20")
+    depth = out["depth_MeV"]
+    assert out["depth_error_MeV"] < 1e-6 and out["potential"]["parameters"]["diffuseness_fm"] == pytest.approx(0.65)
+    levels = run_json(capsys, "levels", *ws, "--strength", repr(depth))
+    assert levels["levels"][0]["energy_MeV"] == pytest.approx(-20.0, rel=1e-8)
+    out = run_json(capsys, "fit", "--family", "square_well", "--screening-length", "4", *NUCLEAR, "--vary", "strength",
+                   "--state", "1s", "--energy", "-20")
+    assert square_well_s_levels(out["depth_MeV"], 4.0, MU)[0] == pytest.approx(-20.0, rel=1e-8)
+    assert "use --vary strength" in message(capsys, "fit", *ws, "--vary", "coupling", "--state", "1s", "--energy", "-20")
+
+
 def test_two_yukawa_coupling_in_MeV_fm_binds_the_deuteron(capsys):
     # Malfliet–Tjon III: V = (−626.885 e^{−1.55 r} + 1438.720 e^{−3.11 r})/r MeV (r in fm), ħ²/m =
     # 41.47 MeV fm² (μc² = (ħc)²/(2·41.47 MeV)): the deuteron bound by about 2.23 MeV (Malfliet & Tjon,

@@ -9,7 +9,7 @@ import math
 from ..engine import FAMILIES, ParameterError, family_info, potential_from_spec
 from ..errors import InputError
 from ..physics.presets.strengths import PARAMETER_DIMENSIONS
-from .readings import add_preset_arguments, engine_strength, reading_of, significant
+from .readings import add_preset_arguments, engine_strength, reading_of, shown_parameters, significant
 
 __all__ = ["parse_l_values", "parse_params", "potential_args", "make_potential", "describe", "title"]
 
@@ -119,8 +119,10 @@ def _numbers(pot):
 
 def describe(pot, reading, strength_text, with_length=True):
     d = {"family": pot.family, "strength": pot.strength, "mass": pot.mass}
-    if _numbers(pot):
+    if _numbers(pot):  # the engine's values, and each length in the shown unit beside it
         d["parameters"] = _numbers(pot)
+        d["parameters"].update({f"{name}_{unit}": value for name, value, unit in shown_parameters(pot, reading)
+                                if unit == reading.length_unit != "bohr"})
     if reading.preset is not None or reading.length_unit != "bohr":
         d.update(units=reading.description, input=strength_text)
     if with_length and math.isfinite(pot.screening_length):
@@ -137,9 +139,8 @@ def title(pot, reading, strength_text, with_length=True):
         shown = pot.screening_length * reading.length_factor
         lam = f", λ = {shown:.10g} {reading.length_unit}"
     mass = f", mass {pot.mass:g} m_e" if reading.preset is None else ""
-    units = {q.name: q.unit for q in pot.info.parameters}
-    own = "".join(f", {name} {value:.10g}{'' if units[name] == '1' else ' ' + units[name]}"
-                  for name, value in _numbers(pot).items())
+    own = "".join(f", {name} {value:.10g}{' ' + unit if unit else ''}" for name, value, unit in
+                  shown_parameters(pot, reading))
     return f"{pot.info.display_name}, {strength_text}{lam}{own}{mass} ({reading.description})"
 
 
