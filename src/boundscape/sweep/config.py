@@ -89,7 +89,7 @@ def validate_config(config: dict) -> dict:
     grid = config["grid"]
     uses_length = FAMILIES[family].uses_screening_length(own)
     try:
-        preset = from_config(config.get("preset"), grid)
+        preset = from_config(config.get("preset"), grid, family)
     except InputError as exc:
         raise InputError(f"config key preset: {exc}") from None
     if is_condition_sweep(grid):
@@ -162,7 +162,7 @@ def _check_conditions(grid, section, preset, family, uses_length):
                          f"({', '.join(preset.condition_keys)}) change nothing; use yukawa, ecsc, hulthen or a "
                          "screened table")
     length = FAMILIES[family].length_long_name
-    if length != "screening length":  # a well's radius is not what a density and temperature set
+    if not preset.condition_sets_length(FAMILIES[family]):  # a well's radius is not what a density sets
         raise InputError(f"config key potential.family: family {family}'s length is its {length}, not a screening "
                          f"length, so the conditions ({', '.join(preset.condition_keys)}) cannot set it; sweep "
                          "grid.screening_length instead")

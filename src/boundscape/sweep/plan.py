@@ -168,7 +168,7 @@ def plan(config: dict) -> Plan:
     check_limits(config)
     config = validate_config(config)
     grid = config["grid"]
-    preset = from_config(config.get("preset"), grid)
+    preset = from_config(config.get("preset"), grid, config["potential"]["family"])
     conditions = length_index = None
     if is_condition_sweep(grid):
         axes = {key: axis_values(grid[key], key) for key in preset.condition_keys}

@@ -350,6 +350,16 @@ class Preset:
         condition cannot set it (a well's radius).  ``charge`` is the strength given, if any."""
         return self if info.length_kind == "screening_length" else None
 
+    def for_family(self, info) -> "Preset":
+        """This preset as it reads family ``info``'s sweeps (a plasma reads an ion sphere's radius
+        from the density); raises :class:`~boundscape.errors.InputError` for a setting the family
+        cannot use."""
+        return self
+
+    def condition_sets_length(self, info) -> bool:
+        """Whether a sweep over :attr:`condition_keys` can set family ``info``'s length."""
+        return info.length_kind == "screening_length"
+
     def coupling_reading(self, info) -> StrengthReading:
         """How the command line takes a charge-like strength (dimension ``"1"``): with
         :attr:`strength_flag`, as :meth:`strength_input` reads it (and names it)."""

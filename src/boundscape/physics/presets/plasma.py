@@ -4,7 +4,8 @@ in atomic units with energies in eV and lengths in nm."""
 from __future__ import annotations
 
 import math
-from dataclasses import dataclass
+from dataclasses import dataclass, fields
+from typing import ClassVar
 
 import numpy as np
 from scipy import constants as sc
@@ -15,7 +16,6 @@ from ..screening import Carriers, Species
 from ..units import ATOMIC, BOHR_M, convert
 from .base import ConditionAxes, EngineParameters, Unit
 from .carriers import CarrierScreening
-from .ion_sphere import IonSphereRadius
 
 __all__ = ["Plasma"]
 
@@ -83,6 +83,9 @@ class Plasma(CarrierScreening):
     strength_flag = "--nuclear-charge"
     strength_meaning = "Z, the nuclear charge of the hydrogen-like ion"
     units = ATOMIC
+    # The variants that read a family's length other than as a screening length, by the family's
+    # length_kind; each registers itself from its own module (.ion_sphere: the ion-sphere radius).
+    length_variants: ClassVar[dict] = {}
 
     def __post_init__(self):
         if self.species not in ("electrons", "electrons_and_ions"):
@@ -184,7 +187,8 @@ class Plasma(CarrierScreening):
         return float(positive("--nuclear-charge", value)), f"nuclear charge Z = {value:g}"
 
     def length_reading(self, info, charge=None):
-        """Family ``ion_sphere``: R from n_e, the ions' Wigner–Seitz radius (:mod:`.ion_sphere`)."""
+        """Family ``ion_sphere``: R from n_e, the ions' Wigner–Seitz radius, Z_i = ``charge`` (the
+        nuclear charge given) unless :attr:`ion_sphere_charge` (:mod:`.ion_sphere`)."""
         if info.length_kind != "ion_sphere_radius":
             if self.ion_sphere_charge is not None:
                 raise InputError(f"--ion-sphere-charge applies to family ion_sphere only (family {info.name}'s "
@@ -194,4 +198,24 @@ class Plasma(CarrierScreening):
         if ion_charge is None:
             raise InputError("--density sets the ion-sphere radius (3 Z_i/(4 pi n_e))^(1/3) from the ions' charge "
                              "Z_i, the nuclear charge by default, which is varied here: give --ion-sphere-charge")
-        return IonSphereRadius(float(ion_charge), charge, self.temperature_eV, self.ion_temperature_ratio)
+        variant = self.length_variants["ion_sphere_radius"]
+        return variant(**{**_fields(self), "ion_sphere_charge": float(ion_charge)}, nuclear_charge=charge)
+
+    def for_family(self, info):
+        if info.length_kind != "ion_sphere_radius":
+            if self.ion_sphere_charge is not None:
+                raise InputError(f"preset.ion_sphere_charge applies to family ion_sphere only, not {info.name}")
+            return self
+        if self.ion_sphere_charge is None:
+            raise InputError("a plasma sweep of family ion_sphere needs preset.ion_sphere_charge, the charge Z_i of "
+                             "the plasma's ions, whose Wigner-Seitz radius (3 Z_i/(4 pi n_e))^(1/3) is the ion-sphere "
+                             "radius (the swept ion's nuclear charge, for a plasma of such nuclei)")
+        return self.length_variants["ion_sphere_radius"](**_fields(self))
+
+    def condition_sets_length(self, info):
+        return info.length_kind in ("screening_length", "ion_sphere_radius")
+
+
+def _fields(preset) -> dict:
+    # A plasma preset's own settings (the dataclass fields of Plasma), to rebuild it as a variant.
+    return {f.name: getattr(preset, f.name) for f in fields(Plasma)}
