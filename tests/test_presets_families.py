@@ -249,3 +249,58 @@ def test_plasma_refusals_for_lengths_no_density_sets(capsys):
     text = message(capsys, "levels", "--family", "yukawa", "--preset", "plasma", "--nuclear-charge", "2", "--density",
                    "1e23", "--temperature", "20", "--ion-sphere-charge", "1")
     assert "--ion-sphere-charge applies to family ion_sphere only" in text
+
+
+# -- sweeps under the nuclear preset: depths in MeV over radii in fm ------------------------------
+def test_a_nuclear_sweep_of_woods_saxon_reads_depths_in_MeV(tmp_path):
+    import numpy as np
+
+    from boundscape import sweep
+    from boundscape.cube.physical import preset_of
+    from boundscape.errors import InputError
+    from test_conditions import build
+
+    config = {"sweep": "ws", "potential": {"family": "woods_saxon", "diffuseness": 0.65},
+              "grid": {"depth_MeV": [40.0, 50.0], "screening_length": [3.0, 4.0], "l": [0, 1], "n_r_max": 2},
+              "tiles": {"cells": 8}, "preset": {"kind": "nuclear", "reduced_mass_MeV": MU}}
+    ds, plan = build(tmp_path, config)
+    assert ds["depth"].attrs["units"] == "MeV"
+    assert ds["depth"].values.tolist() == pytest.approx([40.0, 50.0], rel=1e-13)
+    # each cell is the CLI's well in MeV and fm (itself checked above against atomic units)
+    out = json.loads(_cli_json(["levels", "--family", "woods_saxon", "--strength", "50", "--screening-length", "4",
+                                "--param", "diffuseness=0.65", *NUCLEAR]))
+    found = ds["energy"].isel(strength=1).sel(screening_length=4.0, l=0).values
+    factor = float(ds.attrs["energy_unit_in_eV"]) / 1e6
+    assert [row["energy_MeV"] for row in out["levels"]] == pytest.approx(
+        list(found[np.isfinite(found)] * factor), rel=1e-12)
+    # critical depths in MeV at each radius: the CLI's critical --vary strength
+    assert ds["critical_depth"].attrs["units"] == "MeV"
+    crit = json.loads(_cli_json(["critical", "--vary", "strength", "--family", "woods_saxon", "--screening-length",
+                                 "4", "--param", "diffuseness=0.65", *NUCLEAR, "--n-max", "1"]))
+    assert float(ds["critical_depth"].sel(screening_length=4.0, l=0, n_r=0)) == pytest.approx(
+        crit["states"][0]["critical_depth_MeV"], rel=1e-9)
+    preset, _ = preset_of(ds)
+    assert preset.strength_label({}) == "well depth V0 (MeV)"
+    # the figures and the loss table render from it, the table's strength column in MeV
+    from boundscape.plots.render import render_all
+
+    written = render_all(ds, tmp_path / "figures")
+    table = (tmp_path / "figures" / "critical_screening_lengths.csv").read_text().splitlines()
+    assert written and "depth_MeV" in table[0] and "two_mu_g2" not in table[0]
+    # a coupling is not a depth, and a depth is not a coupling
+    with pytest.raises(InputError, match="grid.coupling_MeV_fm.*grid.depth_MeV"):
+        grid = {key: value for key, value in config["grid"].items() if key != "depth_MeV"}
+        sweep.validate_config({**config, "grid": {**grid, "coupling_MeV_fm": [50.0]}})
+    yukawa = {**config, "potential": {"family": "yukawa"}}
+    with pytest.raises(InputError, match="grid.depth_MeV"):
+        sweep.validate_config(yukawa)
+
+
+def _cli_json(argv):
+    import contextlib
+    import io
+
+    buffer = io.StringIO()
+    with contextlib.redirect_stdout(buffer):
+        assert cli_main([*argv, "--format", "json"]) == 0
+    return buffer.getvalue()

@@ -21,10 +21,11 @@ from .base import NO_PRESET, ConditionAxes, ConditionGrid, EngineParameters, NoP
 from .carriers import CarrierScreening
 from .ion_sphere import IonSpherePlasma  # registers itself as the plasma's reading of an ion sphere
 from .nuclear import Nuclear
+from .nuclear_depth import NuclearDepth  # registers itself as the nuclear reading of a depth
 from .plasma import Plasma
 from .semiconductor import Semiconductor
 
-__all__ = ["Preset", "NoPreset", "NO_PRESET", "CarrierScreening", "Plasma", "IonSpherePlasma", "Semiconductor", "Nuclear", "PRESETS",
+__all__ = ["Preset", "NoPreset", "NO_PRESET", "CarrierScreening", "Plasma", "IonSpherePlasma", "NuclearDepth", "Semiconductor", "Nuclear", "PRESETS",
            "from_config", "EngineParameters", "Unit", "ConditionAxes", "ConditionGrid", "is_condition_sweep"]
 
 # The config's preset.kind (and the command line's --preset) -> its class.

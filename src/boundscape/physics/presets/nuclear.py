@@ -8,6 +8,7 @@ from __future__ import annotations
 
 import math
 from dataclasses import dataclass
+from typing import ClassVar
 
 import numpy as np
 from scipy import constants as sc
@@ -45,6 +46,9 @@ class Nuclear(Preset):
     strength_flag = "--coupling"
     strength_meaning = "g², MeV fm"
     mass_given_by = "the reduced mass is --reduced-mass (MeV/c²)"
+    # The variants for families whose strength is not a coupling, by strength_dimension; each
+    # registers itself from its own module (.nuclear_depth: a depth V0 in MeV).
+    strength_variants: ClassVar[dict] = {}
 
     def __post_init__(self):
         positive("nuclear reduced_mass_MeV", self.reduced_mass_MeV)
@@ -166,6 +170,14 @@ class Nuclear(Preset):
 
     def strength_input(self, value):
         return float(self.strength_for(value)), f"g² = {value:g} MeV fm"
+
+    def for_family(self, info):
+        variant = self.strength_variants.get(info.strength_dimension)
+        return self if variant is None else variant(self.reduced_mass_MeV, self.length_fm)
+
+    def grid_strength(self, values):
+        """Engine strengths of the grid's own strength axis (``coupling_MeV_fm``: g² in MeV fm)."""
+        return self.strength_for(values)
 
     def length_reading(self, info, charge=None):
         return self  # --range is a length in fm, whatever the family's length is
