@@ -183,8 +183,9 @@ def _check_conditions(grid, section, preset, family, uses_length):
 def _check_strength_axis(grid, preset):
     given = [key for key in STRENGTH_KEYS if key in grid]
     if len(given) != 1:
-        raise InputError(f"config key grid: give exactly one of {', '.join(STRENGTH_KEYS[:-1])} and "
-                         f"{STRENGTH_KEYS[-1]}" + (f" (got {', '.join(given)})" if given else ""))
+        names = ("strength", *(preset.grid_axes or ("coupling_MeV_fm",)))
+        raise InputError(f"config key grid: give exactly one of {' and '.join(names)}"
+                         + (f" (got {', '.join(given)})" if given else ""))
     axis = given[0]
     if axis != "strength" and axis not in preset.grid_axes:
         what = {"coupling_MeV_fm": "a coupling g² in MeV fm", "depth_MeV": "a well depth in MeV"}[axis]
