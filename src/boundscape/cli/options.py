@@ -38,8 +38,9 @@ def parse_l_values(text: str) -> list[int]:
 def potential_args(p: argparse.ArgumentParser, *, levels: bool, l_values: bool = True):
     p.add_argument("--family", required=True, help=f"potential family: {', '.join(sorted(FAMILIES))}")
     p.add_argument("--strength", type=float, default=None,
-                   help="required: Z (charge number; for an ion, its nuclear charge); depth in hartree "
-                        "(square_well); ω in hartree/ħ (harmonic); scale factor (tabulated, default 1)")
+                   help="required: Z (charge number; for an ion, its nuclear charge); a depth V0 (square_well, "
+                        "woods_saxon) in hartree, or in the preset's energy unit (eV, meV, MeV); ω in hartree/ħ "
+                        "(harmonic); scale factor (tabulated, default 1)")
     if levels:
         p.add_argument("--screening-length", type=float, default=None,
                        help="λ in --length-unit, bohr by default (the radius for square_well); "
@@ -53,7 +54,8 @@ def potential_args(p: argparse.ArgumentParser, *, levels: bool, l_values: bool =
     p.add_argument("--coulomb-tail", type=float, default=None,
                    help="tabulated family: declare a -Z/r tail beyond the table with this Z")
     p.add_argument("--param", action="append", default=[], metavar="NAME=VALUE",
-                   help="a family's own parameter, repeatable, e.g. --param diffuseness=0.5 (woods_saxon, bohr); "
+                   help="a family's own parameter, repeatable, e.g. --param diffuseness=0.5 (woods_saxon, a length "
+                        "in --length-unit); "
                         "--param core_strength=2 --param core_range=0.5 (two_yukawa)")
     p.add_argument("--format", choices=("table", "json"), default="table", help="output format (default table)")
     add_preset_arguments(p)
