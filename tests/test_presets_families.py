@@ -304,3 +304,19 @@ def _cli_json(argv):
     with contextlib.redirect_stdout(buffer):
         assert cli_main([*argv, "--format", "json"]) == 0
     return buffer.getvalue()
+
+
+def test_depths_and_frequencies_in_each_trades_energy_unit(capsys):
+    # ħω of the harmonic oscillator in MeV: E = (2n_r + l + 3/2)ħω exactly (any QM text, common practice)
+    out = run_json(capsys, "levels", "--family", "harmonic", "--preset", "nuclear", "--reduced-mass", "938",
+                   "--strength", "10", "--l", "1", "--n-r-max", "2")
+    assert [row["energy_MeV"] for row in out["levels"]] == pytest.approx([25.0, 45.0], rel=1e-10)
+    # a square well in a semiconductor, V0 in meV and R in nm, for μ* = 0.067: the transcendental
+    # equation with ħ²/(2μ) from scipy.constants (in MeV and fm through the same helper)
+    mu_MeV = 0.067 * ELECTRON_MEV
+    out = run_json(capsys, "levels", "--family", "square_well", "--preset", "semiconductor", "--effective-mass",
+                   "0.067", "--permittivity", "12.9", "--strength", "100", "--screening-length", "5",
+                   "--length-unit", "nm")
+    assert out["potential"]["input"] == "V0 = 100 meV"
+    expected = [e * 1e9 for e in square_well_s_levels(100e-9, 5e6, mu_MeV)]  # meV → MeV, nm → fm, back to meV
+    assert [row["energy_meV"] for row in out["levels"]] == pytest.approx(expected, rel=1e-9)
