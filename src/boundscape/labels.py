@@ -1,16 +1,10 @@
-"""Spectroscopic labels of states (``state_label(2, 1) == "2p"``) and the names of the families."""
+"""Spectroscopic labels of states (``state_label(2, 1) == "2p"``)."""
 
 from __future__ import annotations
 
 import re
 
-__all__ = ["LETTERS", "FAMILY_NAMES", "orbital_letter", "state_label", "parse_state", "line_label"]
-
-# How titles and the cube name each engine family (the config keys are identifiers, not names).
-FAMILY_NAMES = {"coulomb": "Coulomb", "yukawa": "Yukawa", "ecsc": "exponential-cosine-screened Coulomb",
-                "hulthen": "Hulthén", "square_well": "square well", "harmonic": "harmonic oscillator",
-                "tabulated": "tabulated", "woods_saxon": "Woods–Saxon", "ion_sphere": "ion sphere",
-                "two_yukawa": "two-Yukawa (Malfliet–Tjon)"}
+__all__ = ["LETTERS", "orbital_letter", "state_label", "parse_state", "line_label"]
 
 # j is skipped by convention (common practice, no source).
 LETTERS = "spdfghiklmnoqrtuvwxyz"

@@ -19,9 +19,11 @@ import sys
 
 from . import convert, fit, lines, resonances, scattering
 from .options import make_potential, parse_l_values, potential_args
+from .progress import Progress
 from .readings import describe, engine_length, engine_strength, reading_of, significant, strength_reading, title
 from .trade import print_table, trade_columns, trade_notes
 from ..engine import bound_levels, critical_screening_length, critical_strength, family_info
+from ..engine.limits import MAX_CRITICAL_STATES, LimitError
 from ..errors import ConvergenceError, InputError
 from ..labels import orbital_letter, state_label
 from ..physics.units import HARTREE_EV
@@ -87,8 +89,10 @@ def run_levels(args) -> int:
     pot = make_potential(args, strength, lam)
     e_unit, r_unit = reading.energy_unit, reading.length_unit
     rows, counts = [], {}
+    progress = Progress(len(ls), "levels, one l at a time")
     for l in ls:
         res = bound_levels(pot, l, n_r_max=args.n_r_max)
+        progress.step(f"l = {l}")
         counts[l] = res.num_bound
         for i in range(len(res.energy)):
             row = {"n": int(res.n[i]), "l": l, "state": res.labels[i], "n_r": int(res.n_r[i])}
@@ -130,12 +134,23 @@ def run_levels(args) -> int:
     return 0
 
 
-def run_critical(args) -> int:
-    ls = parse_l_values(args.l)
+def _critical_states(args, ls) -> Progress:
+    """Refuse, before any search, an --n-max beyond the engine's states per l; else the run's progress."""
     if args.n_max < 1:
         raise InputError(f"--n-max must be at least 1, got {args.n_max}")
+    top = args.n_max - min(ls) - 1
+    if top >= MAX_CRITICAL_STATES:
+        raise LimitError(f"--n-max {args.n_max} asks for states up to n_r = {top} at l = {min(ls)}, beyond the "
+                         f"engine's limit n_r ≤ {MAX_CRITICAL_STATES - 1} per l (a root search per state, "
+                         "costing ~n_r² per l)")
+    return Progress(sum(max(0, args.n_max - l) for l in ls), "critical states")
+
+
+def run_critical(args) -> int:
+    ls = parse_l_values(args.l)
+    progress = _critical_states(args, ls)
     if args.vary == "strength":
-        return _critical_strengths(args, ls)
+        return _critical_strengths(args, ls, progress)
     if args.screening_length is not None:
         raise InputError("--screening-length applies to critical only with --vary strength (the screening length "
                          "is what critical finds otherwise)")
@@ -145,7 +160,7 @@ def run_critical(args) -> int:
         raise InputError(f"family {args.family!r} has no screening length, so no state is ever lost; "
                          "critical lengths need a screened family")
     if engine_length(args, reading)[0] is not None:  # a range (or density) fixes the length: vary the strength
-        return _critical_strengths(args, ls)
+        return _critical_strengths(args, ls, progress)
     strength, strength_text = engine_strength(args, reading)
     pot = make_potential(args, strength, 1.0)  # validates family and parameters
     unit, factor = reading.length_unit, reading.length_factor
@@ -163,6 +178,7 @@ def run_critical(args) -> int:
                             f"critical_inverse_length_per_{unit}": 0.0 if math.isinf(lam) else significant(1.0 / shown, 13)})
             row.update(trade_columns(args, reading, lam))  # where the state is lost, in the trade's terms
             rows.append(row)
+            progress.step(row["state"])
     notes = trade_notes(args, reading, rows)
     if args.format == "json":
         print(json.dumps({"potential": describe(pot, reading, strength_text, with_length=False), "states": rows,
@@ -177,7 +193,7 @@ def run_critical(args) -> int:
     return 0
 
 
-def _critical_strengths(args, ls) -> int:
+def _critical_strengths(args, ls, progress) -> int:
     """``critical --vary strength``: the strength below which each state is lost, at a fixed length."""
     reading = reading_of(args)
     preset = reading.trade
@@ -205,6 +221,7 @@ def _critical_strengths(args, ls) -> int:
                          "critical_strength": shown if shown is z and reading.preset is None else significant(shown, 13)})
             if taken.unit_key:
                 rows[-1][taken.unit_key] = rows[-1]["critical_strength"]
+            progress.step(rows[-1]["state"])
     length = f"{lam * reading.length_factor:.10g} {reading.length_unit}"
     if args.format == "json":
         description = describe(pot, reading, f"critical strength: {meaning}", conditions)

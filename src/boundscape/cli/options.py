@@ -7,6 +7,7 @@ import argparse
 import math
 
 from ..engine import FAMILIES, ParameterError, family_info, potential_from_spec
+from ..engine.limits import check_l
 from ..errors import InputError
 from ..physics.presets.strengths import PARAMETER_DIMENSIONS
 from .readings import add_preset_arguments, engine_strength, reading_of, shown_parameters, significant
@@ -16,23 +17,25 @@ __all__ = ["parse_l_values", "parse_params", "potential_args", "make_potential",
 
 def parse_l_values(text: str) -> list[int]:
     """'0-3' → [0, 1, 2, 3]; '0,2,5' → [0, 2, 5]; '4' → [4]."""
-    out: list[int] = []
+    spans: list[tuple[int, int]] = []
     try:
         for part in text.split(","):
             part = part.strip()
             if "-" in part[1:]:
                 a, b = part.split("-", 1)
-                lo, hi = int(a), int(b)
-                if hi < lo:
+                spans.append((int(a), int(b)))
+                if spans[-1][1] < spans[-1][0]:
                     raise InputError(f"--l range {part!r} runs backwards")
-                out.extend(range(lo, hi + 1))
             else:
-                out.append(int(part))
-    except ValueError:
+                spans.append((int(part), int(part)))
+    except ValueError as exc:
+        if isinstance(exc, InputError):
+            raise
         raise InputError(f"--l must be integers like 0-3 or 0,2,5, got {text!r}") from None
-    if any(l < 0 for l in out):
+    if any(lo < 0 for lo, _ in spans):
         raise InputError(f"--l values must be non-negative, got {text!r}")
-    return sorted(set(out))
+    check_l(max(hi for _, hi in spans))  # before any range is expanded: '0-10**12' must not fill memory
+    return sorted({l for lo, hi in spans for l in range(lo, hi + 1)})
 
 
 def potential_args(p: argparse.ArgumentParser, *, levels: bool, l_values: bool = True):

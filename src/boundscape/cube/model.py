@@ -14,7 +14,7 @@ import numpy as np
 import yaml
 
 from ..engine import LEVEL_STATUS, family_info
-from ..labels import FAMILY_NAMES
+from ..errors import InputError
 from ..physics.units import BOHR_M, BOHR_UDUNITS, HARTREE_EV, HARTREE_J, HARTREE_UDUNITS, udunits_scaled
 from ..sweep.tiles import CRITICAL_FLAGS
 
@@ -34,6 +34,14 @@ MAX_LISTED = 2000  # flagged cells or states listed in an attribute; the job log
 # apply CF masking (xarray.open_dataset) see NaN there.
 NUM_BOUND_UNKNOWN = np.int32(-2147483647)
 FILL_VALUES = {"num_bound": NUM_BOUND_UNKNOWN}  # _FillValue of the integer variables that have one
+
+
+def family_title(family: str) -> str:
+    """The family's own display name (a family unknown to this version keeps its key)."""
+    try:
+        return family_info(family).display_name
+    except InputError:  # a cube from another version may name a family this one lacks
+        return family
 
 
 def _strength_units(family: str) -> tuple[str, str]:
@@ -163,7 +171,7 @@ def build_cube(axes, levels, criticals, *, provenance, layout=None):
     config = yaml.safe_load(provenance.get("config_yaml") or "") or {}
     attrs = {
         "Conventions": "CF-1.10",
-        "title": f"Bound states of the {FAMILY_NAMES.get(family, family)} potential over "
+        "title": f"Bound states of the {family_title(family)} potential over "
                  f"{' x '.join(d.replace('_', ' ') for d in cell_dims)} (sweep {provenance['sweep']})",
         # CF: who produced the data. Only the config can say; absent otherwise.
         **({"institution": config["institution"]} if isinstance(config, dict) and config.get("institution") else {}),

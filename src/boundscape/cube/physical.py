@@ -13,7 +13,7 @@ from scipy import constants as sc
 from ..physics.presets import NO_PRESET, from_config
 from ..physics.units import ATOMIC, convert
 from ..sweep.tiles import CRITICAL_FLAGS
-from . import resonances as past
+from .resonances import inverse_length_attrs
 from .model import flag_attrs, listing
 
 __all__ = ["add_physical_coordinates", "add_trade_variables", "preset_of"]
@@ -67,7 +67,7 @@ def _describe_units(out, preset, units, mass):
         for key in _ATOMIC_ONLY:
             attrs.pop(key, None)
         if "wavenumber_unit_in_per_m" in attrs:
-            attrs.update(past.inverse_length_attrs(units.length_m))
+            attrs.update(inverse_length_attrs(units.length_m))
         elif "length_unit_in_m" in attrs:
             attrs.update(units=units.length_udunits(), length_unit_in_m=units.length_m)
         else:
