@@ -25,9 +25,8 @@ from ..physics.presets.strengths import PARAMETER_DIMENSIONS
 from ..physics.screening import MODELS
 from ..physics.units import ATOMIC, BOHR_M, UnitSystem, convert
 
-__all__ = ["add_preset_arguments", "Reading", "reading_of", "engine_strength", "strength_reading", "engine_length", "describe", "title",
-           "flag_value", "own_parameters", "shown_parameters", "length_reader",
-           "significant"]
+__all__ = ["add_preset_arguments", "Reading", "reading_of", "engine_strength", "strength_reading", "engine_length",
+           "length_reader", "describe", "title", "flag_value", "own_parameters", "shown_parameters", "significant"]
 
 LENGTH_UNITS = ("bohr", "nm", "fm", "a*")
 

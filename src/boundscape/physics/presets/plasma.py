@@ -93,7 +93,6 @@ class Plasma(CarrierScreening):
         self._check_screening()
         for name in ("screening_ion_charge", "ion_temperature_ratio", "temperature_eV", "reduced_mass"):
             positive(f"plasma {name}", getattr(self, name))
-
         if self.ion_sphere_charge is not None:
             positive("plasma ion_sphere_charge", self.ion_sphere_charge)
 
