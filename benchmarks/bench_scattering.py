@@ -8,6 +8,9 @@ The cells are those of config/sweeps/debye_lengths.yaml (the demo before conditi
 * scattering per cell (a_l, 1/a_l, r_e), on its own and with the bound-state count handed over
   as a sweep that has just run bound_levels would;
 * phase_shifts per cell at 8 energies, kλ = 0.01..10 log-spaced (threshold region to kλ = 10);
+* the sweep's cost: every tile of the same cells solved as the workflow solves it
+  (``boundscape.sweep.solve_tile``), without ``scattering:``, with ``scattering: true`` and with
+  ``scattering: {energies: [8 energies, 1e-4..1 hartree]}``, per cell and as ratios;
 * their ratios; how many results are flagged; the largest error estimates; and, on every 8th
   cell, the largest difference from a reference run with the grid refined 8× (rtol 1e-14).
 
@@ -28,6 +31,7 @@ import numpy as np
 import yaml
 
 import boundscape as bs
+from boundscape import sweep
 
 CONFIG = Path(__file__).resolve().parents[1] / "config" / "sweeps" / "debye_lengths.yaml"
 
@@ -108,7 +112,41 @@ def main():
     print(f"largest error estimate: angle arctan(a^(2l+1)/λ^(2l+1)) {worst_angle:.1e} rad, r_e {worst_re:.1e} "
           f"(relative to max(|r_e|, λ)), δ_l {worst_delta:.1e} (relative)")
     print(f"every 8th cell against a grid refined 8x (rtol 1e-14): angle {dev_angle:.1e} rad, r_e {dev_re:.1e}")
+    sweep_costs(args.quick)
     print("(the machine is shared: absolute times move with its load; the ratios were taken in one run)")
+
+
+SWEEP_ENERGIES = np.geomspace(1e-4, 1.0, 8).tolist()  # hartree
+
+
+def sweep_costs(quick=False):
+    """The cells of the config solved tile by tile as the workflow does, with and without
+    scattering: the cost per cell a user pays for the key."""
+    cfg = yaml.safe_load(CONFIG.read_text())
+    for key in ("resonances", "lines", "preset"):  # their own costs, measured by their own benchmarks
+        cfg.pop(key, None)
+    if quick:
+        cfg["grid"]["screening_length"]["num"] = 12
+    seconds = {}
+    for label, section in (("levels only", False), ("scattering: true", True),
+                           ("+ 8 energies", {"energies": SWEEP_ENERGIES})):
+        plan = sweep.plan({**cfg, "scattering": section})
+        specs = [plan.tile_spec(tile) for tile in plan.tiles]
+        t0 = time.perf_counter()
+        flagged = 0
+        for spec in specs:
+            out = sweep.solve_tile(spec)
+            flagged += sum(int(np.count_nonzero(out[name] != 0)) for name in ("scattering_status", "phase_shift_status")
+                           if name in out)
+        seconds[label] = (time.perf_counter() - t0) / plan.num_cells
+        cells = plan.num_cells
+    base = seconds["levels only"]
+    print(f"\nthe sweep, {cells} cells in tiles (sweep.solve_tile), cost per cell, ms:")
+    print("".join(f"{label:>20}" for label in seconds))
+    print("".join(f"{value * 1e3:>20.2f}" for value in seconds.values()))
+    print("".join(f"{value / base:>19.2f}x" for value in seconds.values()) + "   (ratio to levels only)")
+    print(f"flagged in the sweep with energies: {flagged} of {cells} zero-energy results and "
+          f"{cells * len(SWEEP_ENERGIES)} phase shifts")
 
 
 def _angle_error(s, L):

@@ -64,6 +64,10 @@ if HAS_CONDITION_MAP:
 FIGURE_LIST += [(f"line_shift_{line}", "line_shift.rst", "Spectral lines", line) for line in PLAN.lines]
 if PLAN.lines:
     FIGURE_LIST.append(("line_survival", "line_survival.rst", "Spectral lines", "survival"))
+if PLAN.scattering is not None:  # scattering: true, or {energies: [...]} (plots/scattering.py)
+    FIGURE_LIST.append(("inverse_scattering_length", "inverse_scattering_length.rst", "Scattering", "1/a"))
+    if PLAN.scattering["energies"]:
+        FIGURE_LIST.append(("phase_shifts", "phase_shifts.rst", "Scattering", "phase shifts"))
 TABLES = ("critical_screening_lengths.csv", "sweep_config.yaml")
 CRITICAL_COUPLINGS = PLAN.critical_strengths  # the nuclear critical coupling at each range, a table of its own
 

@@ -26,7 +26,7 @@ from pathlib import Path
 import numpy as np
 
 from ..errors import InputError
-from ..sweep import load_config, plan, resonance_tiles, solve_criticals, solve_tile
+from ..sweep import load_config, plan, resonance_tiles, scattering_tiles, solve_criticals, solve_tile
 
 
 def write_tile(spec: dict, output) -> None:
@@ -42,6 +42,9 @@ def write_tile(spec: dict, output) -> None:
         dims.update(dict.fromkeys(resonance_tiles.RESONANCE_VARS, LEVEL_DIMS))
         attrs.update(resonance_reasons_json=json.dumps(result["resonance_reasons"]),
                      resonance_seconds=result["resonance_seconds"])
+    if scattering_tiles.wanted(spec):
+        dims.update(scattering_tiles.part_dims(spec))
+        attrs.update(scattering_tiles.part_attrs(result))
     if spec.get("lines"):
         from ..cube.lines import LINE_DIMS
         from ..sweep.line_tiles import LINE_VARS, solve_line_tile

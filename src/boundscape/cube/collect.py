@@ -29,6 +29,8 @@ from .parameters import add_family_parameters
 from .physical import add_physical_coordinates, add_trade_variables
 from .resonances import RESONANCE_VARS, add_resonances
 from .resonances import placeholders as resonance_placeholders
+from .scattering import add_scattering
+from .scattering import fill_names as scattering_names
 
 __all__ = ["collect"]
 
@@ -71,8 +73,8 @@ def _fill_levels(plan, tile_paths, names=LEVEL_VARS, layout=None):
                 arrays = read_part_variables(path, names)
                 s0, s1 = tile.strength_slice
                 index = list(tile.screening_length_index)
-                for name in names:
-                    nc.variables[name][s0:s1, index, :, :] = arrays[name]
+                for name in names:  # (strength, λ, l) and (strength, λ, l, n_r or energy)
+                    nc.variables[name][s0:s1, index] = arrays[name]
                 if plan.lines:
                     fill_lines(nc, plan, tile, path)
         finally:
@@ -207,7 +209,10 @@ def collect(config: dict, tile_paths, critical_paths, output, summary=None) -> s
     ds = add_physical_coordinates(ds, preset)
     ds = add_trade_variables(ds, preset, plan, criticals)
     ds = add_family_parameters(ds, plan.engine)  # potential: diffuseness, core_strength, ... as scalar coordinates
-    write_cube(ds, output, fill=_fill_levels(plan, tile_paths, LEVEL_VARS + (RESONANCE_VARS if past else ()), layout))
+    if plan.scattering is not None:  # in the units the preset left the cube in (cube/scattering.py)
+        ds = add_scattering(ds, plan, tile_paths, layout)
+    write_cube(ds, output, fill=_fill_levels(plan, tile_paths, LEVEL_VARS + (RESONANCE_VARS if past else ())
+                                             + scattering_names(plan), layout))
     cells = f"{plan.num_cells} cells ({' x '.join(map(str, shape))})"
     if layout.mapped:
         cells += f" from {plan.num_engine_cells} distinct engine cells"

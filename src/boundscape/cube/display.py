@@ -62,6 +62,8 @@ def readable(ds, units: str = "atomic"):
             factor, shown = attrs["length_unit_in_m"] / l_m, l_name
         elif "wavenumber_unit_in_per_m" in attrs:
             factor, shown = attrs["wavenumber_unit_in_per_m"] * l_m, f"1/{l_name}"
+        elif "area_unit_in_m2" in attrs:  # cross sections (cube/scattering.py)
+            factor, shown = attrs["area_unit_in_m2"] / l_m**2, f"{l_name}^2"
         else:
             if attrs.get("units") == "1":
                 attrs.pop("units")

@@ -13,6 +13,7 @@ from .line_maps import line_shift_map
 from .line_survival import line_survival_chart
 from .loss_table import write_critical_csv
 from .resonance_fan import resonance_fan
+from .scattering import inverse_length_figure, phase_shift_figure
 from .style import RC, save
 from .threshold_map import threshold_map
 
@@ -37,6 +38,10 @@ def render_all(ds, outdir):
             for m, label in enumerate(ds["line_label"].values):
                 written += save(line_shift_map(ds, m, preset)[0], outdir / f"line_shift_{label}")
             written += save(line_survival_chart(ds, preset)[0], outdir / "line_survival")
+        if "inverse_scattering_length" in ds:  # scattering: true (plots/scattering.py)
+            written += save(inverse_length_figure(ds, preset)[0], outdir / "inverse_scattering_length")
+        if "phase_shift" in ds:
+            written += save(phase_shift_figure(ds, preset)[0], outdir / "phase_shifts")
     write_critical_csv(ds, outdir / "critical_screening_lengths.csv", preset)
     tables = [outdir / "critical_screening_lengths.csv"]
     if "critical_coupling" in ds:

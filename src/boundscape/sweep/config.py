@@ -22,6 +22,7 @@ from ..errors import InputError
 from ..physics.presets import PRESETS, from_config, is_condition_sweep
 from .limits import check_limits
 from .lines import check_lines
+from .scattering_config import check_scattering
 
 __all__ = ["SCHEMA_PATH", "load_config", "load_yaml", "read_config_files", "config_file_error", "schema_error", "validate_config",
            "config_text", "axis_values", "DEFAULT_CELLS_PER_TILE", "GRID_AXES"]
@@ -105,6 +106,8 @@ def validate_config(config: dict) -> dict:
         _check_strength_axis(grid, preset)
     if config["resonances"]:
         _check_resonances(family, own)
+    if config.get("scattering", False) is not False:
+        check_scattering(config["scattering"], family, own, int(axis_values(grid["l"], "l").max()))
     pot["mass"] = _sweep_mass(pot.get("mass"), config.get("preset") or {}, preset)
     axes = [name for name in GRID_AXES if name in grid]
     for name in axes:

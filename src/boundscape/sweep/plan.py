@@ -26,6 +26,7 @@ from ..version import VERSION
 from .config import axis_values, validate_config
 from .limits import check_limits, max_tiles
 from .lines import label_of, line_pairs
+from .scattering_tiles import scattering_spec
 
 __all__ = ["Plan", "Tile", "plan", "tile_layout", "distinct_lengths", "TILE_FILE", "CRITICAL_FILE", "SAME_LENGTH"]
 
@@ -76,6 +77,7 @@ class Plan:
     conditions: ConditionGrid | None = None
     length_index: np.ndarray | None = None
     critical_strengths: bool = False  # also the critical strength at each screening length (block 0)
+    scattering: dict | None = None  # {"energies": [...]} (engine units; [] for true), or None: off
 
     @property
     def num_cells(self) -> int:
@@ -111,6 +113,8 @@ class Plan:
                 "screening_length_index": list(tile.screening_length_index)}
         if self.lines:
             spec["lines"] = list(self.lines)
+        if self.scattering is not None:
+            spec["scattering"] = self.scattering
         return spec
 
     def tile_paths(self, results) -> list[str]:
@@ -126,6 +130,7 @@ class Plan:
         # Critical lengths do not depend on the λ grid; only its ends decide the flags in collect.
         spec.pop("screening_length"), spec.pop("screening_length_index")
         spec.pop("lines", None)
+        spec.pop("scattering", None)
         if self.critical_strengths and block.index == 0:  # the critical strength at every length, once
             spec["critical_strength_at"] = self.screening_length.tolist()
         return spec
@@ -222,7 +227,8 @@ def plan(config: dict) -> Plan:
     return Plan(config["sweep"], engine, strength, screening_length, l_values, n_r_max,
                 tuple(tiles), critical_blocks, tuple(label_of(p) for p in line_pairs(config.get("lines"))),
                 conditions, length_index,
-                preset.critical_strengths_wanted and bool(np.isfinite(screening_length).all()))
+                preset.critical_strengths_wanted and bool(np.isfinite(screening_length).all()),
+                scattering_spec(config.get("scattering", False), preset, float(pot["mass"])))
 
 
 # Screening lengths closer than this (relative) are one engine cell: on log grids λ ∝ √(T/n)

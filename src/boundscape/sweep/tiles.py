@@ -15,7 +15,7 @@ import numpy as np
 from .. import engine
 from ..engine import INPUT_REJECTED, NOT_CONVERGED
 from ..errors import ConvergenceError, InputError
-from . import resonance_tiles
+from . import resonance_tiles, scattering_tiles
 
 __all__ = ["CRITICAL_FLAGS", "UNKNOWN_COUNT", "solve_tile", "solve_criticals"]
 
@@ -47,7 +47,8 @@ def solve_tile(spec: dict) -> dict:
     dict
         Arrays ``energy``, ``energy_error``, ``mean_radius`` (strength, screening_length, l, n_r),
         ``num_bound`` and ``status`` (strength, screening_length, l), ``reasons`` (list of
-        ``(i, j, k, text)`` for flagged cells, tile-local indices) and ``engine_seconds``.
+        ``(i, j, k, text)`` for flagged cells, tile-local indices) and ``engine_seconds``; with
+        ``scattering`` in the spec also :func:`.scattering_tiles.empty_arrays`' arrays, filled.
     """
     strengths, lams, ls = spec["strength"], spec["screening_length"], spec["l"]
     n_r_max = int(spec["n_r_max"])
@@ -61,6 +62,9 @@ def solve_tile(spec: dict) -> dict:
     past = resonance_tiles.wanted(spec)  # also the states past threshold (resonance_tiles)
     if past:
         out.update(resonance_tiles.empty_arrays(cell_shape, n_r_max))
+    scatter = scattering_tiles.wanted(spec)  # also a_l, 1/a_l, r_e (and δ_l, σ_l): scattering_tiles
+    if scatter:
+        out.update(scattering_tiles.empty_arrays(cell_shape, spec))
     for i, strength in enumerate(strengths):
         for j, lam in enumerate(lams):
             start = time.perf_counter()
@@ -84,6 +88,8 @@ def solve_tile(spec: dict) -> dict:
                 _store_levels(out, (i, j, k), res, n_r_max, reasons)
                 if past:
                     resonance_tiles.solve_cell(out, (i, j, k), pot, int(l), int(res.num_bound), n_r_max)
+                if scatter:
+                    scattering_tiles.solve_cell(out, (i, j, k), pot, int(l), int(res.num_bound), spec)
             engine_seconds += time.perf_counter() - start
     out["reasons"] = reasons
     out["engine_seconds"] = engine_seconds
