@@ -2,6 +2,7 @@
 
     python benchmarks/bench_sweep.py [--cores 2] [--config config/sweeps/large.yaml] [--warm] [--no-plain]
     python benchmarks/bench_sweep.py --dedupe [--cores 2] [--config config/sweeps/conditions.yaml]
+    python benchmarks/bench_sweep.py --populations [--cores 2] [--config config/config.yaml]
 
 Runs, in one process and one after the other:
 
@@ -23,6 +24,11 @@ the same size.  Both use ``boundscape.sweep.solve_tile`` in ``--cores`` worker p
 kernels loaded before the clock starts); the energies of the two are compared cell by cell.  It
 also prints how many distinct lengths the same grid has under finite-temperature screening, and
 how long planning it takes.
+
+``--populations`` runs the workflow (the cube only) on one sweep (default: the demo,
+``config/config.yaml``) without and with ``populations: true``, side by side: first once without
+to fill the kernel cache, then without and with, each from scratch with that warm cache; printed:
+the wall times, the engine time summed over the jobs, and the ratio with/without.
 """
 
 from __future__ import annotations
@@ -167,6 +173,27 @@ def run_dedupe(config_path, cores):
           f"{time.perf_counter() - start:.2f} s")
 
 
+def run_populations(config_path, cores):
+    """The same sweep without and with populations: the cost of the complete level sets."""
+    import yaml
+
+    config = sweep.load_config(config_path)
+    with tempfile.TemporaryDirectory(prefix="bench_populations_") as tmp:
+        tmp = Path(tmp)
+        cache = tmp / "numba_cache"
+        runs = {}
+        for name, on in (("warm-up", False), ("without populations", False), ("with populations", True)):
+            path = tmp / f"{name.replace(' ', '_')}.yaml"
+            path.write_text(yaml.safe_dump({**config, "populations": on}, sort_keys=False))
+            runs[name] = run_workflow(path, cores, tmp / name.replace(" ", "_"), cache)
+            res = runs[name]
+            print(f"{name}: wall {res['wall_s']:.1f} s for {res['cells']} cells, {res['jobs']} jobs, engine "
+                  f"{res['engine_s']:.1f} s summed, cube {res['cube_mb']:.1f} MB", flush=True)
+    without, with_ = runs["without populations"], runs["with populations"]
+    print(f"populations cost: {with_['wall_s'] / without['wall_s']:.2f}x the wall time "
+          f"({with_['engine_s'] / without['engine_s']:.2f}x the engine time) of the same sweep without them")
+
+
 def main():
     parser = argparse.ArgumentParser(description=__doc__.splitlines()[0])
     parser.add_argument("--cores", type=int, default=2)
@@ -176,7 +203,15 @@ def main():
     parser.add_argument("--dedupe", action="store_true",
                         help="a sweep over conditions with and without solving each distinct engine cell once "
                              "(default config: config/sweeps/conditions.yaml)")
+    parser.add_argument("--populations", action="store_true",
+                        help="the same sweep without and with populations: true (default config: the demo, "
+                             "config/config.yaml)")
     args = parser.parse_args()
+    if args.populations:
+        config = args.config if args.config != parser.get_default("config") else str(REPO / "config" / "config.yaml")
+        run_populations(Path(config).resolve(), args.cores)
+        print(f"(load average at the end: {os.getloadavg()[0]:.2f})")
+        return
     if args.dedupe:
         config = args.config if args.config != parser.get_default("config") else \
             str(REPO / "config" / "sweeps" / "conditions.yaml")

@@ -62,7 +62,7 @@ def test_units_are_scaled_udunits_from_scipy_constants(small_cube):
         assert ds.mean_radius.attrs["units"] == f"{BOHR!r} m"
         assert ds.screening_length.attrs["units"] == f"{BOHR!r} m"
         assert ds.critical_screening_length.attrs["units"] == f"{BOHR!r} m"
-        assert ds.energy.attrs["hartree_in_eV"] == physical_constants["Hartree energy in eV"][0]
+        assert ds.energy.attrs["energy_unit_in_eV"] == physical_constants["Hartree energy in eV"][0]
 
 
 def test_round_trip_keeps_values_dims_and_dtypes(small_cube):

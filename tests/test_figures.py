@@ -157,20 +157,25 @@ def test_critical_table_equals_the_cube(yukawa_cube, tmp_path):
     plasma = Plasma(temperature_eV=10.0, screening="debye")
     plots.write_critical_csv(ds, tmp_path / "critical.csv", plasma)
     with open(tmp_path / "critical.csv") as f:
-        rows = list(csv.DictReader(f))
+        rows = list(csv.DictReader(line for line in f if not line.startswith("#")))
     assert len(rows) == ds["critical_screening_length"].size
     assert "critical_screening_length_bohr" not in rows[0] and "screening_validity" in rows[0]
     meanings = ds["loss_electron_density_validity"].attrs["flag_meanings"].split()
     for row in rows:
         where = {"strength": float(row["nuclear_charge"]), "l": int(row["l"]), "n_r": int(row["n_r"])}
         stored = float(ds["critical_screening_length"].sel(where))
-        # Derived columns carry 13 significant digits.
-        assert float(row["critical_screening_length_nm"]) == pytest.approx(stored * BOHR * 1e9, rel=1e-12)
-        assert len(row["critical_screening_length_nm"].replace("-", "").replace(".", "").split("e")[0].strip("0")) <= 13
+        # λ_c carries the digits its error estimate reaches (plus one): rounding moves it by less
+        # than the error, and one digit fewer would move it by more than a tenth of it.
+        error_nm = float(ds["critical_screening_length_error"].sel(where)) * BOHR * 1e9
+        assert float(row["critical_screening_length_error_nm"]) == pytest.approx(error_nm, rel=0.06)
+        shown = float(row["critical_screening_length_nm"])
+        assert abs(shown - stored * BOHR * 1e9) <= error_nm
+        digits = len(row["critical_screening_length_nm"].replace("-", "").replace(".", "").split("e")[0].lstrip("0"))
+        assert 3 <= digits <= 17 and 10 ** -(digits - 1) * shown <= 10 * error_nm + 1e-300
         assert int(row["n"]) == int(row["n_r"]) + int(row["l"]) + 1
         # The loss density gives back λ_c through the NRL-checked Debye length, and carries its flag.
         lam = plasma.debye_length(float(row["loss_electron_density_cm-3"]) * 1e6, 10.0)
-        assert lam == pytest.approx(stored * BOHR, rel=1e-12)
+        assert abs(lam - stored * BOHR) <= 3 * error_nm * 1e-9
         assert row["screening_validity"] == meanings[int(ds["loss_electron_density_validity"].sel(where))]
 
 
@@ -185,7 +190,7 @@ def test_never_bound_states_are_kept_out_of_the_curves(never_binding_cube, tmp_p
     assert data["curves"] == {}
     written = plots.render_all(ds, tmp_path / "figures")
     with open(tmp_path / "figures" / "critical_screening_lengths.csv") as f:
-        rows = list(csv.DictReader(f))
+        rows = list(csv.DictReader(line for line in f if not line.startswith("#")))
     assert {row["flag"] for row in rows if row["l"] == "1"} == {"never_bound"}
     assert all(row["critical_screening_length_bohr"] == "inf" for row in rows if row["l"] == "1")
     assert all(path.stat().st_size > 0 for path in written)
@@ -254,9 +259,14 @@ def test_workflow_renders_figures_and_builds_the_report(tmp_path):
     assert run.returncode == 0, run.stderr[-2000:]
     assert "Could not detect mimetype" not in run.stdout + run.stderr
     html = (out / "report.html").read_text()
-    for text in ("Threshold maps", "Level fans", "Physical conditions", "threshold_map_l0.png", "run_summary.txt",
-                 "sweep_config.yaml", "the exact number of bound states of this l"):
-        assert text in html
+    # categories in a reader's order, readable labels, the run's pages inline (HTML), the first
+    # page composed from the cube (issue 21)
+    for text in ("1. Maps", "2. Fans", "3. Conditions", "4. Tables", "5. Run", "Threshold map, l = 0",
+                 "threshold_map_l0.png", "run_summary.html", "configuration.html", "critical_screening_lengths.html",
+                 "sweep_config.yaml", "the exact number of bound states of this l", "Reduced mass", "Scope",
+                 "Accuracy"):
+        assert text in html, text
+    assert "Thomas–Fermi on a non-degenerate gas" not in html  # no semiconductor paragraph in a plasma run
 
 
 @pytest.mark.parametrize("preset", [Plasma(temperature_eV=10.0),

@@ -252,7 +252,7 @@ def test_metadata_describes_the_units_stored(preset):
 def test_plasma_strength_is_the_nuclear_charge_and_institution_comes_from_config():
     ds = _cube_with(Plasma())
     assert ds.strength.attrs["long_name"] == "nuclear charge Z of the hydrogen-like ion"
-    assert ds.energy.attrs["hartree_in_eV"] == pc["Hartree energy in eV"][0]  # atomic units: still true
+    assert ds.energy.attrs["energy_unit_in_eV"] == pc["Hartree energy in eV"][0]  # atomic units: still true
     assert "institution" not in ds.attrs
     named = _cube_with(NO_PRESET, config_yaml="sweep: unit\ninstitution: Example Plasma Laboratory\n")
     assert named.attrs["institution"] == "Example Plasma Laboratory"
@@ -324,7 +324,7 @@ def test_no_preset_is_atomic_units_and_leaves_a_cube_alone():
     ds = _cube_with(NO_PRESET)
     assert NO_PRESET.unit_system(1.0) is ATOMIC and NO_PRESET.condition_axes is None
     xr.testing.assert_identical(add_physical_coordinates(ds, NO_PRESET), ds)
-    assert "preset" not in ds.attrs and ds.energy.attrs["hartree_in_eV"] == pc["Hartree energy in eV"][0]
+    assert "preset" not in ds.attrs and ds.energy.attrs["energy_unit_in_eV"] == pc["Hartree energy in eV"][0]
 
 
 def test_debye_number_matches_nrl_formulary():

@@ -104,7 +104,7 @@ def test_bad_config_stops_before_any_job(tmp_path):
 def test_summary_is_printed_at_the_end(tiny_run):
     _, run, _ = tiny_run
     out = run.stdout + run.stderr
-    assert "sweep tiny: 20 cells (2 x 5 x 2), 0 flagged" in out
+    assert "sweep tiny: 20 cells (2 x 5 x 2)" in out and "not converged, rejected or not solved: 0" in out
     assert "cube: results/tiny/levels.nc" in out
 
 
@@ -240,7 +240,7 @@ def test_failed_cell_is_isolated_and_reported(tmp_path, monkeypatch, capsys):
     for block, path in zip(plan.critical_blocks, critical_paths):
         assert steps.main(["criticals", "--spec", json.dumps(plan.critical_spec(block)), "--output", str(path)]) == 0
     report = collect(sweep.validate_config(TINY), tile_paths, critical_paths, tmp_path / "levels.nc")
-    assert "1 flagged" in report and "flagged_cells" in report
+    assert "not converged, rejected or not solved: 1 (status 1)" in report and "flagged_cells" in report
     lam = float(plan.screening_length[2])  # 5 bohr up to rounding in the log spacing
     cell = f"strength=2.0 screening_length={lam!r} l=1: ConvergenceError"
     assert f"flagged {cell}" in capsys.readouterr().out

@@ -9,6 +9,7 @@ from snakemake.exceptions import WorkflowError
 from snakemake.utils import validate
 
 from boundscape.physics import presets as _presets
+from boundscape.report_layout import arrange, figure_label
 from boundscape.cube.netcdf import unwritable
 from boundscape.errors import InputError
 from boundscape.sweep import SCHEMA_PATH, plan, schema_error
@@ -68,6 +69,12 @@ if PLAN.scattering is not None:  # scattering: true, or {energies: [...]} (plots
     FIGURE_LIST.append(("inverse_scattering_length", "inverse_scattering_length.rst", "Scattering", "1/a"))
     if PLAN.scattering["energies"]:
         FIGURE_LIST.append(("phase_shifts", "phase_shifts.rst", "Scattering", "phase shifts"))
+if PLAN.engine.get("populations"):  # ionization maps, U and the continuum lowering (plots/populations.py)
+    from boundscape.plots.populations import figure_list as _population_figures
+
+    FIGURE_LIST += _population_figures(PLAN)
+# the report's categories in a reader's order, readable names, the l = 0 map's own caption
+FIGURE_LIST, CATEGORIES = arrange(FIGURE_LIST)
 TABLES = ("critical_screening_lengths.csv", "sweep_config.yaml")
 CRITICAL_COUPLINGS = PLAN.critical_strengths  # the nuclear critical coupling at each range, a table of its own
 

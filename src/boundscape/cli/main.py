@@ -17,7 +17,7 @@ import math
 import os
 import sys
 
-from . import convert, fit, lines, resonances, scattering
+from . import convert, fit, lines, populations, resonances, scattering
 from .options import make_potential, parse_l_values, potential_args
 from .progress import Progress
 from .readings import describe, engine_length, engine_strength, reading_of, significant, strength_reading, title
@@ -69,6 +69,7 @@ def build_parser() -> argparse.ArgumentParser:
     lines.register(sub)
     scattering.register(sub)
     fit.register(sub)
+    populations.register(sub)
     return parser
 
 

@@ -11,6 +11,8 @@ The Snakemake rules call these and contain no physics themselves:
 * ``collect --config-json JSON --results DIR --output FILE --summary FILE``: merge into the cube
   and print how many cells were flagged;
 * ``figures CUBE OUTDIR``: render every figure and table of a cube;
+* ``report-pages --cube --summary --table --config --outdir``: the report's landing text and
+  the pages it shows inline (run summary, configuration, critical-length table);
 * ``trajectories --spec JSON --output FILE``: the poles' trajectories past threshold, computed
   once for every tile (``resonances: true``); ``solve-tile`` and ``criticals`` take them with
   ``--trajectories FILE``.
@@ -26,7 +28,7 @@ from pathlib import Path
 import numpy as np
 
 from ..errors import InputError
-from ..sweep import load_config, plan, resonance_tiles, scattering_tiles, solve_criticals, solve_tile
+from ..sweep import load_config, plan, population_tiles, resonance_tiles, scattering_tiles, solve_criticals, solve_tile
 
 
 def write_tile(spec: dict, output) -> None:
@@ -45,6 +47,10 @@ def write_tile(spec: dict, output) -> None:
     if scattering_tiles.wanted(spec):
         dims.update(scattering_tiles.part_dims(spec))
         attrs.update(scattering_tiles.part_attrs(result))
+    if population_tiles.wanted(spec):  # each engine cell's complete level set
+        dims.update(population_tiles.tile_dims(spec))
+        attrs.update(population_reasons_json=json.dumps(result["population_reasons"]),
+                     population_seconds=result["population_seconds"])
     if spec.get("lines"):
         from ..cube.lines import LINE_DIMS
         from ..sweep.line_tiles import LINE_VARS, solve_line_tile
@@ -69,7 +75,7 @@ def write_criticals(spec: dict, output) -> None:
     from ..cube import CRITICAL_DIMS, write_part
 
     result = solve_criticals(spec)
-    names = ("critical_screening_length", "critical_flag")
+    names = ("critical_screening_length", "critical_screening_length_error", "critical_flag")
     attrs = {"spec_json": json.dumps(spec), "engine_seconds": result["engine_seconds"],
              "reasons_json": json.dumps(result["reasons"])}
     dims = dict.fromkeys(names, CRITICAL_DIMS)
@@ -162,6 +168,13 @@ def _figures(args):
             print(path)
 
 
+def _report_pages(args):
+    from .report_pages import write_report_pages
+
+    for path in write_report_pages(args.cube, args.summary, args.table, args.config, args.outdir):
+        print(path)
+
+
 def main(argv=None):
     parser = argparse.ArgumentParser(prog="python -m boundscape.cli.steps", description=__doc__.splitlines()[0])
     sub = parser.add_subparsers(dest="step", required=True)
@@ -196,6 +209,12 @@ def main(argv=None):
     p.add_argument("cube")
     p.add_argument("outdir")
     p.set_defaults(run=_figures)
+    p = sub.add_parser("report-pages", help="the report's landing text and inline pages (cli/report_pages.py)")
+    for name, what in (("cube", "the cube, levels.nc"), ("summary", "the run summary, summary.txt"),
+                       ("table", "critical_screening_lengths.csv"), ("config", "sweep_config.yaml"),
+                       ("outdir", "where the pages go, results/<sweep>/report")):
+        p.add_argument(f"--{name}", required=True, help=what)
+    p.set_defaults(run=_report_pages)
     args = parser.parse_args(argv)
     try:
         args.run(args)

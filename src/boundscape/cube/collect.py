@@ -18,6 +18,7 @@ from ..errors import InputError
 from ..physics.presets import from_config
 from ..sweep.config import config_text
 from ..sweep.plan import plan as make_plan
+from ..sweep.stored import stored_config
 from ..sweep.tiles import CRITICAL_FLAGS, UNKNOWN_COUNT
 from ..version import VERSION
 from .lines import add_lines, fill_lines
@@ -27,10 +28,12 @@ from .model import LEVEL_VARS, NUM_BOUND_UNKNOWN, build_cube, strength_attribute
 from .netcdf import open_for_filling, read_part, read_part_variables, write_cube
 from .parameters import add_family_parameters
 from .physical import add_physical_coordinates, add_trade_variables
+from .populations import add_populations
 from .resonances import RESONANCE_VARS, add_resonances
 from .resonances import placeholders as resonance_placeholders
 from .scattering import add_scattering
 from .scattering import fill_names as scattering_names
+from .summary import run_summary
 
 __all__ = ["collect"]
 
@@ -160,16 +163,17 @@ def collect(config: dict, tile_paths, critical_paths, output, summary=None) -> s
     # A flagged cell keeps its count when the count was found (some level short of tolerance);
     # where the solve failed or the input was rejected the tile says the count is unknown.
     levels["num_bound"][levels["num_bound"] == UNKNOWN_COUNT] = NUM_BOUND_UNKNOWN
-    flagged = int(np.count_nonzero(levels["status"]))  # engine cells
     levels["num_bound"], levels["status"] = layout.cells(levels["num_bound"]), layout.cells(levels["status"])
 
     crit_shape = (plan.strength.size, plan.l.size, plan.n_r_max)
     criticals = {"critical_screening_length": np.full(crit_shape, np.nan),
+                 "critical_screening_length_error": np.full(crit_shape, np.nan),
                  "critical_flag": np.zeros(crit_shape, np.int8), "reasons": []}
     for block, path in zip(plan.critical_blocks, critical_paths):
         arrays, attrs = _read_checked(path, plan.critical_spec(block))
-        for name in ("critical_screening_length", "critical_flag"):
-            criticals[name][slice(*block.strength_slice)] = arrays[name]
+        for name in ("critical_screening_length", "critical_screening_length_error", "critical_flag"):
+            if name in arrays:  # (a part written before the error estimate keeps NaN there)
+                criticals[name][slice(*block.strength_slice)] = arrays[name]
         if past:
             for name in ("dissolution_screening_length", "dissolution_flag"):
                 past_dissolution[name][slice(*block.strength_slice)] = arrays[name]
@@ -190,7 +194,7 @@ def collect(config: dict, tile_paths, critical_paths, output, summary=None) -> s
     flag[finite & (lam_c < plan.screening_length[0])] = CRITICAL_FLAGS.index("below_grid")
     flag[finite & (lam_c > plan.screening_length[-1])] = CRITICAL_FLAGS.index("above_grid")
 
-    text, sha = config_text(config)
+    text, sha = config_text(stored_config(config, plan.engine["mass"]))  # what was written + defaults that matter
     provenance = {"sweep": plan.sweep, "family": plan.engine["family"], "mass": plan.engine["mass"],
                   "config_yaml": text, "config_sha256": sha, "version": VERSION,
                   "git_commit": _git_commit(),
@@ -211,18 +215,15 @@ def collect(config: dict, tile_paths, critical_paths, output, summary=None) -> s
     ds = add_family_parameters(ds, plan.engine)  # potential: diffuseness, core_strength, ... as scalar coordinates
     if plan.scattering is not None:  # in the units the preset left the cube in (cube/scattering.py)
         ds = add_scattering(ds, plan, tile_paths, layout)
+    if plan.engine.get("populations"):  # partition functions, lowering, Saha (cube/populations.py)
+        ds = add_populations(ds, plan, tile_paths, layout, preset)
     write_cube(ds, output, fill=_fill_levels(plan, tile_paths, LEVEL_VARS + (RESONANCE_VARS if past else ())
                                              + scattering_names(plan), layout))
     cells = f"{plan.num_cells} cells ({' x '.join(map(str, shape))})"
     if layout.mapped:
         cells += f" from {plan.num_engine_cells} distinct engine cells"
-    lines = [f"sweep {plan.sweep}: {cells}, {flagged} flagged{' (engine cells)' * layout.mapped}, "
-             f"{len(criticals['reasons'])} critical lengths not converged; engine time {engine_seconds:.2f} s",
-             f"cube: {output}"]
-    if flagged or criticals["reasons"]:
-        lines.append(f"flagged cells: variable status (attribute flagged_cells) in {output}, "
-                     f"and the tile logs beside it")
-    report = "\n".join(lines)
+    # every flag of every variable, counted from the written cube (cube/summary.py)
+    report = run_summary(output, f"sweep {plan.sweep}: {cells}; engine time {engine_seconds:.2f} s")
     if summary:
         Path(summary).write_text(report + "\n")
     return report

@@ -23,8 +23,7 @@ LINE_DIMS = ("strength", "screening_length", "line")
 
 
 def _attributes():
-    energy = {"units": HARTREE_UDUNITS, "energy_unit_in_J": HARTREE_J, "energy_unit_in_eV": HARTREE_EV,
-              "hartree_in_eV": HARTREE_EV, "hartree_in_J": HARTREE_J}
+    energy = {"units": HARTREE_UDUNITS, "energy_unit_in_J": HARTREE_J, "energy_unit_in_eV": HARTREE_EV}
     gone = "NaN where the lower or upper level is not bound (line_status absent) or the line did not converge"
     return {
         "line_energy": {"long_name": "line energy (upper minus lower level)", **energy,

@@ -96,7 +96,8 @@ def build_cube(axes, levels, criticals, *, provenance, layout=None):
         (strength, screening_length, l); ``reasons``, a list of one-line texts naming each
         flagged cell.  With a ``layout`` the arrays run over its dimensions instead.
     criticals : dict
-        ``critical_screening_length`` and ``critical_flag`` (strength, l, n_r), ``reasons``.
+        ``critical_screening_length`` and ``critical_flag`` (strength, l, n_r), ``reasons``;
+        ``critical_screening_length_error`` (its error estimate; NaN if absent).
     provenance : dict
         ``sweep``, ``family``, ``mass``, ``config_yaml``, ``config_sha256``, ``version``,
         ``git_commit`` (or None), ``history`` (one line).
@@ -128,8 +129,8 @@ def build_cube(axes, levels, criticals, *, provenance, layout=None):
     }
     # The unit each number is in, as plain factors: a script converts with these, whatever the
     # preset (a preset that reads the cube in other units rewrites them, see physical.py).
-    energy_attrs = {"units": HARTREE_UDUNITS, "energy_unit_in_J": HARTREE_J, "energy_unit_in_eV": HARTREE_EV,
-                    "hartree_in_eV": HARTREE_EV, "hartree_in_J": HARTREE_J}
+    # One name per unit value (issue 21): energy_unit_in_J/eV and length_unit_in_m, nothing else.
+    energy_attrs = {"units": HARTREE_UDUNITS, "energy_unit_in_J": HARTREE_J, "energy_unit_in_eV": HARTREE_EV}
     length_attrs = {"units": BOHR_UDUNITS, "length_unit_in_m": BOHR_M}
     coords["screening_length"][2].update(length_attrs)
     status = levels["status"].astype(np.int8)
@@ -142,7 +143,7 @@ def build_cube(axes, levels, criticals, *, provenance, layout=None):
             "long_name": "energy error estimate", **energy_attrs,
             "comment": "absolute error estimate of the energy"}),
         "mean_radius": (level_dims, levels["mean_radius"], {
-            "long_name": "mean radius <r>", **length_attrs, "bohr_in_m": BOHR_M}),
+            "long_name": "mean radius <r>", **length_attrs}),
         "num_bound": (cell_dims, levels["num_bound"].astype(np.int32), {
             "long_name": "number of bound states of this l", "units": "1", "ancillary_variables": "status",
             "comment": "exact count from the nodes of the zero-energy solution, also where some level of the "
@@ -157,10 +158,16 @@ def build_cube(axes, levels, criticals, *, provenance, layout=None):
             "flagged_cells": listing(levels["reasons"])}),
         "critical_screening_length": (critical_dims, criticals["critical_screening_length"], {
             "long_name": "critical screening length",
-            **length_attrs, "ancillary_variables": "critical_screening_length_flag",
+            **length_attrs, "ancillary_variables": "critical_screening_length_flag critical_screening_length_error",
             "comment": "the screening length below which the state (n_r, l) is not bound; from the zero-energy "
                        "solution by root finding; +inf where never bound; stored for every state, also outside "
                        "the grid's screening_length range"}),
+        "critical_screening_length_error": (critical_dims, criticals.get(
+            "critical_screening_length_error", np.full(np.shape(criticals["critical_screening_length"]), np.nan)), {
+            "long_name": "critical screening length error estimate", **length_attrs,
+            "comment": "absolute error estimate of critical_screening_length: the Richardson change of the "
+                       "zero-energy eigenvalue at the root over its slope in the screening length; NaN where "
+                       "the state is never bound or not converged"}),
         "critical_screening_length_flag": (critical_dims, criticals["critical_flag"].astype(np.int8), {
             "long_name": "position of the critical screening length against the grid",
             **flag_attrs(CRITICAL_FLAGS),
@@ -190,9 +197,6 @@ def build_cube(axes, levels, criticals, *, provenance, layout=None):
         "energy_unit_in_J": HARTREE_J,
         "energy_unit_in_eV": HARTREE_EV,
         "length_unit_in_m": BOHR_M,
-        "hartree_energy_in_J": HARTREE_J,
-        "hartree_energy_in_eV": HARTREE_EV,
-        "bohr_radius_in_m": BOHR_M,
         "config_yaml": provenance["config_yaml"],
         "config_sha256": provenance["config_sha256"],
         "git_commit": provenance.get("git_commit") or "unknown",

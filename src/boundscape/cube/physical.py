@@ -8,7 +8,6 @@ from __future__ import annotations
 
 import numpy as np
 import yaml
-from scipy import constants as sc
 
 from ..physics.presets import NO_PRESET, from_config
 from ..physics.units import ATOMIC, convert
@@ -59,7 +58,7 @@ def _describe_units(out, preset, units, mass):
         out["strength"].attrs["long_name"] = strength_name
     if units is ATOMIC:
         return
-    energy_eV = units.energy_J / sc.electron_volt
+    energy_eV = units.energy_eV
     for name in out.variables:
         attrs = out[name].attrs
         if not {"energy_unit_in_J", "length_unit_in_m", "wavenumber_unit_in_per_m"} & set(attrs):

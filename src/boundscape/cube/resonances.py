@@ -47,15 +47,15 @@ def add_resonances(ds, levels: dict, dissolution: dict):
     dissolution : dict
         ``dissolution_screening_length`` and ``dissolution_flag`` (strength, l, n_r), ``reasons``.
     """
-    energy = {"units": HARTREE_UDUNITS, "energy_unit_in_J": HARTREE_J, "energy_unit_in_eV": HARTREE_EV,
-              "hartree_in_eV": HARTREE_EV, "hartree_in_J": HARTREE_J}
+    energy = {"units": HARTREE_UDUNITS, "energy_unit_in_J": HARTREE_J, "energy_unit_in_eV": HARTREE_EV}
     length = {"units": BOHR_UDUNITS, "length_unit_in_m": BOHR_M}
-    wavenumber = {**inverse_length_attrs(BOHR_M), "bohr_in_m": BOHR_M}
+    wavenumber = inverse_length_attrs(BOHR_M)
     status = levels["resonance_status"]
     level_dims, critical_dims = ds["energy"].dims, ds["critical_screening_length"].dims
     variables = {
         "resonance_energy": (level_dims, levels["resonance_energy"], {
-            "long_name": "energy of the state past its threshold", **energy,
+            "long_name": "energy of the state past its threshold (shape resonance E_r, l >= 1; virtual state on "
+                         "the unphysical sheet, negative, l = 0)", **energy,
             "ancillary_variables": "resonance_status",
             "comment": "l >= 1: E_r of the shape resonance, the S-matrix pole E_r - i Gamma/2 continued from the "
                        "bound state (n_r, l); l = 0: the virtual state's E_v = -kappa_v^2/(2 mu), on the "

@@ -135,13 +135,20 @@ class UnitSystem:
     mass_kg: float
 
     @property
+    def _scale(self) -> float:
+        # ħ²/(m L²) = E_h (m_e/m)(a₀/L)²: scaled from the one CODATA hartree, so that atomic
+        # units give E_h to the last digit (ħ²/(m_e a₀²) computed afresh differs in the 12th)
+        return (ELECTRON_MASS_KG / self.mass_kg) * (BOHR_M / self.length_m) ** 2
+
+    @property
     def energy_J(self) -> float:
-        """Energy unit ħ²/(m L²) in joules."""
-        return sc.hbar ** 2 / (self.mass_kg * self.length_m ** 2)
+        """Energy unit ħ²/(m L²) in joules, as E_h (m_e/m)(a₀/L)²."""
+        return HARTREE_J * self._scale
 
     @property
     def energy_eV(self) -> float:
-        return self.energy_J / sc.electron_volt
+        """Energy unit ħ²/(m L²) in eV, as E_h[eV] (m_e/m)(a₀/L)²."""
+        return HARTREE_EV * self._scale
 
     @property
     def coupling_J_m(self) -> float:

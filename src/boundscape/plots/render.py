@@ -12,6 +12,7 @@ from .level_fan import level_fan
 from .line_maps import line_shift_map
 from .line_survival import line_survival_chart
 from .loss_table import write_critical_csv
+from .populations import population_figures
 from .resonance_fan import resonance_fan
 from .scattering import inverse_length_figure, phase_shift_figure
 from .style import RC, save
@@ -42,6 +43,9 @@ def render_all(ds, outdir):
             written += save(inverse_length_figure(ds, preset)[0], outdir / "inverse_scattering_length")
         if "phase_shift" in ds:
             written += save(phase_shift_figure(ds, preset)[0], outdir / "phase_shifts")
+        if "partition_function" in ds:  # populations: true (plots/populations.py)
+            for stem, fig in population_figures(ds):
+                written += save(fig, outdir / stem)
     write_critical_csv(ds, outdir / "critical_screening_lengths.csv", preset)
     tables = [outdir / "critical_screening_lengths.csv"]
     if "critical_coupling" in ds:

@@ -21,6 +21,7 @@ from ..engine import FAMILIES, ParameterError, potential
 from ..errors import InputError
 from ..physics.presets import PRESETS, from_config, is_condition_sweep
 from .limits import check_limits
+from . import population_tiles
 from .lines import check_lines
 from .scattering_config import check_scattering
 
@@ -126,6 +127,7 @@ def validate_config(config: dict) -> dict:
         if np.unique(values).size != values.size:
             raise InputError(f"config key grid.{name}: repeated values")
     check_lines(config)
+    population_tiles.check_config(config, preset)
     return config
 
 

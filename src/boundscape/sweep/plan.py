@@ -25,6 +25,7 @@ from ..physics.presets import ConditionGrid, from_config, is_condition_sweep
 from ..version import VERSION
 from .config import axis_values, validate_config
 from .limits import check_limits, max_tiles
+from . import population_tiles
 from .lines import label_of, line_pairs
 from .scattering_tiles import scattering_spec
 
@@ -131,6 +132,7 @@ class Plan:
         spec.pop("screening_length"), spec.pop("screening_length_index")
         spec.pop("lines", None)
         spec.pop("scattering", None)
+        spec.pop("populations", None)  # critical lengths do not depend on them: toggling reruns no block
         if self.critical_strengths and block.index == 0:  # the critical strength at every length, once
             spec["critical_strength_at"] = self.screening_length.tolist()
         return spec
@@ -224,6 +226,8 @@ def plan(config: dict) -> Plan:
     engine["engine"] = f"boundscape {VERSION}"
     if config["resonances"]:  # only when on, so that a sweep without them keeps its tiles' params
         engine["resonances"] = True
+    if config.get("populations"):  # the temperatures each complete level set is summed at
+        engine["populations"] = population_tiles.settings(config, conditions, length_index)
     return Plan(config["sweep"], engine, strength, screening_length, l_values, n_r_max,
                 tuple(tiles), critical_blocks, tuple(label_of(p) for p in line_pairs(config.get("lines"))),
                 conditions, length_index,

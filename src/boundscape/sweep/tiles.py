@@ -15,7 +15,7 @@ import numpy as np
 from .. import engine
 from ..engine import INPUT_REJECTED, NOT_CONVERGED
 from ..errors import ConvergenceError, InputError
-from . import resonance_tiles, scattering_tiles
+from . import population_tiles, resonance_tiles, scattering_tiles
 
 __all__ = ["CRITICAL_FLAGS", "UNKNOWN_COUNT", "solve_tile", "solve_criticals"]
 
@@ -65,6 +65,9 @@ def solve_tile(spec: dict) -> dict:
     scatter = scattering_tiles.wanted(spec)  # also a_l, 1/a_l, r_e (and δ_l, σ_l): scattering_tiles
     if scatter:
         out.update(scattering_tiles.empty_arrays(cell_shape, spec))
+    populations = population_tiles.wanted(spec)  # each cell's complete level set (population_tiles)
+    if populations:
+        out.update(population_tiles.empty_arrays(spec, len(strengths), len(lams)))
     for i, strength in enumerate(strengths):
         for j, lam in enumerate(lams):
             start = time.perf_counter()
@@ -90,6 +93,8 @@ def solve_tile(spec: dict) -> dict:
                     resonance_tiles.solve_cell(out, (i, j, k), pot, int(l), int(res.num_bound), n_r_max)
                 if scatter:
                     scattering_tiles.solve_cell(out, (i, j, k), pot, int(l), int(res.num_bound), spec)
+            if populations:
+                population_tiles.solve_cell(out, (i, j), pot, spec)
             engine_seconds += time.perf_counter() - start
     out["reasons"] = reasons
     out["engine_seconds"] = engine_seconds
@@ -143,7 +148,7 @@ def solve_criticals(spec: dict) -> dict:
     -------
     dict
         ``critical_screening_length`` (strength, l, n_r), bohr, +inf where the state is never
-        bound; ``critical_flag`` (same shape, only ``never_bound``, ``not_converged`` and
+        bound, and ``critical_screening_length_error``, its error estimate; ``critical_flag`` (same shape, only ``never_bound``, ``not_converged`` and
         ``not_applicable`` are set here: the grid flags are set in collect, which knows the
         grid); ``reasons`` and ``engine_seconds``; with ``critical_strength_at`` in the spec also
         ``critical_strength`` and its flag over (screening length, l, n_r).
@@ -151,6 +156,7 @@ def solve_criticals(spec: dict) -> dict:
     strengths, ls, n_r_max = spec["strength"], spec["l"], int(spec["n_r_max"])
     shape = (len(strengths), len(ls), n_r_max)
     critical = np.full(shape, np.nan)
+    error = np.full(shape, np.nan)  # the engine's error estimate of each λ_c
     flag = np.zeros(shape, np.int8)
     reasons = []
     start = time.perf_counter()
@@ -164,8 +170,8 @@ def solve_criticals(spec: dict) -> dict:
             for k, l in enumerate(ls):
                 for n_r in range(n_r_max):
                     try:
-                        value = engine.critical_screening_length(
-                            family, strength, int(l), n_r, mass=spec["mass"], **extra)
+                        value, error[i, k, n_r] = engine.critical_screening_length(
+                            family, strength, int(l), n_r, mass=spec["mass"], full_output=True, **extra)
                     except ConvergenceError as exc:
                         flag[i, k, n_r] = CRITICAL_FLAGS.index("not_converged")
                         reasons.append((i, k, n_r, _one_line(exc)))
@@ -173,7 +179,8 @@ def solve_criticals(spec: dict) -> dict:
                     critical[i, k, n_r] = value
                     if math.isinf(value):
                         flag[i, k, n_r] = CRITICAL_FLAGS.index("never_bound")
-    result = {"critical_screening_length": critical, "critical_flag": flag, "reasons": reasons}
+    result = {"critical_screening_length": critical, "critical_screening_length_error": error,
+              "critical_flag": flag, "reasons": reasons}
     if "critical_strength_at" in spec:
         result.update(_critical_strengths(spec, probe))
     if resonance_tiles.wanted(spec):

@@ -23,18 +23,23 @@ from .ion_sphere import IonSpherePlasma  # registers itself as the plasma's read
 from .nuclear import Nuclear
 from .nuclear_depth import NuclearDepth  # registers itself as the nuclear reading of a depth
 from .plasma import Plasma
+from .donors import DonorSemiconductor
 from .semiconductor import Semiconductor
 
-__all__ = ["Preset", "NoPreset", "NO_PRESET", "CarrierScreening", "Plasma", "IonSpherePlasma", "NuclearDepth", "Semiconductor", "Nuclear", "PRESETS",
-           "from_config", "EngineParameters", "Unit", "ConditionAxes", "ConditionGrid", "is_condition_sweep"]
+__all__ = ["Preset", "NoPreset", "NO_PRESET", "CarrierScreening", "Plasma", "IonSpherePlasma", "Semiconductor",
+           "DonorSemiconductor", "Nuclear", "NuclearDepth", "PRESETS", "VARIANTS", "from_config", "EngineParameters",
+           "Unit", "ConditionAxes", "ConditionGrid", "is_condition_sweep"]
 
 # The config's preset.kind (and the command line's --preset) -> its class.
 PRESETS: dict[str, type[Preset]] = {cls.kind: cls for cls in (Plasma, Semiconductor, Nuclear)}
+# A kind swept over other conditions: the class whose first condition key is in the grid.
+VARIANTS: dict[str, tuple[type[Preset], ...]] = {"semiconductor": (DonorSemiconductor,)}
 
 
 def is_condition_sweep(grid: dict | None) -> bool:
     """Whether a config's ``grid`` runs over a trade's conditions rather than ``screening_length``."""
-    keys = {key for cls in PRESETS.values() for key in cls.condition_keys}
+    classes = [*PRESETS.values(), *(cls for variants in VARIANTS.values() for cls in variants)]
+    keys = {key for cls in classes for key in cls.condition_keys}
     return bool(grid) and any(key in keys for key in grid)
 
 
@@ -52,7 +57,7 @@ def from_config(section: dict | None, grid: dict | None = None, family: str | No
     if kind not in PRESETS:
         raise InputError(f"preset.kind must be one of {', '.join(PRESETS)}, got {kind!r}")
     section.pop("map", None)  # plotting ranges, read by the figures
-    cls = PRESETS[kind]
+    cls = next((v for v in VARIANTS.get(kind, ()) if grid and v.condition_keys[0] in grid), PRESETS[kind])
     section = {cls.config_names.get(key, key): value for key, value in section.items()}
     if grid is not None and not is_condition_sweep(grid):
         section = {**cls.legacy_defaults, **section}

@@ -235,9 +235,9 @@ class Preset:
             "long_name": f"screening length in {unit.name} ({self.kind} preset)", "units": unit.name})}
 
     def cube_attributes(self, cube_mass: float = 1.0) -> dict:
-        """Global attributes naming the preset and the units it reads the cube in."""
-        units = self.unit_system(cube_mass)
-        return {"preset": self.kind, "preset_energy_unit_J": units.energy_J, "preset_length_unit_m": units.length_m}
+        """Global attributes naming the preset; the units it reads the cube in are the cube's one
+        ``energy_unit_in_J``/``energy_unit_in_eV``/``length_unit_in_m`` (one name per value)."""
+        return {"preset": self.kind}
 
     def unit_notes(self, units: UnitSystem, cube_mass: float = 1.0) -> dict:
         """Global ``comment`` and ``mass_units`` of a cube read in ``units`` (not atomic units)."""
