@@ -11,6 +11,7 @@ from scipy import constants as sc
 from scipy.constants import physical_constants as pc
 
 import boundscape as bs
+from boundscape.engine import FAMILIES
 from boundscape.cli import convert as convert_command
 from boundscape.errors import InputError
 from boundscape.cube import add_physical_coordinates
@@ -264,7 +265,10 @@ EVERY_PRESET = [Plasma(), Plasma(species="electrons_and_ions", temperature_eV=3.
                 Semiconductor(effective_mass=0.067, permittivity=12.9),
                 Semiconductor(effective_mass=0.2, permittivity=11.7, screening="debye", temperature_K=77.0),
                 Semiconductor(effective_mass=0.067, permittivity=12.9, hole_mass=0.5),
-                Nuclear(reduced_mass_MeV=469.4591), Nuclear(reduced_mass_MeV=938.0, length_fm=2.0), NO_PRESET]
+                Nuclear(reduced_mass_MeV=469.4591), Nuclear(reduced_mass_MeV=938.0, length_fm=2.0), NO_PRESET,
+                # the variants a family's own reading gives (physics/presets/ion_sphere.py, nuclear_depth.py)
+                Plasma(ion_sphere_charge=2.0).for_family(FAMILIES["ion_sphere"]),
+                Nuclear(reduced_mass_MeV=469.4591).for_family(FAMILIES["woods_saxon"])]
 
 
 @pytest.mark.parametrize("preset", EVERY_PRESET, ids=repr)
@@ -312,7 +316,7 @@ def test_every_preset_answers_every_question(preset):
         # The trade's units against the cube's: the factor is the cube unit's size in the trade's unit.
         name, factor = preset.shown_energy_unit()
         assert (name, factor) == (preset.energy_unit.name, units.energy_J / preset.energy_unit.size)
-        assert PRESETS[preset.kind] is type(preset)
+        assert isinstance(preset, PRESETS[preset.kind])  # the kind's class, or a family's variant of it
         assert f"critical_screening_length_{preset.length_unit.name}" in columns
 
 

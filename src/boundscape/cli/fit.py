@@ -20,7 +20,7 @@ from ..engine import OutOfReach, solve_for
 from ..errors import InputError
 from ..labels import orbital_letter
 from .options import describe, make_potential, potential_args, title
-from .readings import engine_length, engine_strength, reading_of, significant
+from .readings import engine_length, engine_strength, reading_of, significant, strength_reading
 
 __all__ = ["register", "run"]
 
@@ -62,7 +62,7 @@ def _strength_key(reading, name):
 
 def _with_error(key):
     # "coupling_MeV_fm" → "coupling_error_MeV_fm", "screening_length_fm" → "screening_length_error_fm"
-    for unit_tail in ("_MeV_fm", "_bohr", "_fm", "_nm", "_a*"):
+    for unit_tail in ("_MeV_fm", "_bohr", "_fm", "_nm", "_a*", "_MeV", "_meV", "_eV"):
         if key.endswith(unit_tail):
             return key[: -len(unit_tail)] + "_error" + unit_tail
     return key + "_error"
@@ -70,7 +70,7 @@ def _with_error(key):
 
 def _label(key):
     # "coupling_MeV_fm" → "coupling (MeV fm)", "screening_length_fm" → "screening length (fm)"
-    for unit_tail in ("_MeV_fm", "_bohr", "_fm", "_nm", "_a*"):
+    for unit_tail in ("_MeV_fm", "_bohr", "_fm", "_nm", "_a*", "_MeV", "_meV", "_eV"):
         if key.endswith(unit_tail):
             return f"{key[: -len(unit_tail)].replace('_', ' ')} ({unit_tail[1:].replace('_', ' ')})"
     return key.replace("_", " ")
@@ -80,21 +80,25 @@ def _start(args, reading):
     """(potential to start from, engine name of the parameter, how to show a value of it: key,
     factor from engine units, text for a header)."""
     trade = reading.trade
-    flag = trade.strength_flag
+    taken = strength_reading(args, reading) if args.vary != "screening-length" else None
+    flag = taken.flag if taken else trade.strength_flag
     lam, _ = engine_length(args, reading)  # --screening-length, or the preset's --range, --density
     if args.vary in ("strength", "coupling", "nuclear-charge"):
         if f"--{args.vary}" != flag:
-            where = f"with --preset {trade.kind}" if trade.kind else "without a preset"
+            where = (f"with --preset {trade.kind}" if trade.kind else "without a preset") + \
+                (f" for family {args.family}" if flag != trade.strength_flag else "")
             raise InputError(f"--vary {args.vary} does not apply {where}: the strength there is {flag} "
-                             f"({trade.strength_meaning}); use --vary {flag[2:]}")
+                             f"({taken.meaning}); use --vary {flag[2:]}")
         if getattr(args, flag[2:].replace("-", "_")) is not None:
             raise InputError(f"{flag} is what --vary {args.vary} solves for: leave it out")
-        per_shown = trade.strength_input(1.0)[0]  # engine strength per shown unit (a linear reading)
+        per_shown = taken.per_shown  # engine strength per shown unit (a linear reading)
         pot = make_potential(args, per_shown, lam)
-        key = _strength_key(reading, args.vary)
+        # a depth or ħω in the trade's energy unit (depth_MeV), else the preset's own key (coupling_MeV_fm)
+        own_key = taken.unit is not None and taken.quantity != "coupling"
+        key = f"{taken.quantity}_{taken.unit.replace(' ', '_')}" if own_key else _strength_key(reading, args.vary)
 
         def text(engine):
-            return trade.strength_input(engine / per_shown)[1]
+            return taken.text(engine / per_shown) if taken.header else trade.strength_input(engine / per_shown)[1]
 
         return pot, "strength", key, 1.0 / per_shown, text
     if lam is not None:

@@ -20,7 +20,7 @@ import sys
 from . import convert, fit, lines, populations, resonances, scattering
 from .options import make_potential, parse_l_values, potential_args
 from .progress import Progress
-from .readings import describe, engine_length, engine_strength, reading_of, significant, title
+from .readings import describe, engine_length, engine_strength, reading_of, significant, strength_reading, title
 from .trade import print_table, trade_columns, trade_notes
 from ..engine import bound_levels, critical_screening_length, critical_strength, family_info
 from ..engine.limits import MAX_CRITICAL_STATES, LimitError
@@ -198,7 +198,7 @@ def _critical_strengths(args, ls, progress) -> int:
     """``critical --vary strength``: the strength below which each state is lost, at a fixed length."""
     reading = reading_of(args)
     preset = reading.trade
-    for flag in {"--strength", preset.strength_flag}:
+    for flag in dict.fromkeys(("--strength", preset.strength_flag)):
         if getattr(args, flag.lstrip("-").replace("-", "_")) is not None:
             raise InputError(f"{flag} does not apply with --vary strength: the strength is what critical finds")
     lam, conditions = engine_length(args, reading)  # --screening-length, or the preset's --range, --density
@@ -209,20 +209,19 @@ def _critical_strengths(args, ls, progress) -> int:
     if not pot.uses_screening_length:
         raise InputError(f"family {args.family!r} has no screening length, so no state is ever lost; "
                          "critical strengths need a screened family")
-    # the strength as the trade gives it (a nuclear g² in MeV fm), else the family's own
-    meaning = pot.info.strength_meaning if preset.strength_flag == "--strength" else preset.strength_meaning
-    # and, where the trade's strength has a unit, under a key that carries it (critical_coupling_MeV_fm)
-    name, attrs = preset.critical_strength_variable()
-    unit_key = f"{name}_{attrs['units'].replace(' ', '_')}" if attrs.get("units", "1") != "1" else None
+    # the strength as the trade reads this family's (a nuclear g² in MeV fm, a depth V0 in MeV), and,
+    # where it has a unit, also under a key that carries it (critical_coupling_MeV_fm, critical_depth_MeV)
+    taken = strength_reading(args, reading)
+    meaning = taken.meaning
     rows = []
     for l in ls:
         for n in range(l + 1, args.n_max + 1):
             z = critical_strength(args.family, lam, l, n - l - 1, pot.mass, **dict(pot.own))
-            shown = z if (math.isinf(z) or preset.strength_flag == "--strength") else float(preset.strength_values(z))
+            shown = z if (math.isinf(z) or taken.per_shown == 1.0) else taken.shown(z)
             rows.append({"n": n, "l": l, "state": state_label(n, l), "n_r": n - l - 1,
-                         "critical_strength": shown if reading.preset is None else significant(shown, 13)})
-            if unit_key:
-                rows[-1][unit_key] = rows[-1]["critical_strength"]
+                         "critical_strength": shown if shown is z and reading.preset is None else significant(shown, 13)})
+            if taken.unit_key:
+                rows[-1][taken.unit_key] = rows[-1]["critical_strength"]
             progress.step(rows[-1]["state"])
     length = f"{lam * reading.length_factor:.10g} {reading.length_unit}"
     if args.format == "json":
@@ -232,7 +231,8 @@ def _critical_strengths(args, ls, progress) -> int:
         return 0
     print(f"# critical strengths ({meaning}) at λ = {length}, "
           f"{title(pot, reading, 'strength varied', with_length=False)}")
-    print(f"{'n':>3} {'l':>2} {'state':>6} {'critical strength':>22}")
+    heading = f"critical {taken.quantity} ({taken.unit})" if taken.unit else "critical strength"
+    print(f"{'n':>3} {'l':>2} {'state':>6} {heading:>22}")
     for row in rows:
         print(f"{row['n']:>3} {row['l']:>2} {row['state']:>6} {row['critical_strength']:>22.13g}")
     if not rows:

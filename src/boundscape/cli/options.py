@@ -9,7 +9,8 @@ import math
 from ..engine import FAMILIES, ParameterError, family_info, potential_from_spec
 from ..engine.limits import check_l
 from ..errors import InputError
-from .readings import add_preset_arguments, engine_strength, reading_of, significant
+from ..physics.presets.strengths import PARAMETER_DIMENSIONS
+from .readings import add_preset_arguments, engine_strength, reading_of, shown_parameters, significant
 
 __all__ = ["parse_l_values", "parse_params", "potential_args", "make_potential", "describe", "title"]
 
@@ -40,8 +41,9 @@ def parse_l_values(text: str) -> list[int]:
 def potential_args(p: argparse.ArgumentParser, *, levels: bool, l_values: bool = True):
     p.add_argument("--family", required=True, help=f"potential family: {', '.join(sorted(FAMILIES))}")
     p.add_argument("--strength", type=float, default=None,
-                   help="required: Z (charge number; for an ion, its nuclear charge); depth in hartree "
-                        "(square_well); ω in hartree/ħ (harmonic); scale factor (tabulated, default 1)")
+                   help="required: Z (charge number; for an ion, its nuclear charge); a depth V0 (square_well, "
+                        "woods_saxon) in hartree, or in the preset's energy unit (eV, meV, MeV); ω in hartree/ħ "
+                        "(harmonic); scale factor (tabulated, default 1)")
     if levels:
         p.add_argument("--screening-length", type=float, default=None,
                        help="λ in --length-unit, bohr by default (the radius for square_well); "
@@ -55,7 +57,8 @@ def potential_args(p: argparse.ArgumentParser, *, levels: bool, l_values: bool =
     p.add_argument("--coulomb-tail", type=float, default=None,
                    help="tabulated family: declare a -Z/r tail beyond the table with this Z")
     p.add_argument("--param", action="append", default=[], metavar="NAME=VALUE",
-                   help="a family's own parameter, repeatable, e.g. --param diffuseness=0.5 (woods_saxon, bohr); "
+                   help="a family's own parameter, repeatable, e.g. --param diffuseness=0.5 (woods_saxon, a length "
+                        "in --length-unit); "
                         "--param core_strength=2 --param core_range=0.5 (two_yukawa)")
     p.add_argument("--format", choices=("table", "json"), default="table", help="output format (default table)")
     add_preset_arguments(p)
@@ -84,15 +87,26 @@ def parse_params(family: str, given: list[str], flagged: dict) -> dict:
     return out
 
 
+def engine_parameters(args, reading, given: dict) -> dict:
+    """The family's own parameters given with ``--param`` in the engine's units: lengths read in
+    ``--length-unit`` (fm under the nuclear preset), dimensionless ones as given."""
+    units = {q.name: q.unit for q in family_info(args.family).parameters}
+    out = {}
+    for name, value in given.items():
+        dimension = PARAMETER_DIMENSIONS.get(units[name])
+        if dimension == "length":
+            out[name] = reading.engine_length(value, args.length_unit)
+        elif dimension == "1":
+            out[name] = value
+        else:  # no family declares one yet: say so rather than guess a unit
+            raise InputError(f"--param {name} is in {units[name]}, which the command line cannot read yet")
+    return out
+
+
 def make_potential(args, strength, screening_length):
     flagged = {"table": args.table, "screened": getattr(args, "screened", False), "coulomb_tail": args.coulomb_tail}
     own = parse_params(args.family, getattr(args, "param", []), {"family", "mass", *flagged})
-    units = {q.name: q.unit for q in family_info(args.family).parameters}
-    dimensioned = [name for name in own if units[name] != "1"]
-    if dimensioned and reading_of(args).preset is not None:
-        # the engine runs in the preset's units there; the families' parameters are not read in them yet
-        raise InputError(f"--param {dimensioned[0]} is in {units[dimensioned[0]]}, which --preset {args.preset} does "
-                         "not read; leave out --preset (atomic units) for this family")
+    own = engine_parameters(args, reading_of(args), own)
     spec = {"family": args.family, "mass": 1.0 if args.mass is None else args.mass, **flagged, **own}
     try:
         return potential_from_spec(spec, strength, screening_length)
@@ -110,8 +124,10 @@ def _numbers(pot):
 
 def describe(pot, reading, strength_text, with_length=True):
     d = {"family": pot.family, "strength": pot.strength, "mass": pot.mass}
-    if _numbers(pot):
+    if _numbers(pot):  # the engine's values, and each length in the shown unit beside it
         d["parameters"] = _numbers(pot)
+        d["parameters"].update({f"{name}_{unit}": value for name, value, unit in shown_parameters(pot, reading)
+                                if unit == reading.length_unit != "bohr"})
     if reading.preset is not None or reading.length_unit != "bohr":
         d.update(units=reading.description, input=strength_text)
     if with_length and math.isfinite(pot.screening_length):
@@ -128,9 +144,8 @@ def title(pot, reading, strength_text, with_length=True):
         shown = pot.screening_length * reading.length_factor
         lam = f", λ = {shown:.10g} {reading.length_unit}"
     mass = f", mass {pot.mass:g} m_e" if reading.preset is None else ""
-    units = {q.name: q.unit for q in pot.info.parameters}
-    own = "".join(f", {name} {value:.10g}{'' if units[name] == '1' else ' ' + units[name]}"
-                  for name, value in _numbers(pot).items())
+    own = "".join(f", {name} {value:.10g}{' ' + unit if unit else ''}" for name, value, unit in
+                  shown_parameters(pot, reading))
     return f"{pot.info.display_name}, {strength_text}{lam}{own}{mass} ({reading.description})"
 
 

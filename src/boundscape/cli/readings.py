@@ -21,12 +21,12 @@ from ..engine import family_info
 from ..errors import InputError
 from ..checks import positive
 from ..physics.presets import NO_PRESET, PRESETS, NoPreset, Nuclear, Plasma, Preset, Semiconductor
+from ..physics.presets.strengths import PARAMETER_DIMENSIONS
 from ..physics.screening import MODELS
 from ..physics.units import ATOMIC, BOHR_M, UnitSystem, convert
 
-__all__ = ["add_preset_arguments", "Reading", "reading_of", "engine_strength", "engine_length", "describe", "title",
-           "flag_value", "own_parameters",
-           "significant"]
+__all__ = ["add_preset_arguments", "Reading", "reading_of", "engine_strength", "strength_reading", "engine_length",
+           "length_reader", "describe", "title", "flag_value", "own_parameters", "shown_parameters", "significant"]
 
 LENGTH_UNITS = ("bohr", "nm", "fm", "a*")
 
@@ -64,6 +64,10 @@ def add_preset_arguments(p: argparse.ArgumentParser):
                              "(default for a donor) or electrons_and_holes (default for an exciton)")
     plasma.add_argument("--screening-ion-charge", type=float, default=None,
                         help="plasma with --species electrons_and_ions: charge Z_i of the screening ions (default 1)")
+    plasma.add_argument("--ion-sphere-charge", type=float, default=None,
+                        help="plasma, family ion_sphere with --density: charge Z_i of the ions whose Wigner-Seitz "
+                             "radius (3 Z_i/(4 pi n_e))^(1/3) is the ion-sphere radius R (default: --nuclear-charge, "
+                             "so that the sphere's cloud of Z electrons has the density n_e)")
     plasma.add_argument("--ion-temperature-ratio", type=float, default=None,
                         help="plasma with --species electrons_and_ions: T_i/T_e (default 1)")
     semi = p.add_argument_group("--preset semiconductor")
@@ -167,14 +171,28 @@ def engine_length(args, reading: Reading) -> tuple[float | None, dict]:
     length = getattr(args, "screening_length", None)
     flag = preset.length_flag[0] if preset.length_flag else None
     value = flag_value(args, flag) if flag else None
+    reader = length_reader(args, reading) if flag else None
     if value is None:
         return (None if length is None else reading.engine_length(length, args.length_unit)), {}
     if length is not None:
         raise InputError(f"give {flag} or --screening-length, not both: each sets the screening length")
+    if reader is None:
+        info = family_info(args.family)
+        raise InputError(f"{flag} sets a screening length, but family {args.family}'s length is its "
+                         f"{info.length_long_name}: give --screening-length (in --length-unit)")
     positive(flag, value)
     if preset.temperature_flag and flag_value(args, preset.temperature_flag) is None:
-        raise InputError(f"{flag} needs {preset.temperature_flag} (the screening depends on the temperature)")
-    return preset.command_line_length(value, reading.units), preset.command_line_conditions(value)
+        raise InputError(f"{flag} needs {preset.temperature_flag} (the screening and its validity depend on the "
+                         "temperature)")
+    return reader.command_line_length(value, reading.units), reader.command_line_conditions(value)
+
+
+def length_reader(args, reading: Reading):
+    """What reads the preset's condition flag (``--density``) as ``--family``'s length
+    (``Preset.length_reading``): the screening length, or a plasma's ion-sphere radius."""
+    preset = reading.trade
+    taken = preset.strength_reading(family_info(args.family))
+    return preset.length_reading(family_info(args.family), flag_value(args, taken.flag))
 
 
 def own_parameters(pot) -> dict:
@@ -183,13 +201,29 @@ def own_parameters(pot) -> dict:
             if q.numeric and isinstance(pot.params.get(q.name), float)}
 
 
+def shown_parameters(pot, reading: Reading) -> list[tuple[str, float, str]]:
+    """(name, value, unit) of the potential's own numeric parameters as the reading shows them:
+    lengths in its length unit, dimensionless ones as they are."""
+    units = {q.name: q.unit for q in pot.info.parameters}
+    out = []
+    for name, value in own_parameters(pot).items():
+        if PARAMETER_DIMENSIONS.get(units[name]) == "length":
+            out.append((name, significant(value * reading.length_factor), reading.length_unit))
+        else:
+            out.append((name, value, "" if units[name] == "1" else units[name]))
+    return out
+
+
 def describe(pot, reading: Reading, strength_text: str, conditions: dict | None = None, with_length: bool = True):
     """The potential as the JSON output gives it: the engine's inputs (``strength``, ``mass``, its
     own ``parameters`` and ``screening_length_bohr``, whatever the units), the trade's reading,
     and the conditions."""
     d = {"family": pot.family, "strength": pot.strength, "mass": pot.mass}
-    if own_parameters(pot):
+    if own_parameters(pot):  # the engine's values, and each length in the shown unit beside it
         d["parameters"] = own_parameters(pot)
+        if reading.length_unit != "bohr" or reading.units is not ATOMIC:
+            d["parameters"].update({f"{name}_{unit}": value for name, value, unit in shown_parameters(pot, reading)
+                                    if unit == reading.length_unit})
     if reading.trade.kind is not None or reading.length_unit != "bohr":
         d.update(units=reading.description, input=strength_text)
     if with_length and math.isfinite(pot.screening_length):
@@ -216,9 +250,8 @@ def title(pot, reading: Reading, strength_text: str, conditions: dict | None = N
     if with_length and math.isfinite(pot.screening_length):
         lam = f", λ = {pot.screening_length * reading.length_factor:.10g} {reading.length_unit}"
     mass = f", mass {pot.mass:g} m_e" if reading.trade.kind is None else ""
-    units = {q.name: q.unit for q in pot.info.parameters}
-    own = "".join(f", {name} {value:.10g}{'' if units[name] == '1' else ' ' + units[name]}"
-                  for name, value in own_parameters(pot).items())
+    own = "".join(f", {name} {value:.10g}{' ' + unit if unit else ''}" for name, value, unit in
+                  shown_parameters(pot, reading))
     text = f"{pot.info.display_name}, {strength_text}{lam}{own}{mass} ({reading.description})"
     if conditions:
         shown = ", ".join(f"{k} = {v:.6g}" if isinstance(v, float) else f"{k} = {v}" for k, v in conditions.items()
@@ -229,18 +262,36 @@ def title(pot, reading: Reading, strength_text: str, conditions: dict | None = N
     return text
 
 
+def strength_reading(args, reading: Reading):
+    """How the command line takes ``--family``'s strength (:class:`~boundscape.physics.presets.
+    strengths.StrengthReading`); refuses, in one line, a strength flag that does not give it."""
+    preset, info = reading.trade, family_info(args.family)
+    taken = preset.strength_reading(info)
+    for flag in dict.fromkeys(("--strength", preset.strength_flag)):
+        if flag != taken.flag and flag_value(args, flag) is not None:
+            whose = "" if preset.strength_flag == taken.flag else \
+                f" to family {args.family}, whose strength is its {info.strength_long_name}"
+            raise InputError(f"{flag} does not apply with --preset {preset.kind}{whose}: give {taken.flag} "
+                             f"({taken.meaning})")
+    return taken
+
+
 def engine_strength(args, reading: Reading) -> tuple[float, str]:
     """The engine strength and how the header names it."""
     preset = reading.trade
-    if preset.strength_flag != "--strength":
-        if args.strength is not None:
-            raise InputError(f"--strength does not apply with --preset {preset.kind}: give {preset.strength_flag} "
-                             f"({preset.strength_meaning})")
-        return preset.strength_input(_needs(args, preset.strength_flag, f"--preset {preset.kind}"))
-    if args.strength is None:
+    taken = strength_reading(args, reading)
+    value = flag_value(args, taken.flag)
+    if value is None and taken.flag == "--strength":
         info = family_info(args.family)
         if info.default_strength is not None:
             return info.default_strength, (f"strength {info.default_strength:g} ({info.strength_meaning}, "
                                            "the default)")
-        raise InputError(f"--strength is required for family {args.family}")
-    return preset.strength_input(args.strength)
+        raise InputError(f"--strength is required for family {args.family}"
+                         + (f" ({taken.meaning})" if preset.kind else ""))
+    if value is None:
+        value = _needs(args, taken.flag, f"--preset {preset.kind}")
+    if taken.header is None:
+        return preset.strength_input(value)
+    if taken.flag != "--strength":
+        positive(taken.flag, value)
+    return taken.engine(value), taken.text(value)

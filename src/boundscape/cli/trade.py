@@ -7,7 +7,7 @@ from __future__ import annotations
 
 import math
 
-from .readings import flag_value, significant
+from .readings import flag_value, length_reader, significant
 
 __all__ = ["trade_columns", "trade_notes", "print_table", "MOTT_CRITERION"]
 
@@ -24,7 +24,10 @@ def trade_columns(args, reading, critical_length) -> dict:
     preset = reading.trade
     if preset.temperature_flag is None or flag_value(args, preset.temperature_flag) is None:
         return {}
-    columns = preset.critical_columns(critical_length * reading.units.length_m)
+    reader = length_reader(args, reading)  # the screening length's model, or a plasma's ion sphere
+    if reader is None:  # a well's radius: no density sets it
+        return {}
+    columns = reader.critical_columns(critical_length * reading.units.length_m)
     return {key: significant(value) if isinstance(value, float) else value for key, value in columns.items()}
 
 

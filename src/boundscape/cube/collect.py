@@ -209,7 +209,7 @@ def collect(config: dict, tile_paths, critical_paths, output, summary=None) -> s
         ds = add_lines(ds, plan, tile_paths, layout)
     # The physical reading of the axes travels with the cube as extra coordinates, with the
     # screening model's validity and the critical values in the trade's terms.
-    preset = from_config(config.get("preset"), config["grid"])
+    preset = from_config(config.get("preset"), config["grid"], config["potential"]["family"])
     ds = add_physical_coordinates(ds, preset)
     ds = add_trade_variables(ds, preset, plan, criticals)
     ds = add_family_parameters(ds, plan.engine)  # potential: diffuseness, core_strength, ... as scalar coordinates

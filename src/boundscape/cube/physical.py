@@ -22,7 +22,8 @@ def preset_of(ds):
     """The preset named in the cube's stored config (:data:`~boundscape.physics.presets.NO_PRESET`
     if it names none), and its map settings."""
     config = yaml.safe_load(ds.attrs.get("config_yaml", "") or "{}") or {}
-    return from_config(config.get("preset"), config.get("grid") or {}), (config.get("preset") or {}).get("map", {})
+    family = (config.get("potential") or {}).get("family")
+    return from_config(config.get("preset"), config.get("grid") or {}, family), (config.get("preset") or {}).get("map", {})
 
 
 def add_physical_coordinates(ds, preset=NO_PRESET, cube_mass=None):

@@ -34,7 +34,9 @@ DEFAULT_CELLS_PER_TILE = 2048
 
 # Every numeric grid axis but l: the engine's (strength, screening length), the nuclear coupling
 # in MeV fm, and the trades' conditions (physics.presets: condition_keys).
-GRID_AXES = ("strength", "coupling_MeV_fm", "screening_length", "electron_density", "electron_temperature",
+# The grid's strength axes: the engine's own, or a preset's reading of it (physics.presets: grid_axes).
+STRENGTH_KEYS = ("strength", "coupling_MeV_fm", "depth_MeV")
+GRID_AXES = ("strength", "coupling_MeV_fm", "depth_MeV", "screening_length", "electron_density", "electron_temperature",
              "carrier_density", "temperature", "coupling", "range")
 
 
@@ -91,7 +93,7 @@ def validate_config(config: dict) -> dict:
     grid = config["grid"]
     uses_length = FAMILIES[family].uses_screening_length(own)
     try:
-        preset = from_config(config.get("preset"), grid)
+        preset = from_config(config.get("preset"), grid, family)
     except InputError as exc:
         raise InputError(f"config key preset: {exc}") from None
     if is_condition_sweep(grid):
@@ -167,12 +169,12 @@ def _check_conditions(grid, section, preset, family, uses_length):
                          f"({', '.join(preset.condition_keys)}) change nothing; use yukawa, ecsc, hulthen or a "
                          "screened table")
     length = FAMILIES[family].length_long_name
-    if length != "screening length":  # a well's radius is not what a density and temperature set
+    if not preset.condition_sets_length(FAMILIES[family]):  # a well's radius is not what a density sets
         raise InputError(f"config key potential.family: family {family}'s length is its {length}, not a screening "
                          f"length, so the conditions ({', '.join(preset.condition_keys)}) cannot set it; sweep "
                          "grid.screening_length instead")
     strength_axis = preset.condition_strength_key
-    for key in ("strength", "coupling_MeV_fm"):
+    for key in STRENGTH_KEYS:
         if key != strength_axis and key in grid:
             raise InputError(f"config key grid.{key}: the strength of this sweep is grid.{strength_axis}; remove it")
     if strength_axis not in grid:
@@ -184,12 +186,17 @@ def _check_conditions(grid, section, preset, family, uses_length):
 
 
 def _check_strength_axis(grid, preset):
-    if ("strength" in grid) == ("coupling_MeV_fm" in grid):
-        raise InputError("config key grid: give exactly one of strength and coupling_MeV_fm")
-    if "coupling_MeV_fm" in grid and "coupling_MeV_fm" not in preset.grid_axes:
-        kinds = " or ".join(kind for kind, cls in PRESETS.items() if "coupling_MeV_fm" in cls.grid_axes)
-        raise InputError(f"config key grid.coupling_MeV_fm: a coupling g² in MeV fm needs preset kind {kinds}; "
-                         "use grid.strength otherwise")
+    given = [key for key in STRENGTH_KEYS if key in grid]
+    if len(given) != 1:
+        names = ("strength", *(preset.grid_axes or ("coupling_MeV_fm",)))
+        raise InputError(f"config key grid: give exactly one of {' and '.join(names)}"
+                         + (f" (got {', '.join(given)})" if given else ""))
+    axis = given[0]
+    if axis != "strength" and axis not in preset.grid_axes:
+        what = {"coupling_MeV_fm": "a coupling g² in MeV fm", "depth_MeV": "a well depth in MeV"}[axis]
+        own = f"; this family's is grid.{preset.grid_axes[0]}" if preset.grid_axes else ""
+        raise InputError(f"config key grid.{axis}: {what} needs preset kind nuclear and a family whose strength it "
+                         f"is{own}; use grid.strength otherwise")
 
 
 def _sweep_mass(mass, section: dict, preset) -> float:

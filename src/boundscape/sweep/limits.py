@@ -29,7 +29,7 @@ N_R_MAX_LIMIT = MAX_CRITICAL_STATES
 L_LIMIT = MAX_L
 # The grid's strength axis, and the trades' condition axes that replace screening_length
 # (boundscape.physics.presets: condition_keys); read here from the raw config, before any preset.
-STRENGTH_AXES = ("strength", "coupling_MeV_fm", "coupling")
+STRENGTH_AXES = ("strength", "coupling_MeV_fm", "depth_MeV", "coupling")
 CONDITION_AXES = ("electron_density", "electron_temperature", "carrier_density", "donor_concentration", "temperature",
                   "range")
 

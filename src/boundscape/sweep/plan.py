@@ -175,7 +175,7 @@ def plan(config: dict) -> Plan:
     check_limits(config)
     config = validate_config(config)
     grid = config["grid"]
-    preset = from_config(config.get("preset"), grid)
+    preset = from_config(config.get("preset"), grid, config["potential"]["family"])
     conditions = length_index = None
     if is_condition_sweep(grid):
         axes = {key: axis_values(grid[key], key) for key in preset.condition_keys}
@@ -186,9 +186,9 @@ def plan(config: dict) -> Plan:
     elif "strength" in grid:
         strength = axis_values(grid["strength"], "strength")
         screening_length = axis_values(grid.get("screening_length"), "screening_length")
-    else:  # a nuclear preset's couplings g² (MeV fm), as engine strengths
-        strength = np.asarray(preset.strength_for(axis_values(grid["coupling_MeV_fm"], "coupling_MeV_fm")),
-                              dtype=np.float64)
+    else:  # a preset's own strength axis (nuclear g² in MeV fm, a depth in MeV), as engine strengths
+        axis = next(key for key in preset.grid_axes if key in grid)
+        strength = np.asarray(preset.grid_strength(axis_values(grid[axis], axis)), dtype=np.float64)
         screening_length = axis_values(grid.get("screening_length"), "screening_length")
     l_values = axis_values(grid["l"], "l")
     n_r_max = int(grid["n_r_max"])

@@ -108,6 +108,7 @@ class IonSphere(ScreenedCoulomb):
     strength_meaning, length_meaning = "Z (nuclear charge number)", "ion-sphere radius R (bohr)"
     strength_long_name = "charge number Z of the nucleus in its ion sphere"
     length_long_name = "ion-sphere radius"
+    length_kind = "ion_sphere_radius"
 
     @staticmethod
     def formula(r, p, x, c, continued):
@@ -126,6 +127,8 @@ class SquareWell(Family):
     display_name = "square well"
     strength_meaning, length_meaning = "depth (hartree)", "radius λ (bohr)"
     strength_long_name, strength_dimension, length_long_name = "well depth", "energy", "radius of the well"
+    strength_symbol = "V0"
+    length_kind = "well_radius"
 
     @staticmethod
     def formula(r, p, x, c, continued):
@@ -158,6 +161,7 @@ class Harmonic(Family):
     display_name = "harmonic oscillator"
     strength_meaning = "ω (hartree/ħ)"
     strength_long_name, strength_dimension = "oscillator angular frequency", "angular_frequency"
+    strength_symbol = "ω"
 
     @staticmethod
     def formula(r, p, x, c, continued):

@@ -84,7 +84,14 @@ class Family:
     # "angular_frequency").
     strength_long_name = "charge number Z of the screened Coulomb potential"
     strength_dimension = "1"
+    # How a formula names the strength (Z, V0, g), and how it is named read as a coupling
+    # (energy × length, a nuclear g² of the Yukawa form -g² e^{-r/λ}/r) where its dimension is "1".
+    strength_symbol = "Z"
+    coupling_symbol = "g²"
     length_long_name = "screening length"
+    # What the length is: "screening_length" (what a medium's density and temperature set),
+    # "well_radius" (a well's size) or "ion_sphere_radius" (what a plasma's density sets).
+    length_kind = "screening_length"
 
     # --- the formula ------------------------------------------------------------------------
     @staticmethod

@@ -71,6 +71,8 @@ class WoodsSaxon(Family):
                             _positive),)
     strength_meaning, length_meaning = "depth V0 (hartree)", "radius R (bohr), where V = -V0/2"
     strength_long_name, strength_dimension = "well depth V0", "energy"
+    strength_symbol = "V0"
+    length_kind = "well_radius"
     length_long_name = "radius of the Woods-Saxon well"  # where V = -V0/2; figures add the symbol R
 
     @staticmethod
@@ -124,6 +126,7 @@ class TwoYukawa(Family):
     strength_meaning = "g, the attraction's strength (hartree bohr)"
     length_meaning = "range λ of the attraction (bohr)"
     strength_long_name = "strength g of the attractive Yukawa"
+    strength_symbol = coupling_symbol = "g"  # Malfliet–Tjon's V_A, in MeV fm under the nuclear preset
     # length_long_name stays "screening length": λ screens the attraction (and, times ρ, the core)
 
     @staticmethod

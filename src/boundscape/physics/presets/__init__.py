@@ -15,16 +15,20 @@ itself only ever sees (strength, screening length, mass) in the preset's units.
 
 from __future__ import annotations
 
+from ...engine import FAMILIES
 from ...errors import InputError
 from .base import NO_PRESET, ConditionAxes, ConditionGrid, EngineParameters, NoPreset, Preset, Unit
 from .carriers import CarrierScreening
+from .ion_sphere import IonSpherePlasma  # registers itself as the plasma's reading of an ion sphere
 from .nuclear import Nuclear
+from .nuclear_depth import NuclearDepth  # registers itself as the nuclear reading of a depth
 from .plasma import Plasma
 from .donors import DonorSemiconductor
 from .semiconductor import Semiconductor
 
-__all__ = ["Preset", "NoPreset", "NO_PRESET", "CarrierScreening", "Plasma", "Semiconductor", "DonorSemiconductor",
-           "Nuclear", "PRESETS", "VARIANTS", "from_config", "EngineParameters", "Unit", "ConditionAxes", "ConditionGrid", "is_condition_sweep"]
+__all__ = ["Preset", "NoPreset", "NO_PRESET", "CarrierScreening", "Plasma", "IonSpherePlasma", "Semiconductor",
+           "DonorSemiconductor", "Nuclear", "NuclearDepth", "PRESETS", "VARIANTS", "from_config", "EngineParameters",
+           "Unit", "ConditionAxes", "ConditionGrid", "is_condition_sweep"]
 
 # The config's preset.kind (and the command line's --preset) -> its class.
 PRESETS: dict[str, type[Preset]] = {cls.kind: cls for cls in (Plasma, Semiconductor, Nuclear)}
@@ -39,12 +43,13 @@ def is_condition_sweep(grid: dict | None) -> bool:
     return bool(grid) and any(key in keys for key in grid)
 
 
-def from_config(section: dict | None, grid: dict | None = None) -> Preset:
+def from_config(section: dict | None, grid: dict | None = None, family: str | None = None) -> Preset:
     """The preset of the config's ``preset`` mapping (:data:`NO_PRESET` if absent).
 
     ``grid`` is the config's grid: a sweep over ``screening_length`` (not over the trade's
     conditions) keeps the preset's :attr:`~Preset.legacy_defaults` for the keys it does not give,
-    so that a configuration written before condition sweeps reads its cube as it did."""
+    so that a configuration written before condition sweeps reads its cube as it did.  ``family``
+    (``potential.family``) gives the preset as it reads that family (:meth:`Preset.for_family`)."""
     if not section:
         return NO_PRESET
     section = dict(section)
@@ -57,6 +62,7 @@ def from_config(section: dict | None, grid: dict | None = None) -> Preset:
     if grid is not None and not is_condition_sweep(grid):
         section = {**cls.legacy_defaults, **section}
     try:
-        return cls(**section)
+        preset = cls(**section)
     except TypeError as exc:
         raise InputError(f"preset {kind}: {exc}") from None
+    return preset if family is None or family not in FAMILIES else preset.for_family(FAMILIES[family])

@@ -19,6 +19,7 @@ from typing import ClassVar, NamedTuple
 import numpy as np
 
 from ..units import ATOMIC, UnitSystem
+from .strengths import StrengthReading, read_strength
 
 __all__ = ["EngineParameters", "Unit", "ConditionAxes", "ConditionGrid", "Preset", "NoPreset", "NO_PRESET"]
 
@@ -336,6 +337,35 @@ class Preset:
     def named_length_m(self, unit: str) -> float:
         """The size in metres of a length unit in :attr:`named_length_units`."""
         raise KeyError(unit)
+
+    def strength_reading(self, info) -> StrengthReading:
+        """How the command line takes family ``info``'s strength under this preset: by the
+        strength's dimension (:func:`~.strengths.read_strength`)."""
+        return read_strength(self, info, self.command_line_reading()["units"].energy_J)
+
+    def length_reading(self, info, charge: float | None = None):
+        """What reads the value of :attr:`length_flag` as family ``info``'s length: the preset
+        itself (:meth:`command_line_length`, :meth:`command_line_conditions`,
+        :meth:`critical_columns`) where that length is a screening length; ``None`` where the
+        condition cannot set it (a well's radius).  ``charge`` is the strength given, if any."""
+        return self if info.length_kind == "screening_length" else None
+
+    def for_family(self, info) -> "Preset":
+        """This preset as it reads family ``info``'s sweeps (a plasma reads an ion sphere's radius
+        from the density); raises :class:`~boundscape.errors.InputError` for a setting the family
+        cannot use."""
+        return self
+
+    def condition_sets_length(self, info) -> bool:
+        """Whether a sweep over :attr:`condition_keys` can set family ``info``'s length."""
+        return info.length_kind == "screening_length"
+
+    def coupling_reading(self, info) -> StrengthReading:
+        """How the command line takes a charge-like strength (dimension ``"1"``): with
+        :attr:`strength_flag`, as :meth:`strength_input` reads it (and names it)."""
+        own = self.strength_flag == "--strength"
+        return StrengthReading(self.strength_flag, info.strength_meaning if own else self.strength_meaning,
+                               "strength", None, self.strength_input(1.0)[0], None)
 
 
 class NoPreset(Preset):

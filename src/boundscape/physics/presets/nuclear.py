@@ -8,6 +8,7 @@ from __future__ import annotations
 
 import math
 from dataclasses import dataclass
+from typing import ClassVar
 
 import numpy as np
 from scipy import constants as sc
@@ -16,6 +17,7 @@ from ...checks import positive
 from ...errors import InputError
 from ..units import FM_M, HBAR_C_MEV_FM, MEV_J, UnitSystem, nuclear_units
 from .base import ConditionGrid, EngineParameters, Preset, Unit
+from .strengths import StrengthReading
 
 __all__ = ["Nuclear"]
 
@@ -44,6 +46,9 @@ class Nuclear(Preset):
     strength_flag = "--coupling"
     strength_meaning = "g², MeV fm"
     mass_given_by = "the reduced mass is --reduced-mass (MeV/c²)"
+    # The variants for families whose strength is not a coupling, by strength_dimension; each
+    # registers itself from its own module (.nuclear_depth: a depth V0 in MeV).
+    strength_variants: ClassVar[dict] = {}
 
     def __post_init__(self):
         positive("nuclear reduced_mass_MeV", self.reduced_mass_MeV)
@@ -165,3 +170,20 @@ class Nuclear(Preset):
 
     def strength_input(self, value):
         return float(self.strength_for(value)), f"g² = {value:g} MeV fm"
+
+    def for_family(self, info):
+        variant = self.strength_variants.get(info.strength_dimension)
+        return self if variant is None else variant(self.reduced_mass_MeV, self.length_fm)
+
+    def grid_strength(self, values):
+        """Engine strengths of the grid's own strength axis (``coupling_MeV_fm``: g² in MeV fm)."""
+        return self.strength_for(values)
+
+    def length_reading(self, info, charge=None):
+        return self  # --range is a length in fm, whatever the family's length is
+
+    def coupling_reading(self, info):
+        # a charge-like strength is a coupling, energy × length: Yukawa's g², two-Yukawa's g
+        symbol = info.coupling_symbol
+        return StrengthReading("--coupling", f"{symbol}, MeV fm", "coupling", "MeV fm", float(self.strength_for(1.0)),
+                               f"{symbol} = {{value:g}} MeV fm")

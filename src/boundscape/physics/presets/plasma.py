@@ -4,7 +4,8 @@ in atomic units with energies in eV and lengths in nm."""
 from __future__ import annotations
 
 import math
-from dataclasses import dataclass
+from dataclasses import dataclass, fields
+from typing import ClassVar
 
 import numpy as np
 from scipy import constants as sc
@@ -38,6 +39,10 @@ class Plasma(CarrierScreening):
         ``screening_length`` that names none keeps ``debye``.
     temperature_eV : float
         Reference electron temperature of a sweep over screening lengths (its density coordinate).
+    ion_sphere_charge : float or None
+        Family ``ion_sphere``: the charge Z_i of the ions whose Wigner–Seitz radius
+        (3Z_i/(4π n_e))^{1/3} is the ion-sphere radius (:mod:`.ion_sphere`); ``None``: the ion's
+        own nuclear charge Z.
     reduced_mass : float
         Electron–ion reduced mass of the bound problem, electron masses (1 for an infinitely heavy
         ion); the screening electrons have the electron mass.
@@ -54,6 +59,7 @@ class Plasma(CarrierScreening):
     temperature_eV: float = 10.0
     reduced_mass: float = 1.0
     screening: str = "finite_temperature"
+    ion_sphere_charge: float | None = None
 
     kind = "plasma"
     energy_unit = Unit("eV", sc.electron_volt)
@@ -68,7 +74,8 @@ class Plasma(CarrierScreening):
     legacy_defaults = {"screening": "debye"}
     command_line = (("--temperature", "temperature_eV", False), ("--screening", "screening", False),
                     ("--species", "species", False), ("--screening-ion-charge", "screening_ion_charge", False),
-                    ("--ion-temperature-ratio", "ion_temperature_ratio", False))
+                    ("--ion-temperature-ratio", "ion_temperature_ratio", False),
+                    ("--ion-sphere-charge", "ion_sphere_charge", False))
     length_flag = ("--density", "plasma: electron density n_e, cm-3 (with --temperature), instead of "
                                 "--screening-length: the screening length of the plasma")
     temperature_flag = "--temperature"
@@ -76,6 +83,9 @@ class Plasma(CarrierScreening):
     strength_flag = "--nuclear-charge"
     strength_meaning = "Z, the nuclear charge of the hydrogen-like ion"
     units = ATOMIC
+    # The variants that read a family's length other than as a screening length, by the family's
+    # length_kind; each registers itself from its own module (.ion_sphere: the ion-sphere radius).
+    length_variants: ClassVar[dict] = {}
 
     def __post_init__(self):
         if self.species not in ("electrons", "electrons_and_ions"):
@@ -83,6 +93,8 @@ class Plasma(CarrierScreening):
         self._check_screening()
         for name in ("screening_ion_charge", "ion_temperature_ratio", "temperature_eV", "reduced_mass"):
             positive(f"plasma {name}", getattr(self, name))
+        if self.ion_sphere_charge is not None:
+            positive("plasma ion_sphere_charge", self.ion_sphere_charge)
 
     # -- the physics ------------------------------------------------------------------------
     @property
@@ -172,3 +184,37 @@ class Plasma(CarrierScreening):
 
     def strength_input(self, value):
         return float(positive("--nuclear-charge", value)), f"nuclear charge Z = {value:g}"
+
+    def length_reading(self, info, charge=None):
+        """Family ``ion_sphere``: R from n_e, the ions' Wigner–Seitz radius, Z_i = ``charge`` (the
+        nuclear charge given) unless :attr:`ion_sphere_charge` (:mod:`.ion_sphere`)."""
+        if info.length_kind != "ion_sphere_radius":
+            if self.ion_sphere_charge is not None:
+                raise InputError(f"--ion-sphere-charge applies to family ion_sphere only (family {info.name}'s "
+                                 f"length is its {info.length_long_name})")
+            return super().length_reading(info, charge)
+        ion_charge = self.ion_sphere_charge if self.ion_sphere_charge is not None else charge
+        if ion_charge is None:
+            raise InputError("--density sets the ion-sphere radius (3 Z_i/(4 pi n_e))^(1/3) from the ions' charge "
+                             "Z_i, the nuclear charge by default, which is varied here: give --ion-sphere-charge")
+        variant = self.length_variants["ion_sphere_radius"]
+        return variant(**{**_fields(self), "ion_sphere_charge": float(ion_charge)}, nuclear_charge=charge)
+
+    def for_family(self, info):
+        if info.length_kind != "ion_sphere_radius":
+            if self.ion_sphere_charge is not None:
+                raise InputError(f"preset.ion_sphere_charge applies to family ion_sphere only, not {info.name}")
+            return self
+        if self.ion_sphere_charge is None:
+            raise InputError("a plasma sweep of family ion_sphere needs preset.ion_sphere_charge, the charge Z_i of "
+                             "the plasma's ions, whose Wigner-Seitz radius (3 Z_i/(4 pi n_e))^(1/3) is the ion-sphere "
+                             "radius (the swept ion's nuclear charge, for a plasma of such nuclei)")
+        return self.length_variants["ion_sphere_radius"](**_fields(self))
+
+    def condition_sets_length(self, info):
+        return info.length_kind in ("screening_length", "ion_sphere_radius")
+
+
+def _fields(preset) -> dict:
+    # A plasma preset's own settings (the dataclass fields of Plasma), to rebuild it as a variant.
+    return {f.name: getattr(preset, f.name) for f in fields(Plasma)}
