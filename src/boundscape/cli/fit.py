@@ -19,8 +19,8 @@ import math
 from ..engine import OutOfReach, solve_for
 from ..errors import InputError
 from ..labels import orbital_letter
-from .options import describe, make_potential, potential_args, title
-from .readings import engine_length, engine_strength, reading_of, significant, strength_reading
+from .options import make_potential, potential_args
+from .readings import describe, engine_length, engine_strength, reading_of, significant, strength_reading, title
 
 __all__ = ["register", "run"]
 

@@ -4,15 +4,14 @@ potential is described in the JSON and the table title."""
 from __future__ import annotations
 
 import argparse
-import math
 
 from ..engine import FAMILIES, ParameterError, family_info, potential_from_spec
 from ..engine.limits import check_l
 from ..errors import InputError
 from ..physics.presets.strengths import PARAMETER_DIMENSIONS
-from .readings import add_preset_arguments, engine_strength, reading_of, shown_parameters, significant
+from .readings import add_preset_arguments, engine_strength, reading_of
 
-__all__ = ["parse_l_values", "parse_params", "potential_args", "make_potential", "describe", "title"]
+__all__ = ["parse_l_values", "parse_params", "potential_args", "make_potential"]
 
 
 def parse_l_values(text: str) -> list[int]:
@@ -114,48 +113,3 @@ def make_potential(args, strength, screening_length):
         if exc.parameter in flagged or exc.parameter in own:
             raise
         raise InputError(f"{exc}: give --param {exc.parameter}=VALUE") from None
-
-
-def _numbers(pot):
-    """The potential's own numeric parameters by name (what --param sets)."""
-    return {q.name: pot.params[q.name] for q in pot.info.parameters
-            if q.numeric and isinstance(pot.params.get(q.name), float)}
-
-
-def describe(pot, reading, strength_text, with_length=True):
-    d = {"family": pot.family, "strength": pot.strength, "mass": pot.mass}
-    if _numbers(pot):  # the engine's values, and each length in the shown unit beside it
-        d["parameters"] = _numbers(pot)
-        d["parameters"].update({f"{name}_{unit}": value for name, value, unit in shown_parameters(pot, reading)
-                                if unit == reading.length_unit != "bohr"})
-    if reading.preset is not None or reading.length_unit != "bohr":
-        d.update(units=reading.description, input=strength_text)
-    if with_length and math.isfinite(pot.screening_length):
-        if reading.length_unit == "bohr":
-            d["screening_length_bohr"] = pot.screening_length
-        else:
-            d[f"screening_length_{reading.length_unit}"] = significant(pot.screening_length * reading.length_factor)
-    return d
-
-
-def title(pot, reading, strength_text, with_length=True):
-    lam = ""
-    if with_length and math.isfinite(pot.screening_length):
-        shown = pot.screening_length * reading.length_factor
-        lam = f", λ = {shown:.10g} {reading.length_unit}"
-    mass = f", mass {pot.mass:g} m_e" if reading.preset is None else ""
-    own = "".join(f", {name} {value:.10g}{' ' + unit if unit else ''}" for name, value, unit in
-                  shown_parameters(pot, reading))
-    return f"{pot.info.display_name}, {strength_text}{lam}{own}{mass} ({reading.description})"
-
-
-def atomic_potential(args, command: str):
-    """(potential, reading, strength text) of a command that prints atomic units only (its JSON keys
-    say hartree and bohr); a preset, or energies in a trade's unit, is refused in one line."""
-    reading = reading_of(args)
-    if reading.preset is not None or reading.energy_unit != "hartree":
-        raise InputError(f"{command} prints atomic units (hartree, bohr): leave out --preset, and give "
-                         "--screening-length in bohr or with --length-unit")
-    strength, strength_text = engine_strength(args, reading)
-    lam = None if args.screening_length is None else reading.engine_length(args.screening_length, args.length_unit)
-    return make_potential(args, strength, lam), reading, strength_text

@@ -248,7 +248,8 @@ def title(pot, reading: Reading, strength_text: str, conditions: dict | None = N
     """The table's header line."""
     lam = ""
     if with_length and math.isfinite(pot.screening_length):
-        lam = f", λ = {pot.screening_length * reading.length_factor:.10g} {reading.length_unit}"
+        symbol = "λ" if pot.info.length_kind == "screening_length" else "R"  # a well's or ion sphere's radius
+        lam = f", {symbol} = {pot.screening_length * reading.length_factor:.10g} {reading.length_unit}"
     mass = f", mass {pot.mass:g} m_e" if reading.trade.kind is None else ""
     own = "".join(f", {name} {value:.10g}{' ' + unit if unit else ''}" for name, value, unit in
                   shown_parameters(pot, reading))

@@ -19,8 +19,8 @@ from ..engine import phase_shifts, scattering
 from ..engine.continuum.phase_shifts import MAX_ENERGIES, EnergyTooHigh
 from ..errors import InputError
 from ..labels import orbital_letter
-from .options import describe, make_potential, parse_l_values, potential_args, title
-from .readings import engine_length, engine_strength, reading_of, significant
+from .options import make_potential, parse_l_values, potential_args
+from .readings import describe, engine_length, engine_strength, reading_of, significant, title
 
 __all__ = ["register", "run", "parse_energies", "shown"]
 
