@@ -158,7 +158,7 @@ def run(args) -> int:
                 f"effective_range_{r_unit}": number(sc.effective_range, rf),
                 f"effective_range_error_{r_unit}": number(sc.effective_range_error, rf, 3),
                 "num_bound": fit.num_bound, "status": "ok" if fit.status == 0 else "not_converged",
-                "reason": fit.reason})
+                "reason": reading.shown(fit.reason)})
     if args.format == "json":
         print(json.dumps(out, indent=2))
         return 0

@@ -107,7 +107,7 @@ def run(args) -> int:
     print(f"{'lower':>6} {'upper':>6} " + " ".join(f"{name:>{width}}" for name, _, width, _ in columns) + "  status")
     for i, row in enumerate(rows):
         values = " ".join(f"{row[key]:>{width}{fmt}}" for _, key, width, fmt in columns)
-        reason = found.reason[i]
+        reason = reading.shown(found.reason[i])
         print(f"{row['lower']:>6} {row['upper']:>6} {values}  {row['status']}{' (' + reason + ')' if reason else ''}")
     if not rows:
         print(f"# no lines: fewer than two bound levels with n ≤ {args.n_max} differ by one in l")

@@ -105,7 +105,7 @@ def run_levels(args) -> int:
                 row.update({f"energy_{e_unit}": significant(float(res.energy[i] * reading.energy_factor), 15),
                             f"mean_radius_{r_unit}": significant(float(res.mean_radius[i] * reading.length_factor), 12),
                             f"energy_error_{e_unit}": significant(float(res.energy_error[i] * reading.energy_factor), 3)})
-            row.update(status="ok" if res.status[i] == 0 else "not_converged", reason=res.reason[i])
+            row.update(status="ok" if res.status[i] == 0 else "not_converged", reason=reading.shown(res.reason[i]))
             rows.append(row)
     note = _note(pot, args.n_r_max)
     if args.format == "json":

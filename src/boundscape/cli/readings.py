@@ -15,6 +15,7 @@ from __future__ import annotations
 
 import argparse
 import math
+import re
 from dataclasses import dataclass
 
 from ..engine import family_info
@@ -113,6 +114,29 @@ class Reading:
         else:
             metres = convert(value, unit, "m")
         return metres / self.units.length_m
+
+    def shown(self, text: str) -> str:
+        """An engine message (a status reason) with its lengths and energies in the shown units.
+
+        The engine writes its own units as "bohr" and "hartree"; under a preset that runs the
+        engine in other units (nuclear, semiconductor) those words would be wrong, so each
+        "<number> bohr|hartree" is converted to the unit the table shows."""
+        if not text:
+            return text
+
+        def convert_one(match):
+            value, unit = float(match.group(1)), match.group(2)
+            if unit == "bohr":
+                return f"{value * self.length_factor:.5g} {self.length_unit}"
+            return f"{value * self.energy_factor:.5g} {self.energy_unit}"
+
+        if self.length_unit == "bohr" and self.energy_unit == "hartree":
+            return text
+        return _ENGINE_QUANTITY.sub(convert_one, text)
+
+
+# a number followed by the engine's unit words, as engine messages write them ("λ ≈ 23.517 bohr")
+_ENGINE_QUANTITY = re.compile(r"(?<![\w.])([-+]?(?:\d+\.?\d*|\.\d+)(?:[eE][-+]?\d+)?) (bohr|hartree)\b")
 
 
 def _naming(unit):

@@ -68,7 +68,7 @@ def run(args) -> int:
                 f"energy_{e_unit}": _scaled(energy, e_factor, atomic),
                 f"width_{e_unit}": None if virtual else _scaled(width, e_factor, atomic),
                 f"kappa_per_{r_unit}": _scaled(kappa, 1.0 / r_factor, atomic) if virtual else None,
-                "status": RESONANCE_STATUS[int(res.status[i])], "reason": res.reason[i],
+                "status": RESONANCE_STATUS[int(res.status[i])], "reason": reading.shown(res.reason[i]),
                 "_error": _scaled(_number(res.energy_error[i]), e_factor, atomic),
             })
     if args.format == "json":

@@ -91,7 +91,7 @@ def run(args) -> int:
                f"inverse_scattering_length_per_{r_unit}": shown(sc.inverse_length, 1.0 / rf, atomic),
                f"effective_range_{r_unit}": shown(sc.effective_range, rf, atomic),
                "num_bound": sc.num_bound, "phase_shifts": [], "status": "ok" if sc.status == 0 else "not_converged",
-               "reason": sc.reason,
+               "reason": reading.shown(sc.reason),
                f"scattering_length_error_{r_unit}": shown(sc.length_error, rf, atomic, 3),
                f"effective_range_error_{r_unit}": shown(sc.effective_range_error, rf, atomic, 3)}
         if energies:
@@ -105,7 +105,7 @@ def run(args) -> int:
                     f"energy_{e_unit}": float(text), "phase_shift_rad": float(ps.phase_shift[i]),
                     f"cross_section_{r_unit}2": shown(ps.cross_section[i], rf * rf, atomic),
                     "phase_shift_error_rad": shown(ps.phase_shift_error[i], 1.0, atomic, 3),
-                    "status": "ok" if ps.status[i] == 0 else "not_converged", "reason": ps.reason[i]})
+                    "status": "ok" if ps.status[i] == 0 else "not_converged", "reason": reading.shown(ps.reason[i])})
         rows.append(row)
     if args.format == "json":
         print(json.dumps({"potential": describe(pot, reading, strength_text), "scattering": rows}, indent=2))
