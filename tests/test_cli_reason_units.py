@@ -52,3 +52,19 @@ def test_energy_words_follow_the_table(value):
     reading = _reading("--preset", "plasma", "--nuclear-charge", "1", "--density", "1e20", "--temperature", "10")
     assert reading.energy_unit == "eV"
     assert reading.shown(f"E = {value} hartree") == f"E = {value * HARTREE_EV:.5g} eV"
+
+
+def test_nuclear_levels_say_which_state_labels_they_use(capsys):
+    # The shell model labels a level by n_r + 1 (1s, 1p, 1d; any nuclear-structure text); the table
+    # keeps n = n_r + l + 1 and says so, under the nuclear preset only.
+    args = ["levels", "--family", "woods_saxon", "--preset", "nuclear", "--reduced-mass", "916", "--strength", "50",
+            "--screening-length", "4.1", "--param", "diffuseness=0.65", "--length-unit", "fm", "--l", "1",
+            "--format", "json"]
+    assert main(args) == 0
+    out = json.loads(capsys.readouterr().out)
+    assert "shell model" in out["state_labels"]
+    lowest_p = out["levels"][0]
+    assert (lowest_p["state"], lowest_p["n_r"]) == ("2p", 0)  # the shell model's 1p
+    assert main(["levels", "--family", "yukawa", "--strength", "1", "--screening-length", "10", "--l", "0",
+                 "--format", "json"]) == 0
+    assert "state_labels" not in json.loads(capsys.readouterr().out)

@@ -73,6 +73,10 @@ def build_parser() -> argparse.ArgumentParser:
     return parser
 
 
+SHELL_LABELS = ("states are labelled n = n_r + l + 1, the atomic convention; the shell model's label is "
+                "n_r + 1 (this table's 2p is its 1p, 3d its 1d)")
+
+
 def _note(pot, n_r_max):
     if pot.tail == "confining":
         return (f"{pot.family} is confining: every level is bound and E > 0; the lowest {n_r_max or 20} per l "
@@ -108,16 +112,21 @@ def run_levels(args) -> int:
             row.update(status="ok" if res.status[i] == 0 else "not_converged", reason=reading.shown(res.reason[i]))
             rows.append(row)
     note = _note(pot, args.n_r_max)
+    # Nuclear physicists number a shell by its radial nodes (1s, 1p, 1d): say which convention this is.
+    labels = (SHELL_LABELS if reading.trade.kind == "nuclear" else None)
     if args.format == "json":
         out = {"potential": describe(pot, reading, strength_text, conditions),
                "num_bound": {str(k): v for k, v in counts.items()}, "levels": rows}
         if note:
             out["note"] = note
+        if labels:
+            out["state_labels"] = labels
         print(json.dumps(out, indent=2, allow_nan=True))
         return 0
     print(f"# {title(pot, reading, strength_text, conditions)}")
-    if note:
-        print(f"# {note}")
+    for line in (note, labels):
+        if line:
+            print(f"# {line}")
     if reading.preset is None and e_unit == "hartree":
         columns = [("E (hartree)", "energy_hartree", 22, ".15g"), ("E (eV)", "energy_eV", 18, ".11g"),
                    ("<r> (bohr)", "mean_radius_bohr", 16, ".10g"), ("error (hartree)", "energy_error_hartree", 16, ".3g")]
