@@ -6,8 +6,6 @@ checker, and ``readable``."""
 from __future__ import annotations
 
 import copy
-import json
-import math
 
 import numpy as np
 import pytest
@@ -15,12 +13,11 @@ from scipy import constants as sc
 
 import boundscape as bs
 from boundscape import sweep
-from boundscape.cli import steps
-from boundscape.cube import open_cube, readable, write_cube
-from boundscape.cube.collect import collect
+from boundscape.cube import readable, write_cube
 from boundscape.errors import InputError
 from boundscape.physics.presets import Nuclear, Plasma
 from boundscape.sweep.limits import check_limits
+from workflow_steps import build_cube
 
 BOHR = sc.physical_constants["Bohr radius"][0]
 PLASMA = {"sweep": "cond", "potential": {"family": "yukawa"},
@@ -52,19 +49,7 @@ def changed(config, **changes):
 
 def build(directory, config):
     """The cube of ``config``, computed with the workflow's steps in this process."""
-    config = sweep.validate_config(config)
-    plan = sweep.plan(config)
-    tiles, blocks = [], []
-    for kind, parts, spec, paths in (("solve-tile", plan.tiles, plan.tile_spec, tiles),
-                                     ("criticals", plan.critical_blocks, plan.critical_spec, blocks)):
-        for part in parts:
-            path = directory / f"{kind}_{part.name}.nc"
-            assert steps.main([kind, "--spec", json.dumps(spec(part)), "--output", str(path)]) == 0
-            paths.append(str(path))
-    collect(config, tiles, blocks, directory / "levels.nc")
-    return open_cube(directory / "levels.nc").load(), plan
-
-
+    return build_cube(directory, config)
 @pytest.fixture(scope="module")
 def plasma_cube(tmp_path_factory):
     return build(tmp_path_factory.mktemp("plasma"), PLASMA)

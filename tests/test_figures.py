@@ -17,11 +17,10 @@ import pytest
 import yaml
 from scipy.constants import physical_constants as pc
 
-from boundscape import labels, plots, sweep
-from boundscape.cli import steps
+from boundscape import labels, plots
 from boundscape.cube import open_cube
-from boundscape.cube.collect import collect
 from boundscape.physics.presets import NO_PRESET, Nuclear, Plasma, Semiconductor
+from workflow_steps import build_cube
 
 pytestmark = pytest.mark.filterwarnings("error")
 BOHR = pc["Bohr radius"][0]
@@ -30,19 +29,7 @@ ROOT = Path(__file__).resolve().parents[1]
 
 def _build_cube(directory: Path, config: dict):
     """The cube of ``config``, computed with the workflow's steps in this process."""
-    config = sweep.validate_config(config)
-    plan = sweep.plan(config)
-    tiles, blocks = [], []
-    for kind, parts, spec, paths in (("solve-tile", plan.tiles, plan.tile_spec, tiles),
-                                     ("criticals", plan.critical_blocks, plan.critical_spec, blocks)):
-        for part in parts:
-            path = directory / f"{kind}_{part.name}.nc"
-            assert steps.main([kind, "--spec", json.dumps(spec(part)), "--output", str(path)]) == 0
-            paths.append(str(path))
-    collect(config, tiles, blocks, directory / "levels.nc")
-    return open_cube(directory / "levels.nc").load()
-
-
+    return build_cube(directory, config)[0]
 @pytest.fixture(scope="module")
 def yukawa_cube(tmp_path_factory):
     config = {"sweep": "figtest", "potential": {"family": "yukawa", "mass": 1.0},

@@ -17,10 +17,7 @@ import matplotlib.text
 import numpy as np
 import pytest
 
-from boundscape import sweep
 from boundscape.cli import steps
-from boundscape.cube import open_cube
-from boundscape.cube.collect import collect
 from boundscape.cube.physical import preset_of
 from boundscape.physics.presets import Semiconductor
 from boundscape.plots import condition_map, level_fan, render_all, threshold_map
@@ -30,6 +27,7 @@ from boundscape.plots.line_survival import line_survival_chart
 from boundscape.plots.resonance_fan import resonance_fan
 from boundscape.plots.style import RC
 from boundscape.plots.trajectories import read_trajectories
+from workflow_steps import build_cube
 
 pytestmark = pytest.mark.filterwarnings("error")
 
@@ -44,26 +42,9 @@ CONFIG = {"sweep": "hidden", "potential": {"family": "yukawa", "mass": 1.0}, "re
 
 def _build(directory: Path, config: dict):
     """(cube, trajectories path or None) of ``config`` through the workflow's steps, in process."""
-    config = sweep.validate_config(config)
-    plan = sweep.plan(config)
-    extra, traj = [], None
-    if config.get("resonances"):
-        traj = directory / "resonance_trajectories.json"
-        assert steps.main(["trajectories", "--spec", json.dumps(plan.critical_spec(plan.critical_blocks[0])),
-                           "--output", str(traj)]) == 0
-        extra = ["--trajectories", str(traj)]
-    tiles, blocks = [], []
-    for kind, parts, spec, paths in (("solve-tile", plan.tiles, plan.tile_spec, tiles),
-                                     ("criticals", plan.critical_blocks, plan.critical_spec, blocks)):
-        for part in parts:
-            path = directory / f"{kind}_{part.name}.nc"
-            assert steps.main([kind, "--spec", json.dumps(spec(part)), "--output", str(path), *extra]) == 0
-            paths.append(str(path))
-    collect(config, tiles, blocks, directory / "levels.nc")
-    with open_cube(directory / "levels.nc") as ds:
-        return ds.load(), traj
-
-
+    traced = bool(config.get("resonances"))
+    cube, _ = build_cube(directory, config, trajectories=traced)
+    return cube, (directory / "resonance_trajectories.json" if traced else None)
 @pytest.fixture(scope="module")
 def built(tmp_path_factory):
     return _build(tmp_path_factory.mktemp("hidden"), CONFIG)

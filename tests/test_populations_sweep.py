@@ -17,10 +17,8 @@ from scipy import constants as sc
 import boundscape as bs
 from boundscape import sweep
 from boundscape.cli.main import main as cli_entry
-from boundscape.cli import steps
-from boundscape.cube import open_cube
-from boundscape.cube.collect import collect
 from boundscape.errors import InputError
+from workflow_steps import build_cube
 
 HARTREE_EV = sc.physical_constants["Hartree energy in eV"][0]
 BOHR_M = sc.physical_constants["Bohr radius"][0]
@@ -37,19 +35,7 @@ NAMES = ("bound_state_count", "partition_function", "planck_larkin_partition_fun
 
 def build(directory, config):
     """The cube of ``config``, computed with the workflow's own steps in this process."""
-    config = sweep.validate_config(config)
-    plan = sweep.plan(config)
-    tiles, blocks = [], []
-    for kind, parts, spec, paths in (("solve-tile", plan.tiles, plan.tile_spec, tiles),
-                                     ("criticals", plan.critical_blocks, plan.critical_spec, blocks)):
-        for part in parts:
-            path = directory / f"{kind}_{part.name}.nc"
-            assert steps.main([kind, "--spec", json.dumps(spec(part)), "--output", str(path)]) == 0
-            paths.append(str(path))
-    collect(config, tiles, blocks, directory / "levels.nc")
-    return open_cube(directory / "levels.nc").load(), plan
-
-
+    return build_cube(directory, config)
 @pytest.fixture(scope="module")
 def cube(tmp_path_factory):
     return build(tmp_path_factory.mktemp("pops"), CONFIG)

@@ -16,14 +16,12 @@ import yaml
 from docutils.core import publish_parts
 
 from boundscape import sweep
-from boundscape.cli import steps
 from boundscape.cli.report_pages import landing_text, table_page, write_report_pages
-from boundscape.cube import open_cube
-from boundscape.cube.collect import collect
 from boundscape.cube.physical import preset_of
 from boundscape.plots import write_critical_csv
 from boundscape.report_layout import arrange, figure_label
 from boundscape.sweep.stored import stored_config
+from workflow_steps import build_cube
 
 REPO = Path(__file__).resolve().parents[1]
 CAPTIONS = REPO / "workflow" / "report"
@@ -37,21 +35,8 @@ PLASMA = {"sweep": "reader", "potential": {"family": "yukawa"},
 def plasma_cube(tmp_path_factory):
     """The cube of :data:`PLASMA` through the workflow's own steps, in this process."""
     directory = tmp_path_factory.mktemp("reader")
-    config = sweep.validate_config(json.loads(json.dumps(PLASMA)))
-    plan = sweep.plan(config)
-    tiles, blocks = [], []
-    for kind, parts, spec, paths in (("solve-tile", plan.tiles, plan.tile_spec, tiles),
-                                     ("criticals", plan.critical_blocks, plan.critical_spec, blocks)):
-        for part in parts:
-            path = directory / f"{kind}_{part.name}.nc"
-            assert steps.main([kind, "--spec", json.dumps(spec(part)), "--output", str(path)]) == 0
-            paths.append(str(path))
-    summary = directory / "summary.txt"
-    collect(config, tiles, blocks, directory / "levels.nc", summary)
-    with open_cube(directory / "levels.nc") as ds:
-        return ds.load(), directory
-
-
+    cube, _ = build_cube(directory, PLASMA, summary=directory / "summary.txt")
+    return cube, directory
 def _table(path):
     lines = Path(path).read_text().splitlines()
     header = [line for line in lines if line.startswith("#")]

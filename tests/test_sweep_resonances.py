@@ -8,7 +8,6 @@ here the cube must hold exactly what direct engine calls give.
 
 from __future__ import annotations
 
-import json
 import math
 import subprocess
 import sys
@@ -21,7 +20,6 @@ import yaml
 
 import boundscape as bs
 from boundscape import sweep
-from boundscape.cli import steps
 from boundscape.cube import add_physical_coordinates, open_cube, write_cube
 from boundscape.cube.collect import collect
 from boundscape.errors import InputError
@@ -30,6 +28,7 @@ from boundscape.plots.resonance_fan import resonance_fan
 from boundscape.plots.style import RC
 from boundscape.plots.threshold_map import threshold_map
 from boundscape.sweep.resonance_tiles import BOUND, RESONANCE_FLAGS
+from workflow_steps import solve_parts
 
 REPO = Path(__file__).resolve().parents[1]
 # Yukawa, Z = 1 and 2, λ from 2.2 to 12 bohr: λ = 4.4 and 8.7 lie just below the 2p and 3p
@@ -44,27 +43,10 @@ PAST = ("resonance_energy", "resonance_width", "virtual_state_kappa", "resonance
 
 
 def build(directory: Path, config: dict, shared_trajectories=True):
-    """The cube of ``config`` through the workflow's own steps, in this process."""
-    config = sweep.validate_config(config)
-    plan = sweep.plan(config)
-    directory.mkdir(parents=True, exist_ok=True)
-    extra = []
-    if shared_trajectories:
-        traj = directory / "trajectories.json"
-        assert steps.main(["trajectories", "--spec", json.dumps(plan.critical_spec(plan.critical_blocks[0])),
-                           "--output", str(traj)]) == 0
-        extra = ["--trajectories", str(traj)]
-    tiles, blocks = [], []
-    for kind, parts, spec, paths in (("solve-tile", plan.tiles, plan.tile_spec, tiles),
-                                     ("criticals", plan.critical_blocks, plan.critical_spec, blocks)):
-        for part in parts:
-            path = directory / f"{kind}_{part.name}.nc"
-            assert steps.main([kind, "--spec", json.dumps(spec(part)), "--output", str(path), *extra]) == 0
-            paths.append(str(path))
+    """The cube of ``config`` through the workflow's own steps, in this process (its path)."""
+    config, plan, tiles, blocks = solve_parts(directory, config, trajectories=shared_trajectories)
     collect(config, tiles, blocks, directory / "levels.nc")
     return directory / "levels.nc"
-
-
 def load(path):
     with open_cube(path) as ds:
         return ds.load()

@@ -22,13 +22,11 @@ import yaml
 from scipy.special import spherical_jn, spherical_yn
 
 from boundscape import sweep
-from boundscape.cli import steps
-from boundscape.cube import open_cube
-from boundscape.cube.collect import collect
 from boundscape.cube.display import readable
 from boundscape.errors import InputError
 from boundscape.plots.scattering import inverse_length_figure, phase_shift_figure, zero_crossings
 from boundscape.plots.style import RC
+from workflow_steps import build_cube
 
 REPO = Path(__file__).resolve().parents[1]
 SCATTERING_VARS = ("scattering_length", "inverse_scattering_length", "effective_range", "scattering_status")
@@ -52,21 +50,7 @@ YUKAWA = {"sweep": "yu", "potential": {"family": "yukawa", "mass": 1.0},
 
 def build(directory: Path, config: dict):
     """The cube of ``config`` through the workflow's own steps, in this process."""
-    config = sweep.validate_config(json.loads(json.dumps(config)))
-    plan = sweep.plan(config)
-    directory.mkdir(parents=True, exist_ok=True)
-    tiles, blocks = [], []
-    for kind, parts, spec, paths in (("solve-tile", plan.tiles, plan.tile_spec, tiles),
-                                     ("criticals", plan.critical_blocks, plan.critical_spec, blocks)):
-        for part in parts:
-            path = directory / f"{kind}_{part.name}.nc"
-            assert steps.main([kind, "--spec", json.dumps(spec(part)), "--output", str(path)]) == 0
-            paths.append(str(path))
-    collect(config, tiles, blocks, directory / "levels.nc")
-    with open_cube(directory / "levels.nc") as ds:
-        return ds.load()
-
-
+    return build_cube(directory, config)[0]
 @pytest.fixture(scope="module")
 def square(tmp_path_factory):
     return build(tmp_path_factory.mktemp("square"), SQUARE)
