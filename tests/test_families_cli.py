@@ -5,7 +5,6 @@ one-scale law."""
 
 from __future__ import annotations
 
-import json
 import math
 
 import numpy as np
@@ -16,21 +15,11 @@ from scipy.special import spherical_jn
 
 import boundscape as bs
 from boundscape.cli import main as cli_main
+from cli_calls import message, run_json
 
 HBAR_C = pc["reduced Planck constant times c in MeV fm"][0]
 
 
-def run_json(capsys, *argv):
-    assert cli_main([*argv, "--format", "json"]) == 0
-    return json.loads(capsys.readouterr().out)
-
-
-def message(capsys, *argv):
-    """The one-line error of a refused command (exit status 2)."""
-    assert cli_main(list(argv)) == 2
-    text = capsys.readouterr().err.strip()
-    assert text.startswith("boundscape: error: ") and "\n" not in text, text
-    return text
 
 
 def test_param_reaches_levels_critical_resonances_and_lines(capsys):

@@ -17,6 +17,7 @@ from scipy.optimize import brentq
 
 import boundscape as bs
 from boundscape.cli import main as cli_main
+from cli_calls import message, run_json
 
 HBAR_C = pc["reduced Planck constant times c in MeV fm"][0]  # CODATA, scipy.constants
 BOHR_M = pc["Bohr radius"][0]
@@ -26,17 +27,6 @@ MU = 469.4591  # MeV/c², about half a nucleon mass
 NUCLEAR = ["--preset", "nuclear", "--reduced-mass", str(MU), "--length-unit", "fm"]
 
 
-def run_json(capsys, *argv):
-    assert cli_main([*argv, "--format", "json"]) == 0
-    return json.loads(capsys.readouterr().out)
-
-
-def message(capsys, *argv):
-    """The one-line error of a refused command (exit status 2)."""
-    assert cli_main(list(argv)) == 2
-    text = capsys.readouterr().err.strip()
-    assert text.startswith("boundscape: error: ") and "\n" not in text, text
-    return text
 
 
 # -- the nuclear preset: depths in MeV, lengths in fm --------------------------------------------
