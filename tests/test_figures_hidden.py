@@ -328,3 +328,20 @@ def test_populations_and_scattering_figures_have_mathtext_and_legend_entries(tmp
     assert {name: texts for name, texts in found.items() if texts} == {}
     unexplained = {name: _unexplained_lines(fig) for name, fig in figures.items()}
     assert {name: lines for name, lines in unexplained.items() if lines} == {}
+
+
+def test_no_figure_module_uses_pyplot():
+    # pyplot keeps a global current figure: a figure made through it becomes the canvas of a
+    # user's next xarray .plot() in the same session (seen with the populations figures).
+    import ast
+
+    import boundscape.plots
+
+    offenders = []
+    for path in Path(boundscape.plots.__file__).parent.glob("*.py"):
+        for node in ast.walk(ast.parse(path.read_text())):
+            names = ([a.name for a in node.names] if isinstance(node, ast.Import) else
+                     [f"{node.module}.{a.name}" for a in node.names] if isinstance(node, ast.ImportFrom) and node.module
+                     else [])
+            offenders += [(path.name, n) for n in names if n.startswith("matplotlib.pyplot")]
+    assert offenders == []

@@ -5,7 +5,8 @@ fraction against the total density at each T, with the density where the 1s is l
 
 from __future__ import annotations
 
-import matplotlib.pyplot as plt
+import matplotlib
+from matplotlib.figure import Figure
 import numpy as np
 from matplotlib.lines import Line2D
 
@@ -50,9 +51,9 @@ def balance_figure(ds):
     x_label, free_name, free_label, all_of, y_label, diagonal, who = KINDS[dim]
     n_d, T = ds[dim].values, ds["temperature"].values
     zs = ds["strength"].values
-    colours = plt.get_cmap("viridis")(np.linspace(0.0, 0.85, max(T.size, 1)))
-    fig, axes = plt.subplots(2, zs.size, figsize=(4.2 * zs.size + 1.8, 6.2), layout="constrained", squeeze=False,
-                             sharex=True)
+    colours = matplotlib.colormaps.get_cmap("viridis")(np.linspace(0.0, 0.85, max(T.size, 1)))
+    fig = Figure(figsize=(4.2 * zs.size + 1.8, 6.2), layout="constrained")  # no pyplot: no global figure
+    axes = fig.subplots(2, zs.size, squeeze=False, sharex=True)
     mask = invalid_mask(ds)
     for i, z in enumerate(zs):
         top, bottom = axes[0, i], axes[1, i]

@@ -4,7 +4,8 @@ the continuum lowering against n_e beside Stewart–Pyatt and Ecker–Kröll."""
 
 from __future__ import annotations
 
-import matplotlib.pyplot as plt
+import matplotlib
+from matplotlib.figure import Figure
 import numpy as np
 from matplotlib.lines import Line2D
 
@@ -56,7 +57,8 @@ def ionization_map(ds, index: int):
     z = ds["strength"].values[index]
     n_e, T_e = ds["electron_density"].values, ds["electron_temperature"].values
     fraction = ds["ionized_fraction"].values[index]  # (n_e, T_e)
-    fig, ax = plt.subplots(figsize=(6.4, 5.2), layout="constrained")
+    fig = Figure(figsize=(6.4, 5.2), layout="constrained")  # no pyplot: no global figure left behind
+    ax = fig.subplots()
     x_edges, y_edges = cell_edges(n_e), cell_edges(T_e)
     mesh = ax.pcolormesh(x_edges, y_edges, fraction.T, cmap="viridis", vmin=0.0, vmax=1.0, shading="flat")
     fig.colorbar(mesh, ax=ax, label=r"ionized fraction $n_Z/(n_Z + n_{Z-1})$")
@@ -90,13 +92,13 @@ def ionization_map(ds, index: int):
 
 
 def _temperature_colours(count):
-    return plt.get_cmap("plasma")(np.linspace(0.0, 0.85, max(count, 1)))
+    return matplotlib.colormaps.get_cmap("plasma")(np.linspace(0.0, 0.85, max(count, 1)))
 
 
 def _per_z_axes(ds, ylabel):
     zs = ds["strength"].values
-    fig, axes = plt.subplots(1, zs.size, figsize=(3.6 * zs.size + 1.6, 4.0), layout="constrained", squeeze=False,
-                             sharey=True)
+    fig = Figure(figsize=(3.6 * zs.size + 1.6, 4.0), layout="constrained")  # no pyplot: no global figure
+    axes = fig.subplots(1, zs.size, squeeze=False, sharey=True)
     for ax, z in zip(axes[0], zs):
         ax.set_xscale("log"), ax.set_yscale("log")
         ax.set_xlabel(DENSITY)

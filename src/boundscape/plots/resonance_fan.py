@@ -8,6 +8,7 @@ grid cells are drawn, and the figure says which states have none."""
 
 from __future__ import annotations
 
+import dataclasses
 import math
 
 import matplotlib
@@ -20,7 +21,7 @@ from matplotlib.figure import Figure
 from ..labels import state_label
 from ..physics.presets import NO_PRESET
 from .level_fan import LABEL_WIDTH, ROW_POINTS, place_in_rows
-from .style import STATE_FONTSIZE, family_title, shade_invalid_x, tidy_log_axis, unit_names, with_note
+from .style import STATE_FONTSIZE, energy_unit, family_title, shade_invalid_x, tidy_log_axis, unit_names, with_note
 from .trajectories import agrees, length_to_condition, read_trajectories, state_path
 from .views import fan_view
 
@@ -71,17 +72,20 @@ def resonance_fan(ds, strengths=None, preset=NO_PRESET, trajectories=None):
         except (OSError, ValueError) as exc:  # the figure is still drawn, from the cells, and says why
             unread = f"the trajectories did not read ({exc}): resonances at the grid cells only"
     mass = float(ds.attrs.get("mass", 1.0))
+    # energies in the preset's unit (eV, meV, MeV) where it has one, else the cube's own
+    e_unit, e_factor = energy_unit(ds, preset)
+    e_unit, e_factor = (e_unit, e_factor) if e_unit is not None else (unit_names(preset)[1], 1.0)
     invalid = None
     for row, fan in enumerate(view.rows):
         cell = fan.cube
         z = fan.key
-        e_r = cell["resonance_energy"].values
+        e_r = cell["resonance_energy"].values * e_factor
         finite = e_r[np.isfinite(e_r) & (e_r > 0)]
         # The symlog axis is linear within ±linthresh: about the smallest resonance energy shown.
         linthresh = 10.0 ** math.floor(math.log10(finite.min())) if finite.size else 1e-4
-        bound = cell["energy"].values
+        bound = cell["energy"].values * e_factor
         deepest = np.nanmax(-bound[np.isfinite(bound)]) if np.isfinite(bound).any() else 1.0
-        highest = np.nanmax((cell["resonance_energy"] + cell["resonance_width"] / 2).values) \
+        highest = e_factor * np.nanmax((cell["resonance_energy"] + cell["resonance_width"] / 2).values) \
             if finite.size else linthresh
         for col, l in enumerate(ls):
             ax = axes[row, col]
@@ -97,12 +101,12 @@ def resonance_fan(ds, strengths=None, preset=NO_PRESET, trajectories=None):
                     drawn_bound[(z, name)] = (lam[keep], e[keep])
                     ax.plot(lam[keep], e[keep], "-", color=colors[k], lw=1.2, zorder=2, gid=f"bound:{name}")
                 er = e_r[:, k_l, k]
-                width = cell["resonance_width"].values[:, k_l, k]
+                width = cell["resonance_width"].values[:, k_l, k] * e_factor
                 status = cell["resonance_status"].values[:, k_l, k]
                 has = np.isfinite(er) & np.isfinite(width)
                 lc = math.nan if fan.critical is None else float(fan.critical.sel(l=l, n_r=n_r))
                 lost_here = math.isfinite(lc) and lam.min() <= lc <= lam.max()
-                path = _path(traced.get((l, int(n_r))), cell, lam, mass)
+                path = _path(traced.get((l, int(n_r))), cell, lam, mass, e_factor)
                 if path is not None and not agrees(path, lam, er):
                     mismatched.append(name)
                     path = None
@@ -176,13 +180,13 @@ def resonance_fan(ds, strengths=None, preset=NO_PRESET, trajectories=None):
     fig.legend(handles=handles, loc="outside right center", fontsize=8, title="$n = n_r + l + 1$", title_fontsize=8)
     fig.supxlabel(with_note(view.x_label, "; ".join(filter(None, [
         view.omitted, _trajectory_note(trajectories, unread, traced, hidden, mismatched)]))), fontsize="medium")
-    fig.supylabel(f"energy E ({unit_names(preset)[1]}; symmetric log scale)", fontsize="medium")
+    fig.supylabel(f"energy E ({e_unit}; symmetric log scale)", fontsize="medium")
     fig.suptitle(f"Resonance fan of the {family_title(ds)}: each state bound (E < 0), then past its threshold a "
                  "resonance $E_r - i\\Gamma/2$", fontsize=9)
     return fig, {"resonances": drawn_res, "bound": drawn_bound, "paths": drawn_paths, "hidden": hidden}
 
 
-def _path(trajectory, cell, x, mass):
+def _path(trajectory, cell, x, mass, e_factor=1.0):
     """A state's trajectory on one row's x axis (None without one): the row's stored screening
     lengths map λ onto x (the identity in a sweep over λ)."""
     if trajectory is None or "strength" not in cell.coords or cell["strength"].size != 1:
@@ -190,7 +194,10 @@ def _path(trajectory, cell, x, mass):
     lengths = cell["screening_length"].values
     if lengths.shape != x.shape or not (np.isfinite(lengths).all() and (lengths > 0).all()):
         return None
-    return state_path(trajectory, float(cell["strength"]), mass, length_to_condition(lengths, x))
+    path = state_path(trajectory, float(cell["strength"]), mass, length_to_condition(lengths, x))
+    if path is None or e_factor == 1.0:
+        return path
+    return dataclasses.replace(path, e_r=path.e_r * e_factor, width=path.width * e_factor)
 
 
 def draw_trajectory(ax, path, color, name):
