@@ -1,4 +1,4 @@
-"""The engine's error estimate of a critical screening length (issue 21: the loss table's error
+"""The engine's error estimate of a critical screening length (the loss table's error
 column and the cube's ``critical_screening_length_error``), against exact critical lengths."""
 
 from __future__ import annotations

@@ -247,7 +247,7 @@ def test_workflow_renders_figures_and_builds_the_report(tmp_path):
     assert "Could not detect mimetype" not in run.stdout + run.stderr
     html = (out / "report.html").read_text()
     # categories in a reader's order, readable labels, the run's pages inline (HTML), the first
-    # page composed from the cube (issue 21)
+    # page composed from the cube
     for text in ("1. Maps", "2. Fans", "3. Conditions", "4. Tables", "5. Run", "Threshold map, l = 0",
                  "threshold_map_l0.png", "run_summary.html", "configuration.html", "critical_screening_lengths.html",
                  "sweep_config.yaml", "the exact number of bound states of this l", "Reduced mass", "Scope",

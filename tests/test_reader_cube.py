@@ -1,4 +1,4 @@
-"""What a reader opens in the cube (issue 21): the run summary counts every flag of every
+"""What a reader opens in the cube: the run summary counts every flag of every
 variable, and the header gives each unit value under one name, from one constant."""
 
 from __future__ import annotations

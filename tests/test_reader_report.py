@@ -1,4 +1,4 @@
-"""What a reader opens (issue 21): the loss table's header, error column and digits; the stored
+"""What a reader opens: the loss table's header, error column and digits; the stored
 configuration; the report's captions composed for the sweep's preset and l; its categories, labels,
 landing text and the pages it shows inline."""
 

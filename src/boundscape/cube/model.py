@@ -129,7 +129,7 @@ def build_cube(axes, levels, criticals, *, provenance, layout=None):
     }
     # The unit each number is in, as plain factors: a script converts with these, whatever the
     # preset (a preset that reads the cube in other units rewrites them, see physical.py).
-    # One name per unit value (issue 21): energy_unit_in_J/eV and length_unit_in_m, nothing else.
+    # One name per unit value: energy_unit_in_J/eV and length_unit_in_m, nothing else.
     energy_attrs = {"units": HARTREE_UDUNITS, "energy_unit_in_J": HARTREE_J, "energy_unit_in_eV": HARTREE_EV}
     length_attrs = {"units": BOHR_UDUNITS, "length_unit_in_m": BOHR_M}
     coords["screening_length"][2].update(length_attrs)

@@ -62,7 +62,7 @@ def critical_rows(ds, preset=NO_PRESET):
                     if unit is None:  # atomic units: the cube's own bohr
                         row["critical_screening_length_bohr"] = lc
                     columns = preset.critical_length_columns(engine_z, lc, mass)
-                    # the engine's error estimate of λ_c, in the same unit (issue 21)
+                    # the engine's error estimate of λ_c, in the same unit
                     columns[f"critical_screening_length_error_{unit or 'bohr'}"] = error * (factor or 1.0)
                     at = {**where, **({t[0]: t[1]} if t is not None else {})}
                     if loss is not None:  # the loss density the cube stores
