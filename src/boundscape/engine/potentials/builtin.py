@@ -25,6 +25,20 @@ class ScreenedCoulomb(Family):
         return Potential("coulomb", pot.strength, math.inf, pot.mass)
 
 
+class DepthWell(Family):
+    """The wells of depth V0 (strength) and radius R (the length): their scales are the depth and
+    the smaller of R and the decay length 1/√(2μV0) of a level at the well's bottom."""
+
+    def energy_scale(self, pot):
+        return pot.strength
+
+    def length_scale(self, pot):
+        return min(pot.screening_length, 1.0 / math.sqrt(2 * pot.mass * pot.strength))
+
+    def critical_length_start(self, strength, mass, params):
+        return 1.0 / math.sqrt(2 * mass * strength)
+
+
 @register
 class Coulomb(Family):
     name, formula_text = "coulomb", "-Z/r"
@@ -122,7 +136,7 @@ class IonSphere(ScreenedCoulomb):
 
 
 @register
-class SquareWell(Family):
+class SquareWell(DepthWell):
     name, formula_text = "square_well", "-Z for r<λ, 0 outside"
     display_name = "square well"
     strength_meaning, length_meaning = "depth (hartree)", "radius λ (bohr)"
@@ -141,15 +155,6 @@ class SquareWell(Family):
 
     def jumps_at_support(self, pot):
         return True
-
-    def energy_scale(self, pot):
-        return pot.strength
-
-    def length_scale(self, pot):
-        return min(pot.screening_length, 1.0 / math.sqrt(2 * pot.mass * pot.strength))
-
-    def critical_length_start(self, strength, mass, params):
-        return 1.0 / math.sqrt(2 * mass * strength)
 
     def critical_strength_start(self, screening_length, mass, params):
         return 1.0 / (2 * mass * screening_length * screening_length)

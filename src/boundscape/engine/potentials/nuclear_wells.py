@@ -18,6 +18,7 @@ import numpy as np
 
 from ...checks import positive
 from ...errors import InputError
+from .builtin import DepthWell
 from .cell_potential import Potential
 from .family import TAIL_EXPONENT, Family, Parameter, register
 
@@ -47,7 +48,7 @@ def _not_negative(name, value):
 
 
 @register
-class WoodsSaxon(Family):
+class WoodsSaxon(DepthWell):
     """The Woods–Saxon well, V(r) = −V₀ / (1 + e^{(r−R)/a}) (Woods & Saxon 1954).
 
     strength = V₀, the depth (hartree); screening_length = R, the half-depth radius (bohr); own
@@ -87,15 +88,6 @@ class WoodsSaxon(Family):
 
     def support(self, pot):
         return float(pot.screening_length + TAIL_EXPONENT * pot.params["diffuseness"])
-
-    def energy_scale(self, pot):
-        return pot.strength
-
-    def length_scale(self, pot):
-        return min(pot.screening_length, 1.0 / math.sqrt(2 * pot.mass * pot.strength))
-
-    def critical_length_start(self, strength, mass, params):
-        return 1.0 / math.sqrt(2 * mass * strength)
 
     def critical_strength_start(self, screening_length, mass, params):
         width = screening_length + params["diffuseness"]
